@@ -1,0 +1,98 @@
+// A plain-object front to TransectSolver, for one-off solves (tests, profiles, reports).
+// The district pipeline uses TransectSolver directly so that its inner loop allocates nothing.
+import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver, type SolveStatusName } from './strip-solver.js';
+
+export interface ZoneSpec {
+  lengthM: number;
+  kMPerDay: number;
+  /** Areal recharge (m/d); negative for net evaporation or pumping. */
+  rechargeMPerDay: number;
+  groundM: number;
+}
+
+export interface StripProblem {
+  stageAM: number;
+  stageBM: number;
+  baseM: number;
+  /** Zones in series from line a to line b. */
+  zones: ZoneSpec[];
+}
+
+export interface StripSolution {
+  ok: true;
+  widthM: number;
+  seepageAM2PerDay: number;
+  seepageBM2PerDay: number;
+  peakHeadM: number;
+  peakOffsetM: number;
+  divideOffsetM: number;
+  minDepthM: number;
+  minDepthOffsetM: number;
+  meanThicknessM: number;
+  dupuitRatio: number;
+  massResidualM2PerDay: number;
+  /** Water-table elevation (m) at distance xM from line a. */
+  headAt(xM: number): number;
+  /** Flow towards line b (m^2/d) at distance xM from line a. */
+  fluxAt(xM: number): number;
+  /** Length (m) where the water table is less than depthM below ground. */
+  shallowLengthM(depthM: number): number;
+}
+
+export interface StripFailure {
+  ok: false;
+  reason: SolveStatusName;
+  detail: string;
+}
+
+export function solveStrip(problem: StripProblem): StripSolution | StripFailure {
+  const solver = new TransectSolver(Math.max(1, problem.zones.length));
+  problem.zones.forEach((zone, j) => {
+    solver.lengthM[j] = zone.lengthM;
+    solver.kMPerDay[j] = zone.kMPerDay;
+    solver.rechargeMPerDay[j] = zone.rechargeMPerDay;
+    solver.groundM[j] = zone.groundM;
+  });
+  const status = solver.solve(problem.stageAM, problem.stageBM, problem.baseM, problem.zones.length);
+  if (status !== SOLVE_OK) {
+    const reason = SOLVE_STATUS_NAMES[status];
+    return { ok: false, reason, detail: describeFailure(reason, problem, solver.failedZone) };
+  }
+  return {
+    ok: true,
+    widthM: solver.widthM,
+    seepageAM2PerDay: solver.seepageAM2PerDay,
+    seepageBM2PerDay: solver.seepageBM2PerDay,
+    peakHeadM: solver.peakHeadM,
+    peakOffsetM: solver.peakOffsetM,
+    divideOffsetM: solver.divideOffsetM,
+    minDepthM: solver.minDepthM,
+    minDepthOffsetM: solver.minDepthOffsetM,
+    meanThicknessM: solver.meanThicknessM,
+    dupuitRatio: solver.dupuitRatio,
+    massResidualM2PerDay: solver.massResidualM2PerDay,
+    headAt: (xM) => solver.headAt(xM),
+    fluxAt: (xM) => solver.fluxAt(xM),
+    shallowLengthM: (depthM) => solver.shallowLengthM(depthM),
+  };
+}
+
+export function describeFailure(reason: SolveStatusName, problem: StripProblem, zone: number): string {
+  const where = zone >= 0 ? ` in zone ${zone + 1} of ${problem.zones.length}` : '';
+  switch (reason) {
+    case 'no-zones':
+      return 'the transect crosses no aquifer zone';
+    case 'non-finite-input':
+      return `an input is not a finite number${where}`;
+    case 'non-positive-length':
+      return `zone length ${problem.zones[zone]?.lengthM} m is not positive${where}`;
+    case 'non-positive-conductivity':
+      return `hydraulic conductivity ${problem.zones[zone]?.kMPerDay} m/d is not positive${where}`;
+    case 'stage-at-or-below-base':
+      return `a line's stage (a ${problem.stageAM} m, b ${problem.stageBM} m) is at or below the aquifer base ${problem.baseM} m`;
+    case 'aquifer-dries':
+      return `the water table would fall to the aquifer base${where}: the Dupuit-Forchheimer strip solution does not hold`;
+    default:
+      return reason;
+  }
+}

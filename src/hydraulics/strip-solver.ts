@@ -1,0 +1,274 @@
+// Steady Dupuit-Forchheimer flow in an unconfined aquifer on a horizontal base, across one
+// transect from line a (x = 0) to line b (x = L), through zones in series with areal recharge.
+//
+// With u = h^2 (h = saturated thickness above the base) the flow equation (K/2) u'' + N = 0 is
+// linear in u (W.W. Woessner and E.P. Poeter (2020), Hydrogeologic Properties of Earth Materials
+// and Principles of Groundwater Flow, section 7.3). Inside zone j of length l, measured by t from
+// its left edge, with U_j, U_j+1 the values of u at its edges and c = N/K:
+//   u(t) = U_j + (U_j+1 - U_j) t / l + c t (l - t)
+//   q(t) = -(K/2) du/dt = -(K/2)(U_j+1 - U_j)/l - N l/2 + N t        (flow towards +x)
+// u and q are continuous across zone edges, which gives a symmetric tridiagonal system in the
+// interior edge values, solved here exactly in O(zones) with the Thomas algorithm.
+//
+// The solver keeps its inputs, scratch and results in typed arrays sized once, so a solve
+// allocates nothing: it runs in the inner loop of every transect of a district.
+
+export const SOLVE_OK = 0;
+export const SOLVE_NON_FINITE = 1;
+export const SOLVE_NO_ZONES = 2;
+export const SOLVE_NON_POSITIVE_LENGTH = 3;
+export const SOLVE_NON_POSITIVE_K = 4;
+export const SOLVE_STAGE_AT_OR_BELOW_BASE = 5;
+export const SOLVE_AQUIFER_DRIES = 6;
+
+export const SOLVE_STATUS_NAMES = [
+  'ok',
+  'non-finite-input',
+  'no-zones',
+  'non-positive-length',
+  'non-positive-conductivity',
+  'stage-at-or-below-base',
+  'aquifer-dries',
+] as const;
+export type SolveStatusName = (typeof SOLVE_STATUS_NAMES)[number];
+
+// 5-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz and Stegun, Handbook of
+// Mathematical Functions, table 25.4), for the mean saturated thickness.
+const GL_NODES = [0, -0.5384693101056831, 0.5384693101056831, -0.906179845938664, 0.906179845938664];
+const GL_WEIGHTS = [0.5688888888888889, 0.4786286704993665, 0.4786286704993665, 0.2369268850561891, 0.2369268850561891];
+
+export class TransectSolver {
+  readonly maxZones: number;
+  /** Inputs per zone, filled by the caller before `solve`, in order from line a. */
+  readonly lengthM: Float64Array;
+  readonly kMPerDay: Float64Array;
+  readonly rechargeMPerDay: Float64Array;
+  readonly groundM: Float64Array;
+
+  /** u = h^2 (m^2) at zone edges, and the edges' distance from line a (m). */
+  readonly uEdgeM2: Float64Array;
+  readonly xEdgeM: Float64Array;
+  private readonly scratchC: Float64Array;
+  private readonly scratchD: Float64Array;
+
+  // Results of the last successful solve.
+  zoneCount = 0;
+  baseM = 0;
+  widthM = 0;
+  /** Seepage per metre of line (m^2/d); positive when that line loses water to the aquifer. */
+  seepageAM2PerDay = NaN;
+  seepageBM2PerDay = NaN;
+  /** Highest water table: elevation (m) and distance from line a (m); it may sit at a line. */
+  peakHeadM = NaN;
+  peakOffsetM = NaN;
+  /** Where the flow divides (q = 0) inside the transect, or NaN when it does not. */
+  divideOffsetM = NaN;
+  /** Smallest depth of the water table below ground (m; negative when above ground). */
+  minDepthM = NaN;
+  minDepthOffsetM = NaN;
+  meanThicknessM = NaN;
+  /** L / mean saturated thickness; Dupuit-Forchheimer is fair when at least about 5 (common practice). */
+  dupuitRatio = NaN;
+  /** seepage a + seepage b + sum(N l): zero up to rounding when the solve is right (m^2/d). */
+  massResidualM2PerDay = NaN;
+  /** Zone where the last failed solve found its problem, or -1. */
+  failedZone = -1;
+
+  constructor(maxZones = 64) {
+    if (!(maxZones >= 1)) throw new Error(`Unexpected maxZones value: ${maxZones}.`);
+    this.maxZones = maxZones;
+    this.lengthM = new Float64Array(maxZones);
+    this.kMPerDay = new Float64Array(maxZones);
+    this.rechargeMPerDay = new Float64Array(maxZones);
+    this.groundM = new Float64Array(maxZones);
+    this.uEdgeM2 = new Float64Array(maxZones + 1);
+    this.xEdgeM = new Float64Array(maxZones + 1);
+    this.scratchC = new Float64Array(maxZones + 1);
+    this.scratchD = new Float64Array(maxZones + 1);
+  }
+
+  /** Solves for the first `zoneCount` zones; returns SOLVE_OK or the reason it cannot. */
+  solve(stageAM: number, stageBM: number, baseM: number, zoneCount: number): number {
+    this.failedZone = -1;
+    this.seepageAM2PerDay = this.seepageBM2PerDay = NaN;
+    if (!(zoneCount >= 1 && zoneCount <= this.maxZones)) return SOLVE_NO_ZONES;
+    if (!Number.isFinite(stageAM) || !Number.isFinite(stageBM) || !Number.isFinite(baseM)) return SOLVE_NON_FINITE;
+    const { lengthM, kMPerDay, rechargeMPerDay, groundM, uEdgeM2, xEdgeM } = this;
+    let x = 0;
+    xEdgeM[0] = 0;
+    for (let j = 0; j < zoneCount; j++) {
+      const l = lengthM[j], k = kMPerDay[j], n = rechargeMPerDay[j], g = groundM[j];
+      this.failedZone = j;
+      if (!Number.isFinite(l) || !Number.isFinite(k) || !Number.isFinite(n) || !Number.isFinite(g)) return SOLVE_NON_FINITE;
+      if (!(l > 0)) return SOLVE_NON_POSITIVE_LENGTH;
+      if (!(k > 0)) return SOLVE_NON_POSITIVE_K;
+      x += l;
+      xEdgeM[j + 1] = x;
+    }
+    this.failedZone = -1;
+    if (!(stageAM > baseM) || !(stageBM > baseM)) return SOLVE_STAGE_AT_OR_BELOW_BASE;
+
+    const h0 = stageAM - baseM, hL = stageBM - baseM;
+    uEdgeM2[0] = h0 * h0;
+    uEdgeM2[zoneCount] = hL * hL;
+    this.solveInteriorEdges(zoneCount);
+
+    this.zoneCount = zoneCount;
+    this.baseM = baseM;
+    this.widthM = x;
+
+    // Flux towards +x at the a end of zone 0 and at the b end of the last zone.
+    const l0 = lengthM[0], last = zoneCount - 1, lN = lengthM[last];
+    const q0 = (-kMPerDay[0] / (2 * l0)) * (uEdgeM2[1] - uEdgeM2[0]) - (rechargeMPerDay[0] * l0) / 2;
+    const qL = (-kMPerDay[last] / (2 * lN)) * (uEdgeM2[zoneCount] - uEdgeM2[last]) + (rechargeMPerDay[last] * lN) / 2;
+    this.seepageAM2PerDay = q0;
+    this.seepageBM2PerDay = -qL;
+    let rechargeTotal = 0;
+    for (let j = 0; j < zoneCount; j++) rechargeTotal += rechargeMPerDay[j] * lengthM[j];
+    this.massResidualM2PerDay = q0 - qL + rechargeTotal;
+
+    return this.scanProfile(zoneCount);
+  }
+
+  // Thomas algorithm on (a_j-1 + a_j) U_j - a_j-1 U_j-1 - a_j U_j+1 = N_j-1 l_j-1 + N_j l_j, a = K/l.
+  private solveInteriorEdges(zoneCount: number): void {
+    const { lengthM, kMPerDay, rechargeMPerDay, uEdgeM2, scratchC, scratchD } = this;
+    const unknowns = zoneCount - 1;
+    if (unknowns === 0) return;
+    for (let i = 1; i <= unknowns; i++) {
+      const aLeft = kMPerDay[i - 1] / lengthM[i - 1];
+      const aRight = kMPerDay[i] / lengthM[i];
+      let rhs = rechargeMPerDay[i - 1] * lengthM[i - 1] + rechargeMPerDay[i] * lengthM[i];
+      let diag = aLeft + aRight;
+      if (i === 1) rhs += aLeft * uEdgeM2[0];
+      else {
+        // eliminate U_i-1 with the previous row (its upper coefficient is -aLeft)
+        diag -= aLeft * scratchC[i - 1];
+        rhs += aLeft * scratchD[i - 1];
+      }
+      if (i === unknowns) rhs += aRight * uEdgeM2[zoneCount];
+      scratchC[i] = aRight / diag;
+      scratchD[i] = rhs / diag;
+    }
+    uEdgeM2[unknowns] = scratchD[unknowns];
+    for (let i = unknowns - 1; i >= 1; i--) uEdgeM2[i] = scratchD[i] + scratchC[i] * uEdgeM2[i + 1];
+  }
+
+  // Peak, divide, driest point, smallest depth and mean thickness, zone by zone.
+  private scanProfile(zoneCount: number): number {
+    const { lengthM, kMPerDay, rechargeMPerDay, groundM, uEdgeM2, xEdgeM } = this;
+    let peakU = -Infinity, peakX = 0, minU = Infinity;
+    let minDepth = Infinity, minDepthX = 0, thicknessIntegral = 0;
+    this.divideOffsetM = NaN;
+    for (let j = 0; j < zoneCount; j++) {
+      const l = lengthM[j], c = rechargeMPerDay[j] / kMPerDay[j];
+      const uLeft = uEdgeM2[j], uRight = uEdgeM2[j + 1], slope = (uRight - uLeft) / l;
+      let zoneMaxU = uLeft, zoneMaxT = 0, zoneMinU = uLeft;
+      if (uRight > zoneMaxU) { zoneMaxU = uRight; zoneMaxT = l; }
+      if (uRight < zoneMinU) zoneMinU = uRight;
+      if (c !== 0) {
+        // du/dt = slope + c l - 2 c t vanishes at the divide
+        const tStar = l / 2 + slope / (2 * c);
+        if (tStar > 0 && tStar < l) {
+          const uStar = uLeft + slope * tStar + c * tStar * (l - tStar);
+          if (c > 0 && uStar > zoneMaxU) { zoneMaxU = uStar; zoneMaxT = tStar; }
+          if (c < 0 && uStar < zoneMinU) zoneMinU = uStar;
+          this.divideOffsetM = xEdgeM[j] + tStar;
+        }
+      }
+      if (zoneMinU < minU) minU = zoneMinU;
+      if (zoneMinU <= 0) { this.failedZone = j; return SOLVE_AQUIFER_DRIES; }
+      if (zoneMaxU > peakU) { peakU = zoneMaxU; peakX = xEdgeM[j] + zoneMaxT; }
+      const depth = groundM[j] - (this.baseM + Math.sqrt(zoneMaxU));
+      if (depth < minDepth) { minDepth = depth; minDepthX = xEdgeM[j] + zoneMaxT; }
+      for (let g = 0; g < 5; g++) {
+        const t = (l / 2) * (1 + GL_NODES[g]);
+        thicknessIntegral += (l / 2) * GL_WEIGHTS[g] * Math.sqrt(uLeft + slope * t + c * t * (l - t));
+      }
+    }
+    this.peakHeadM = this.baseM + Math.sqrt(peakU);
+    this.peakOffsetM = peakX;
+    this.minDepthM = minDepth;
+    this.minDepthOffsetM = minDepthX;
+    this.meanThicknessM = thicknessIntegral / this.widthM;
+    this.dupuitRatio = this.widthM / this.meanThicknessM;
+    return minU > 0 ? SOLVE_OK : SOLVE_AQUIFER_DRIES;
+  }
+
+  private zoneAt(xM: number): number {
+    const { xEdgeM, zoneCount } = this;
+    let j = 0;
+    while (j < zoneCount - 1 && xM > xEdgeM[j + 1]) j++;
+    return j;
+  }
+
+  /** u = h^2 (m^2) at distance xM from line a, after a successful solve. */
+  uAt(xM: number): number {
+    const j = this.zoneAt(xM);
+    const l = this.lengthM[j], c = this.rechargeMPerDay[j] / this.kMPerDay[j];
+    const t = Math.min(Math.max(xM - this.xEdgeM[j], 0), l);
+    const uLeft = this.uEdgeM2[j];
+    return uLeft + ((this.uEdgeM2[j + 1] - uLeft) / l) * t + c * t * (l - t);
+  }
+
+  /** Water-table elevation (m) at distance xM from line a. */
+  headAt(xM: number): number {
+    return this.baseM + Math.sqrt(Math.max(this.uAt(xM), 0));
+  }
+
+  /** Flow per metre towards line b (m^2/d) at distance xM from line a. */
+  fluxAt(xM: number): number {
+    const j = this.zoneAt(xM);
+    const l = this.lengthM[j], k = this.kMPerDay[j], n = this.rechargeMPerDay[j];
+    const t = Math.min(Math.max(xM - this.xEdgeM[j], 0), l);
+    return (-k / (2 * l)) * (this.uEdgeM2[j + 1] - this.uEdgeM2[j]) - (n * l) / 2 + n * t;
+  }
+
+  /** Ground elevation (m) at distance xM from line a. */
+  groundAt(xM: number): number {
+    return this.groundM[this.zoneAt(xM)];
+  }
+
+  /** Length of the transect (m) where the water table is less than depthM below ground. */
+  shallowLengthM(depthM: number): number {
+    let total = 0;
+    for (let j = 0; j < this.zoneCount; j++) {
+      const l = this.lengthM[j], c = this.rechargeMPerDay[j] / this.kMPerDay[j];
+      const limitThickness = this.groundM[j] - depthM - this.baseM;
+      if (limitThickness <= 0) { total += l; continue; }
+      // u(t) - s^2 = -c t^2 + (slope + c l) t + (U_j - s^2) > 0 on part of [0, l]
+      const slope = (this.uEdgeM2[j + 1] - this.uEdgeM2[j]) / l;
+      total += positiveMeasure(-c, slope + c * l, this.uEdgeM2[j] - limitThickness * limitThickness, l);
+    }
+    return total;
+  }
+}
+
+// Measure of {t in [0, l] : a t^2 + b t + c > 0}, without allocating.
+function positiveMeasure(a: number, b: number, c: number, l: number): number {
+  let r1 = NaN, r2 = NaN;
+  const scale = Math.abs(b) * l + Math.abs(c);
+  if (Math.abs(a) * l * l <= 1e-14 * scale) {
+    if (b !== 0) r1 = -c / b;
+  } else {
+    const disc = b * b - 4 * a * c;
+    if (disc > 0) {
+      // the stable form avoids cancellation between b and the root of the discriminant
+      const qq = -0.5 * (b + Math.sign(b || 1) * Math.sqrt(disc));
+      r1 = qq / a;
+      r2 = qq !== 0 ? c / qq : NaN;
+      if (r2 < r1) { const s = r1; r1 = r2; r2 = s; }
+    }
+  }
+  let total = 0, from = 0;
+  for (let k = 0; k < 3; k++) {
+    const r = k === 0 ? r1 : k === 1 ? r2 : l;
+    if (!(r > from)) continue;
+    const to = Math.min(r, l);
+    const mid = (from + to) / 2;
+    if ((a * mid + b) * mid + c > 0) total += to - from;
+    from = to;
+    if (from >= l) break;
+  }
+  return total;
+}

@@ -1,0 +1,45 @@
+// Unit helpers for what users type. Every factor is exact by definition:
+// 1 d = 86 400 s; 1 m = 100 cm = 1000 mm; 1 ft = 0.3048 m (international foot, 1959 agreement);
+// a year is the Julian year of 365.25 d (the IAU definition), so a yearly figure is a long-run mean.
+
+export const SECONDS_PER_DAY = 86_400;
+export const DAYS_PER_YEAR = 365.25;
+export const METRES_PER_FOOT = 0.3048;
+
+export type ConductivityUnit = 'm/d' | 'm/s' | 'cm/s';
+export type RechargeUnit = 'mm/yr' | 'm/d';
+export type LengthUnit = 'm' | 'ft';
+
+export const CONDUCTIVITY_UNITS: readonly ConductivityUnit[] = ['m/d', 'm/s', 'cm/s'];
+export const RECHARGE_UNITS: readonly RechargeUnit[] = ['mm/yr', 'm/d'];
+export const LENGTH_UNITS: readonly LengthUnit[] = ['m', 'ft'];
+
+const K_TO_M_PER_DAY: Record<ConductivityUnit, number> = {
+  'm/d': 1,
+  'm/s': SECONDS_PER_DAY,
+  'cm/s': SECONDS_PER_DAY / 100,
+};
+
+export function kToMPerDay(value: number, unit: ConductivityUnit): number {
+  return value * K_TO_M_PER_DAY[unit];
+}
+
+export function kFromMPerDay(kMPerDay: number, unit: ConductivityUnit): number {
+  return kMPerDay / K_TO_M_PER_DAY[unit];
+}
+
+export function rechargeToMPerDay(value: number, unit: RechargeUnit): number {
+  return unit === 'm/d' ? value : value / 1000 / DAYS_PER_YEAR;
+}
+
+export function rechargeFromMPerDay(rechargeMPerDay: number, unit: RechargeUnit): number {
+  return unit === 'm/d' ? rechargeMPerDay : rechargeMPerDay * 1000 * DAYS_PER_YEAR;
+}
+
+export function lengthToM(value: number, unit: LengthUnit): number {
+  return unit === 'm' ? value : value * METRES_PER_FOOT;
+}
+
+export function m3PerDayToM3PerYear(m3PerDay: number): number {
+  return m3PerDay * DAYS_PER_YEAR;
+}
