@@ -158,7 +158,7 @@ export class TransectSolver {
   private scanProfile(zoneCount: number): number {
     const { lengthM, kMPerDay, rechargeMPerDay, groundM, uEdgeM2, xEdgeM } = this;
     let peakU = -Infinity, peakX = 0, minU = Infinity;
-    let minDepth = Infinity, minDepthX = 0, thicknessIntegral = 0;
+    let thicknessIntegral = 0;
     this.divideOffsetM = NaN;
     for (let j = 0; j < zoneCount; j++) {
       const l = lengthM[j], c = rechargeMPerDay[j] / kMPerDay[j];
@@ -179,8 +179,6 @@ export class TransectSolver {
       if (zoneMinU < minU) minU = zoneMinU;
       if (zoneMinU <= 0) { this.failedZone = j; return SOLVE_AQUIFER_DRIES; }
       if (zoneMaxU > peakU) { peakU = zoneMaxU; peakX = xEdgeM[j] + zoneMaxT; }
-      const depth = groundM[j] - (this.baseM + Math.sqrt(zoneMaxU));
-      if (depth < minDepth) { minDepth = depth; minDepthX = xEdgeM[j] + zoneMaxT; }
       for (let g = 0; g < 5; g++) {
         const t = (l / 2) * (1 + GL_NODES[g]);
         thicknessIntegral += (l / 2) * GL_WEIGHTS[g] * Math.sqrt(uLeft + slope * t + c * t * (l - t));
@@ -188,11 +186,41 @@ export class TransectSolver {
     }
     this.peakHeadM = this.baseM + Math.sqrt(peakU);
     this.peakOffsetM = peakX;
-    this.minDepthM = minDepth;
-    this.minDepthOffsetM = minDepthX;
     this.meanThicknessM = thicknessIntegral / this.widthM;
     this.dupuitRatio = this.widthM / this.meanThicknessM;
+    this.scanDepth(0);
     return minU > 0 ? SOLVE_OK : SOLVE_AQUIFER_DRIES;
+  }
+
+  /**
+   * Sets minDepthM and minDepthOffsetM over the land between the lines, leaving out marginM
+   * beside each line (its banks); solve() calls it with no margin.
+   */
+  scanDepth(marginM: number): void {
+    const { lengthM, kMPerDay, rechargeMPerDay, groundM, uEdgeM2, xEdgeM } = this;
+    const from = Math.min(Math.max(marginM, 0), this.widthM / 2), to = this.widthM - from;
+    let minDepth = Infinity, minDepthX = NaN;
+    for (let j = 0; j < this.zoneCount; j++) {
+      const l = lengthM[j], c = rechargeMPerDay[j] / kMPerDay[j];
+      const t0 = Math.max(from - xEdgeM[j], 0), t1 = Math.min(to - xEdgeM[j], l);
+      if (t1 < t0) continue;
+      const uLeft = uEdgeM2[j], slope = (uEdgeM2[j + 1] - uLeft) / l;
+      // the highest water table of the zone's part gives its smallest depth
+      let bestT = t0, bestU = uLeft + slope * t0 + c * t0 * (l - t0);
+      const u1 = uLeft + slope * t1 + c * t1 * (l - t1);
+      if (u1 > bestU) { bestU = u1; bestT = t1; }
+      if (c > 0) {
+        const tStar = l / 2 + slope / (2 * c);
+        if (tStar > t0 && tStar < t1) {
+          const uStar = uLeft + slope * tStar + c * tStar * (l - tStar);
+          if (uStar > bestU) { bestU = uStar; bestT = tStar; }
+        }
+      }
+      const depth = groundM[j] - (this.baseM + Math.sqrt(Math.max(bestU, 0)));
+      if (depth < minDepth) { minDepth = depth; minDepthX = xEdgeM[j] + bestT; }
+    }
+    this.minDepthM = minDepth;
+    this.minDepthOffsetM = minDepthX;
   }
 
   private zoneAt(xM: number): number {
@@ -229,23 +257,30 @@ export class TransectSolver {
     return this.groundM[this.zoneAt(xM)];
   }
 
-  /** Length of the transect (m) where the water table is less than depthM below ground. */
-  shallowLengthM(depthM: number): number {
+  /**
+   * Length of the transect (m) where the water table is less than depthM below ground, leaving
+   * out marginM beside each line (its banks).
+   */
+  shallowLengthM(depthM: number, marginM = 0): number {
+    const from = Math.min(Math.max(marginM, 0), this.widthM / 2), to = this.widthM - from;
     let total = 0;
     for (let j = 0; j < this.zoneCount; j++) {
       const l = this.lengthM[j], c = this.rechargeMPerDay[j] / this.kMPerDay[j];
+      const t0 = Math.max(from - this.xEdgeM[j], 0), t1 = Math.min(to - this.xEdgeM[j], l);
+      if (!(t1 > t0)) continue;
       const limitThickness = this.groundM[j] - depthM - this.baseM;
-      if (limitThickness <= 0) { total += l; continue; }
-      // u(t) - s^2 = -c t^2 + (slope + c l) t + (U_j - s^2) > 0 on part of [0, l]
+      if (limitThickness <= 0) { total += t1 - t0; continue; }
+      // u(t) - s^2 = -c t^2 + (slope + c l) t + (U_j - s^2) > 0 on part of [t0, t1]
       const slope = (this.uEdgeM2[j + 1] - this.uEdgeM2[j]) / l;
-      total += positiveMeasure(-c, slope + c * l, this.uEdgeM2[j] - limitThickness * limitThickness, l);
+      total += positiveMeasure(-c, slope + c * l, this.uEdgeM2[j] - limitThickness * limitThickness, t0, t1);
     }
     return total;
   }
 }
 
-// Measure of {t in [0, l] : a t^2 + b t + c > 0}, without allocating.
-function positiveMeasure(a: number, b: number, c: number, l: number): number {
+// Measure of {t in [t0, t1] : a t^2 + b t + c > 0}, without allocating.
+function positiveMeasure(a: number, b: number, c: number, t0: number, t1: number): number {
+  const l = t1;
   let r1 = NaN, r2 = NaN;
   const scale = Math.abs(b) * l + Math.abs(c);
   if (Math.abs(a) * l * l <= 1e-14 * scale) {
@@ -260,7 +295,7 @@ function positiveMeasure(a: number, b: number, c: number, l: number): number {
       if (r2 < r1) { const s = r1; r1 = r2; r2 = s; }
     }
   }
-  let total = 0, from = 0;
+  let total = 0, from = t0;
   for (let k = 0; k < 3; k++) {
     const r = k === 0 ? r1 : k === 1 ? r2 : l;
     if (!(r > from)) continue;

@@ -1,0 +1,184 @@
+// Builds the text of every output layer from a screening result: GeoJSON per RFC 7946 (lon/lat,
+// counter-clockwise outer rings, 7 decimals), the ranked CSV table and the run record. Pure: the
+// CLI hands the texts to writeAllOrNothing. Same result in, same bytes out.
+import { stringify } from 'csv-stringify/sync';
+import { FACING_REASON_NAMES } from '../geometry/index.js';
+import { SOLVE_STATUS_NAMES } from '../hydraulics/strip-solver.js';
+import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
+import type { StripSummary } from '../screening/aggregate.js';
+import { NOT_PAIRED } from '../screening/solve-facings.js';
+import type { ScreenResult } from '../screening/screen.js';
+import type { WorkCrs } from './crs.js';
+
+/** Six significant digits: more than any input carries, few enough to keep files stable. */
+export function roundNumber(value: number): number | null {
+  if (!Number.isFinite(value)) return null;
+  const rounded = Number(value.toPrecision(6));
+  return Object.is(rounded, -0) ? 0 : rounded;
+}
+
+function roundDegrees(value: number): number {
+  return Math.round(value * 1e7) / 1e7;
+}
+
+function toLonLat(crs: WorkCrs, x: number, y: number): [number, number] {
+  const [lon, lat] = crs.inverse([x, y]);
+  return [roundDegrees(lon), roundDegrees(lat)];
+}
+
+/** Twice the signed area of a lon/lat ring: positive when counter-clockwise. */
+function signedArea2(ring: [number, number][]): number {
+  let sum = 0;
+  for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) sum += (ring[j][0] - ring[i][0]) * (ring[j][1] + ring[i][1]);
+  return -sum;
+}
+
+export function ringToLonLat(crs: WorkCrs, ringM: Float64Array): [number, number][] {
+  const ring: [number, number][] = [];
+  for (let i = 0; i < ringM.length; i += 2) ring.push(toLonLat(crs, ringM[i], ringM[i + 1]));
+  const first = ring[0], last = ring[ring.length - 1];
+  if (first[0] !== last[0] || first[1] !== last[1]) ring.push([first[0], first[1]]);
+  // RFC 7946 section 3.1.6: exterior rings are counter-clockwise
+  if (signedArea2(ring) < 0) ring.reverse();
+  return ring;
+}
+
+function featureCollection(features: object[]): string {
+  if (features.length === 0) return '{"type":"FeatureCollection","features":[]}\n';
+  return `{"type":"FeatureCollection","features":[\n${features.map((f) => JSON.stringify(f)).join(',\n')}\n]}\n`;
+}
+
+export function stripProperties(strip: StripSummary): Record<string, unknown> {
+  return {
+    strip_id: strip.stripId,
+    canal_a: strip.canalA,
+    canal_b: strip.canalB,
+    length_m: roundNumber(strip.lengthM),
+    spacing_m: roundNumber(strip.spacingMeanM),
+    spacing_min_m: roundNumber(strip.spacingMinM),
+    spacing_max_m: roundNumber(strip.spacingMaxM),
+    q_a_m2_d: roundNumber(strip.qAM2PerDay),
+    q_b_m2_d: roundNumber(strip.qBM2PerDay),
+    loss_a_m3_d: roundNumber(strip.lossAM3PerDay),
+    loss_b_m3_d: roundNumber(strip.lossBM3PerDay),
+    peak_wt_m: roundNumber(strip.peakWtM),
+    peak_offset_m: roundNumber(strip.peakOffsetM),
+    min_depth_m: roundNumber(strip.minDepthM),
+    risk: strip.risk ?? 'unsolved',
+    risk_area_ha: roundNumber(strip.riskAreaHa),
+    dupuit_ratio_min: roundNumber(strip.dupuitRatioMin),
+    flags: strip.flags.join(';'),
+  };
+}
+
+export function stripsLayer(result: ScreenResult): string {
+  return featureCollection(
+    result.strips.map((strip) => ({
+      type: 'Feature',
+      properties: stripProperties(strip),
+      geometry: { type: 'Polygon', coordinates: [ringToLonLat(result.crs, strip.ringM)] },
+    })),
+  );
+}
+
+function reasonsText(byReason: Record<string, number>): string {
+  return FACING_REASON_NAMES.filter((name) => byReason[name] > 0)
+    .map((name) => `${name} ${roundNumber(byReason[name])} m`)
+    .join('; ');
+}
+
+export function linesLayer(result: ScreenResult): string {
+  return featureCollection(
+    result.lines.map((line, i) => {
+      const summary = result.lineSummaries[i];
+      const properties: Record<string, unknown> = {};
+      for (const [key, value] of Object.entries(line.properties)) properties[key] = value;
+      properties.length_m = roundNumber(summary.lengthM);
+      properties.loss_m3_d = roundNumber(summary.lossM3PerDay);
+      properties.loss_m3_d_km = summary.pairedM > 0 ? roundNumber(summary.lossM3PerDay / (summary.pairedM / 1000)) : null;
+      properties.paired_m = roundNumber(summary.pairedM);
+      properties.unpaired_m = roundNumber(summary.unpairedM);
+      properties.unpaired_reasons = reasonsText(summary.unpairedByReasonM);
+      const parts = line.partsLonLat.map((part) => part.map(([lon, lat]) => [roundDegrees(lon), roundDegrees(lat)]));
+      const geometry = parts.length === 1 ? { type: 'LineString', coordinates: parts[0] } : { type: 'MultiLineString', coordinates: parts };
+      return { type: 'Feature', properties, geometry };
+    }),
+  );
+}
+
+export function transectsLayer(result: ScreenResult): string {
+  const { stations, facings, results, lines, crs } = result;
+  const features: object[] = [];
+  for (let i = 0; i < facings.count; i++) {
+    if (facings.partner[i] < 0) continue;
+    const station = i >> 1;
+    const status = results.status[i];
+    features.push({
+      type: 'Feature',
+      properties: {
+        line: lines[stations.line[station]].id,
+        side: i % 2 === 0 ? 'left' : 'right',
+        chainage_m: roundNumber(stations.chainageM[station]),
+        station_length_m: roundNumber(stations.lengthM[station]),
+        partner: lines[facings.partner[i]].id,
+        partner_chainage_m: roundNumber(facings.partnerChainageM[i]),
+        reason: FACING_REASON_NAMES[facings.reason[i]],
+        solve: status === NOT_PAIRED ? 'not-solved' : SOLVE_STATUS_NAMES[status],
+        gap_m: roundNumber(facings.gapM[i]),
+        stage_a_m: roundNumber(results.stageAM[i]),
+        stage_b_m: roundNumber(results.stageBM[i]),
+        base_m: roundNumber(results.baseM[i]),
+        seepage_m2_d: roundNumber(results.seepageM2PerDay[i]),
+        partner_seepage_m2_d: roundNumber(results.partnerSeepageM2PerDay[i]),
+        recharge_m2_d: roundNumber(results.rechargeM2PerDay[i]),
+        peak_wt_m: roundNumber(results.peakHeadM[i]),
+        peak_offset_m: roundNumber(results.peakOffsetM[i]),
+        min_depth_m: roundNumber(results.minDepthM[i]),
+        dupuit_ratio: roundNumber(results.dupuitRatio[i]),
+      },
+      geometry: {
+        type: 'LineString',
+        coordinates: [toLonLat(crs, stations.x[station], stations.y[station]), toLonLat(crs, facings.endX[i], facings.endY[i])],
+      },
+    });
+  }
+  return featureCollection(features);
+}
+
+// OWASP, CSV Injection: a cell starting with =, +, -, @, tab or carriage return may run as a
+// formula in a spreadsheet; prefix such text with a single quote. Numbers stay numbers.
+export function neutraliseCell(value: unknown): unknown {
+  if (typeof value === 'string' && /^[=+\-@\t\r]/.test(value)) return `'${value}`;
+  return value;
+}
+
+export const RANKING_COLUMNS = [
+  'rank', 'strip_id', 'canal_a', 'canal_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km',
+  'loss_m3_yr', 'min_depth_m', 'risk', 'risk_area_ha', 'flags',
+] as const;
+
+export function rankingRow(strip: StripSummary, rank: number): Record<(typeof RANKING_COLUMNS)[number], unknown> {
+  return {
+    rank,
+    strip_id: strip.stripId,
+    canal_a: strip.canalA,
+    canal_b: strip.canalB,
+    length_m: roundNumber(strip.lengthM),
+    spacing_m: roundNumber(strip.spacingMeanM),
+    loss_m3_d: roundNumber(strip.lossM3PerDay),
+    loss_m3_d_km: roundNumber(strip.lossM3PerDayKm),
+    loss_m3_yr: roundNumber(m3PerDayToM3PerYear(strip.lossM3PerDay)),
+    min_depth_m: roundNumber(strip.minDepthM),
+    risk: strip.risk ?? 'unsolved',
+    risk_area_ha: roundNumber(strip.riskAreaHa),
+    flags: strip.flags.join(';'),
+  };
+}
+
+export function rankingTable(result: ScreenResult): string {
+  const rows = result.strips.map((strip, i) => {
+    const row = rankingRow(strip, i + 1);
+    return RANKING_COLUMNS.map((column) => neutraliseCell(row[column] ?? ''));
+  });
+  return stringify([[...RANKING_COLUMNS], ...rows], { record_delimiter: 'unix' });
+}

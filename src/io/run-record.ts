@@ -1,0 +1,109 @@
+// The run record (run.json) and the end-of-run summary printed to stdout.
+import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
+import type { ScreenResult } from '../screening/screen.js';
+import { roundNumber } from './layers.js';
+import type { InputFile } from './read-geojson.js';
+
+export const CAUTION =
+  'Screening estimate only (steady Dupuit-Forchheimer flow, fully penetrating unlined lines, horizontal base): ' +
+  'confirm in the field and defer to local codes and licensed professional practice before acting.';
+
+export interface RunMeta {
+  version: string;
+  commandLine: string[];
+  canals: InputFile;
+  aquifer: InputFile;
+  config: string | null;
+  outputs: string[];
+}
+
+function describeInput(file: InputFile) {
+  return { path: file.path, sha256: file.sha256, bytes: file.bytes, features: file.features.length };
+}
+
+export function runRecord(result: ScreenResult, meta: RunMeta): string {
+  const { totals, counts, settings } = result;
+  const record = {
+    tool: 'doab',
+    version: meta.version,
+    command_line: meta.commandLine,
+    settings: {
+      step_m: settings.stepM,
+      max_gap_m: settings.maxGapM,
+      max_angle_deg: settings.maxAngleDeg,
+      crs: settings.crs,
+      rank_by: settings.rankBy,
+      transects: settings.writeTransects,
+      spacing_jump: settings.spacingJump,
+      dupuit_ratio_min: settings.dupuitRatioMin,
+      base_spread_fraction: settings.baseSpreadFraction,
+      bank_width_m: settings.bankWidthM,
+      waterlogged_depth_m: settings.risk.waterloggedDepthM,
+      potential_depth_m: settings.risk.potentialDepthM,
+      config: meta.config,
+    },
+    inputs: { canals: describeInput(meta.canals), aquifer: describeInput(meta.aquifer) },
+    work_crs: { name: result.crs.name, epsg: result.crs.epsg, proj4: result.crs.proj4Def },
+    counts: {
+      lines: counts.lines,
+      canals: result.lines.filter((line) => line.kind === 'canal').length,
+      drains: result.lines.filter((line) => line.kind === 'drain').length,
+      zones: counts.zones,
+      stations: counts.stations,
+      transect_sides: counts.facingsByReason,
+      strips: counts.strips,
+      strips_by_risk: totals.stripsByRisk,
+    },
+    totals: {
+      loss_m3_d: roundNumber(totals.lossM3PerDay),
+      loss_m3_yr: roundNumber(totals.lossM3PerYear),
+      canal_loss_m3_d: roundNumber(totals.canalLossM3PerDay),
+      canal_loss_m3_yr: roundNumber(m3PerDayToM3PerYear(totals.canalLossM3PerDay)),
+      drain_gain_m3_d: roundNumber(totals.drainGainM3PerDay),
+      paired_m: roundNumber(totals.pairedM),
+      unpaired_m: roundNumber(totals.unpairedM),
+      risk_area_ha: roundNumber(totals.riskAreaHa),
+    },
+    outputs: meta.outputs,
+    warnings: result.warnings,
+    caution: CAUTION,
+  };
+  return `${JSON.stringify(record, null, 2)}\n`;
+}
+
+function formatNumber(value: number, digits: number): string {
+  return Number.isFinite(value) ? value.toFixed(digits) : '-';
+}
+
+export function summaryText(result: ScreenResult, top = 10): string {
+  const { totals, counts } = result;
+  const lines: string[] = [];
+  lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
+  lines.push(
+    `Net seepage from all lines: ${formatNumber(totals.lossM3PerDay, 0)} m3/d (${formatNumber(totals.lossM3PerYear, 0)} m3/yr); ` +
+      `canals lose ${formatNumber(totals.canalLossM3PerDay, 0)} m3/d, drains take in ${formatNumber(totals.drainGainM3PerDay, 0)} m3/d`,
+  );
+  lines.push(
+    `Paired ${formatNumber(totals.pairedM / 1000, 1)} km, unpaired ${formatNumber(totals.unpairedM / 1000, 1)} km; ` +
+      `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatNumber(totals.riskAreaHa, 1)} ha`,
+  );
+  const byRisk = totals.stripsByRisk;
+  lines.push(`Strips by risk: ponded ${byRisk.ponded}, waterlogged ${byRisk.waterlogged}, potential ${byRisk.potential}, safe ${byRisk.safe}, unsolved ${byRisk.unsolved}`);
+  const header = ['rank', 'strip', 'loss m3/d/km', 'loss m3/d', 'min depth m', 'risk', 'flags'];
+  const rows = result.strips.slice(0, top).map((strip, i) => [
+    String(i + 1),
+    strip.stripId,
+    formatNumber(strip.lossM3PerDayKm, 1),
+    formatNumber(strip.lossM3PerDay, 1),
+    formatNumber(strip.minDepthM, 2),
+    strip.risk ?? 'unsolved',
+    strip.flags.join(';'),
+  ]);
+  const widths = header.map((title, c) => Math.max(title.length, ...rows.map((row) => row[c].length)));
+  const format = (row: string[]) => row.map((cell, c) => (c >= 2 && c <= 4 ? cell.padStart(widths[c]) : cell.padEnd(widths[c]))).join('  ').trimEnd();
+  lines.push('', `Top ${rows.length} strips (ranked by ${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}):`);
+  lines.push(format(header), ...rows.map(format));
+  for (const warning of result.warnings) lines.push(`warning: ${warning}`);
+  lines.push('', `CAUTION: ${CAUTION}`);
+  return `${lines.join('\n')}\n`;
+}

@@ -1,0 +1,168 @@
+// Aggregation stage: from solved facings to strip and line totals. Each line's loss comes from
+// its own stations only, so nothing is counted twice: a strip's loss for line a sums a's
+// stations facing b, and its loss for line b sums b's stations facing a.
+import { FACING_PAIRED, FACING_REASON_NAMES, type FacingTable, type StationTable, type Strip } from '../geometry/index.js';
+import { SOLVE_OK, SOLVE_STATUS_NAMES } from '../hydraulics/strip-solver.js';
+import type { LineRecord } from './district-inputs.js';
+import { FLAG_NARROW, FLAG_UNEVEN_BASE, FLAG_ZONE_OVERLAP, NOT_PAIRED, type FacingResults } from './solve-facings.js';
+import { riskClass, type RiskClass, type ScreenSettings } from './settings.js';
+
+export interface StripSummary {
+  stripId: string;
+  lineA: number;
+  lineB: number;
+  canalA: string;
+  canalB: string;
+  /** Length along line a (m). */
+  lengthM: number;
+  lengthBM: number;
+  spacingMeanM: number;
+  spacingMinM: number;
+  spacingMaxM: number;
+  /** Mean seepage per metre of each line (m^2/d); positive when the line loses water. */
+  qAM2PerDay: number;
+  qBM2PerDay: number;
+  lossAM3PerDay: number;
+  lossBM3PerDay: number;
+  /** Positive losses of both lines in the strip (m^3/d), and per km of strip along line a. */
+  lossM3PerDay: number;
+  lossM3PerDayKm: number;
+  peakWtM: number;
+  peakOffsetM: number;
+  minDepthM: number;
+  risk: RiskClass | null;
+  riskAreaHa: number;
+  dupuitRatioMin: number;
+  flags: string[];
+  ringM: Float64Array;
+  /** Facing indices of a's and b's transects in this strip. */
+  facingsA: Uint32Array;
+  facingsB: Uint32Array;
+}
+
+export interface LineSummary {
+  lengthM: number;
+  lossM3PerDay: number;
+  /** Length where at least one side is paired with a partner (m). */
+  pairedM: number;
+  unpairedM: number;
+  /** Unpaired length of each side, summed by reason (m). */
+  unpairedByReasonM: Record<string, number>;
+}
+
+export function facingOfPartner(facings: FacingTable, station: number, partner: number): number {
+  const left = 2 * station;
+  if (facings.partner[left] === partner && facings.reason[left] === FACING_PAIRED) return left;
+  return left + 1;
+}
+
+export function summariseStrip(
+  strip: Strip,
+  lines: LineRecord[],
+  stations: StationTable,
+  facings: FacingTable,
+  results: FacingResults,
+  settings: ScreenSettings,
+): StripSummary {
+  const facingsA = Uint32Array.from(strip.stationsA, (s) => 2 * s + strip.sideA);
+  const facingsB = Uint32Array.from(strip.stationsB, (s) => facingOfPartner(facings, s, strip.lineA));
+  let lengthA = 0, lengthB = 0, lossA = 0, lossB = 0, solvedLengthA = 0, solvedLengthB = 0;
+  let peak = -Infinity, peakOffset = NaN, minDepth = Infinity, shallowAreaM2 = 0, ratioMin = Infinity;
+  let flagBits = 0, unsolved = 0;
+  const unsolvedReasons = new Set<string>();
+  const visit = (facing: number, fromA: boolean) => {
+    const station = facing >> 1;
+    const length = stations.lengthM[station];
+    if (fromA) lengthA += length;
+    else lengthB += length;
+    const status = results.status[facing];
+    if (status !== SOLVE_OK) {
+      unsolved++;
+      unsolvedReasons.add(status === NOT_PAIRED ? FACING_REASON_NAMES[facings.reason[facing]] : SOLVE_STATUS_NAMES[status]);
+      return;
+    }
+    const loss = results.seepageM2PerDay[facing] * length;
+    if (fromA) { lossA += loss; solvedLengthA += length; shallowAreaM2 += results.shallowM[facing] * length; }
+    else { lossB += loss; solvedLengthB += length; }
+    flagBits |= results.flags[facing];
+    if (results.peakHeadM[facing] > peak) {
+      peak = results.peakHeadM[facing];
+      peakOffset = fromA ? results.peakOffsetM[facing] : facings.gapM[facing] - results.peakOffsetM[facing];
+    }
+    if (results.minDepthM[facing] < minDepth) minDepth = results.minDepthM[facing];
+    if (results.dupuitRatio[facing] < ratioMin) ratioMin = results.dupuitRatio[facing];
+  };
+  for (const f of facingsA) visit(f, true);
+  for (const f of facingsB) visit(f, false);
+
+  const flags: string[] = [];
+  if (flagBits & FLAG_NARROW) flags.push('narrow-for-dupuit');
+  if (flagBits & FLAG_UNEVEN_BASE) flags.push('uneven-base');
+  if (flagBits & FLAG_ZONE_OVERLAP) flags.push('zone-overlap');
+  if (facingsB.length === 0) flags.push('one-sided');
+  if (unsolved > 0) flags.push(`unsolved-${unsolved}:${[...unsolvedReasons].sort().join('+')}`);
+  const solvedAny = solvedLengthA + solvedLengthB > 0;
+  const lossM3PerDay = Math.max(lossA, 0) + Math.max(lossB, 0);
+  return {
+    stripId: strip.id,
+    lineA: strip.lineA,
+    lineB: strip.lineB,
+    canalA: lines[strip.lineA].id,
+    canalB: lines[strip.lineB].id,
+    lengthM: lengthA,
+    lengthBM: lengthB,
+    spacingMeanM: strip.spacingMeanM,
+    spacingMinM: strip.spacingMinM,
+    spacingMaxM: strip.spacingMaxM,
+    qAM2PerDay: solvedLengthA > 0 ? lossA / solvedLengthA : NaN,
+    qBM2PerDay: solvedLengthB > 0 ? lossB / solvedLengthB : NaN,
+    lossAM3PerDay: lossA,
+    lossBM3PerDay: lossB,
+    lossM3PerDay,
+    lossM3PerDayKm: lengthA > 0 ? lossM3PerDay / (lengthA / 1000) : NaN,
+    peakWtM: solvedAny ? peak : NaN,
+    peakOffsetM: solvedAny ? peakOffset : NaN,
+    minDepthM: solvedAny ? minDepth : NaN,
+    risk: solvedAny ? riskClass(minDepth, settings.risk) : null,
+    riskAreaHa: shallowAreaM2 / 10_000,
+    dupuitRatioMin: solvedAny ? ratioMin : NaN,
+    flags,
+    ringM: strip.ringM,
+    facingsA,
+    facingsB,
+  };
+}
+
+export function summariseLines(
+  lines: LineRecord[],
+  lineLengthsM: Float64Array,
+  stations: StationTable,
+  facings: FacingTable,
+  results: FacingResults,
+): LineSummary[] {
+  const summaries: LineSummary[] = lines.map((_, index) => ({
+    lengthM: lineLengthsM[index],
+    lossM3PerDay: 0,
+    pairedM: 0,
+    unpairedM: 0,
+    unpairedByReasonM: Object.create(null) as Record<string, number>,
+  }));
+  for (let s = 0; s < stations.count; s++) {
+    const summary = summaries[stations.line[s]];
+    const length = stations.lengthM[s];
+    let paired = false;
+    for (let side = 0; side < 2; side++) {
+      const facing = 2 * s + side;
+      if (facings.reason[facing] === FACING_PAIRED) {
+        paired = true;
+        if (results.status[facing] === SOLVE_OK) summary.lossM3PerDay += results.seepageM2PerDay[facing] * length;
+      } else {
+        const reason = FACING_REASON_NAMES[facings.reason[facing]];
+        summary.unpairedByReasonM[reason] = (summary.unpairedByReasonM[reason] ?? 0) + length;
+      }
+    }
+    if (paired) summary.pairedM += length;
+    else summary.unpairedM += length;
+  }
+  return summaries;
+}

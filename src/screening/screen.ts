@@ -1,0 +1,186 @@
+// The screening pipeline: validated inputs -> work CRS -> stations -> transects -> zones on each
+// transect -> solve -> strips and line totals -> ranking. Pure: it reads no file and writes none.
+import {
+  FACING_REASON_NAMES,
+  buildStrips,
+  buildZoneIndex,
+  castTransects,
+  lineLengthM,
+  placeStations,
+  zonePolygons,
+  type FacingTable,
+  type LineGeometry,
+  type StationTable,
+} from '../geometry/index.js';
+import { chooseWorkCrs, type WorkCrs } from '../io/crs.js';
+import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
+import { summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
+import type { LineRecord, ZoneRecord } from './district-inputs.js';
+import { solveFacings, type FacingResults } from './solve-facings.js';
+import { RISK_CLASSES, type RiskClass, type ScreenSettings } from './settings.js';
+
+export interface DistrictTotals {
+  /** Net seepage of all lines (m^3/d): positive water leaves the lines into the ground. */
+  lossM3PerDay: number;
+  lossM3PerYear: number;
+  canalLossM3PerDay: number;
+  drainGainM3PerDay: number;
+  pairedM: number;
+  unpairedM: number;
+  riskAreaHa: number;
+  stripsByRisk: Record<RiskClass | 'unsolved', number>;
+}
+
+export interface ScreenCounts {
+  lines: number;
+  zones: number;
+  stations: number;
+  facingsByReason: Record<string, number>;
+  strips: number;
+}
+
+export interface ScreenResult {
+  settings: ScreenSettings;
+  crs: WorkCrs;
+  warnings: string[];
+  lines: LineRecord[];
+  zones: ZoneRecord[];
+  lineLengthsM: Float64Array;
+  stations: StationTable;
+  facings: FacingTable;
+  results: FacingResults;
+  /** Strips in ranked order. */
+  strips: StripSummary[];
+  lineSummaries: LineSummary[];
+  totals: DistrictTotals;
+  counts: ScreenCounts;
+}
+
+export function screenDistrict(lines: LineRecord[], zones: ZoneRecord[], settings: ScreenSettings): ScreenResult {
+  const { crs, warnings } = chooseWorkCrs(boundsOf(lines), settings.crs ?? undefined);
+  const geometries: LineGeometry[] = lines.map((line) => ({
+    id: line.id,
+    parts: line.partsLonLat.map((part) => projectPositions(crs, part)),
+  }));
+  const lineLengthsM = Float64Array.from(geometries, (g) => lineLengthM(g));
+  const zoneIndex = buildZoneIndex(
+    zonePolygons(
+      zones.flatMap((zone) =>
+        zone.polygonsLonLat.map((polygon) => ({ zone: zone.index, rings: polygon.map((ring) => projectPositions(crs, ring)) })),
+      ),
+    ),
+  );
+
+  const stations = placeStations(geometries, settings.stepM);
+  const facings = castTransects(geometries, stations, { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg });
+  const results = solveFacings(lines, lineLengthsM, zones, zoneIndex, stations, facings, settings);
+  const strips = buildStrips(geometries, stations, facings, { spacingJump: settings.spacingJump }).map((strip) =>
+    summariseStrip(strip, lines, stations, facings, results, settings),
+  );
+  rankStrips(strips, settings.rankBy);
+  const lineSummaries = summariseLines(lines, lineLengthsM, stations, facings, results);
+
+  return {
+    settings,
+    crs,
+    warnings,
+    lines,
+    zones,
+    lineLengthsM,
+    stations,
+    facings,
+    results,
+    strips,
+    lineSummaries,
+    totals: districtTotals(lines, lineSummaries, strips),
+    counts: {
+      lines: lines.length,
+      zones: zones.length,
+      stations: stations.count,
+      facingsByReason: countReasons(facings),
+      strips: strips.length,
+    },
+  };
+}
+
+/** Ranks in place: by loss per km (where lining pays first) or by smallest depth (shallowest first). */
+export function rankStrips(strips: StripSummary[], rankBy: 'loss' | 'risk'): void {
+  const byLoss = (a: StripSummary, b: StripSummary) => descendingNaNLast(a.lossM3PerDayKm, b.lossM3PerDayKm);
+  const byDepth = (a: StripSummary, b: StripSummary) => ascendingNaNLast(a.minDepthM, b.minDepthM);
+  strips.sort((a, b) => {
+    const first = rankBy === 'loss' ? byLoss(a, b) : byDepth(a, b);
+    if (first !== 0) return first;
+    const second = rankBy === 'loss' ? byDepth(a, b) : byLoss(a, b);
+    if (second !== 0) return second;
+    return a.stripId < b.stripId ? -1 : a.stripId > b.stripId ? 1 : 0;
+  });
+}
+
+function ascendingNaNLast(a: number, b: number): number {
+  if (Number.isNaN(a) || Number.isNaN(b)) return Number(Number.isNaN(a)) - Number(Number.isNaN(b));
+  return a - b;
+}
+
+function descendingNaNLast(a: number, b: number): number {
+  if (Number.isNaN(a) || Number.isNaN(b)) return Number(Number.isNaN(a)) - Number(Number.isNaN(b));
+  return b - a;
+}
+
+function districtTotals(lines: LineRecord[], summaries: LineSummary[], strips: StripSummary[]): DistrictTotals {
+  let loss = 0, canalLoss = 0, drainGain = 0, paired = 0, unpaired = 0, riskArea = 0;
+  summaries.forEach((summary, i) => {
+    loss += summary.lossM3PerDay;
+    if (lines[i].kind === 'canal') canalLoss += summary.lossM3PerDay;
+    else drainGain -= summary.lossM3PerDay;
+    paired += summary.pairedM;
+    unpaired += summary.unpairedM;
+  });
+  const stripsByRisk = { unsolved: 0 } as Record<RiskClass | 'unsolved', number>;
+  for (const risk of RISK_CLASSES) stripsByRisk[risk] = 0;
+  for (const strip of strips) {
+    riskArea += strip.riskAreaHa;
+    stripsByRisk[strip.risk ?? 'unsolved']++;
+  }
+  return {
+    lossM3PerDay: loss,
+    lossM3PerYear: m3PerDayToM3PerYear(loss),
+    canalLossM3PerDay: canalLoss,
+    drainGainM3PerDay: drainGain,
+    pairedM: paired,
+    unpairedM: unpaired,
+    riskAreaHa: riskArea,
+    stripsByRisk,
+  };
+}
+
+function countReasons(facings: FacingTable): Record<string, number> {
+  const counts: Record<string, number> = {};
+  for (const name of FACING_REASON_NAMES) counts[name] = 0;
+  for (let i = 0; i < facings.count; i++) counts[FACING_REASON_NAMES[facings.reason[i]]]++;
+  return counts;
+}
+
+function boundsOf(lines: LineRecord[]): [number, number, number, number] {
+  let w = Infinity, s = Infinity, e = -Infinity, n = -Infinity;
+  for (const line of lines) {
+    for (const part of line.partsLonLat) {
+      for (const [lon, lat] of part) {
+        if (lon < w) w = lon;
+        if (lon > e) e = lon;
+        if (lat < s) s = lat;
+        if (lat > n) n = lat;
+      }
+    }
+  }
+  return [w, s, e, n];
+}
+
+function projectPositions(crs: WorkCrs, positions: number[][]): Float64Array {
+  const out = new Float64Array(positions.length * 2);
+  positions.forEach((position, i) => {
+    const [x, y] = crs.forward([position[0], position[1]]);
+    out[2 * i] = x;
+    out[2 * i + 1] = y;
+  });
+  return out;
+}

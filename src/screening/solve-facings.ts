@@ -1,0 +1,141 @@
+// Solve stage: for every paired facing (a station and the partner its transect meets), cut the
+// transect through the aquifer zones, take both lines' stages, and solve the strip across it.
+// Results live in typed arrays indexed like the facings, so a district of a million stations
+// needs no object per transect.
+import {
+  FACING_OUTSIDE_AQUIFER,
+  FACING_PAIRED,
+  cutTransect,
+  type FacingTable,
+  type StationTable,
+  type ZoneIndex,
+} from '../geometry/index.js';
+import { SOLVE_OK, TransectSolver } from '../hydraulics/strip-solver.js';
+import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
+import type { ScreenSettings } from './settings.js';
+
+export const FLAG_NARROW = 1;
+export const FLAG_UNEVEN_BASE = 2;
+export const FLAG_ZONE_OVERLAP = 4;
+
+/** The transect may leave the aquifer by this much (m) before it counts as outside: rounding at shared edges. */
+const UNCOVERED_TOLERANCE_M = 0.5;
+
+export interface FacingResults {
+  /** 0 = solved (SOLVE_OK); otherwise a solver status; 255 = not paired (see the facing's reason). */
+  status: Uint8Array;
+  flags: Uint8Array;
+  stageAM: Float64Array;
+  stageBM: Float64Array;
+  baseM: Float64Array;
+  /** Seepage from the station's own line into this side's strip (m^2/d). */
+  seepageM2PerDay: Float64Array;
+  /** Seepage from the partner line at the transect's far end (m^2/d), for the mass balance. */
+  partnerSeepageM2PerDay: Float64Array;
+  /** Recharge over the whole transect, sum of N l (m^2/d). */
+  rechargeM2PerDay: Float64Array;
+  peakHeadM: Float64Array;
+  /** Distance of the peak from the station's own line (m). */
+  peakOffsetM: Float64Array;
+  minDepthM: Float64Array;
+  /** Length of the transect where the water table is shallower than the waterlogging depth (m). */
+  shallowM: Float64Array;
+  dupuitRatio: Float64Array;
+}
+
+export const NOT_PAIRED = 255;
+
+export function solveFacings(
+  lines: LineRecord[],
+  lineLengthsM: Float64Array,
+  zones: ZoneRecord[],
+  zoneIndex: ZoneIndex,
+  stations: StationTable,
+  facings: FacingTable,
+  settings: ScreenSettings,
+): FacingResults {
+  const n = facings.count;
+  const results: FacingResults = {
+    status: new Uint8Array(n).fill(NOT_PAIRED),
+    flags: new Uint8Array(n),
+    stageAM: new Float64Array(n).fill(NaN),
+    stageBM: new Float64Array(n).fill(NaN),
+    baseM: new Float64Array(n).fill(NaN),
+    seepageM2PerDay: new Float64Array(n).fill(NaN),
+    partnerSeepageM2PerDay: new Float64Array(n).fill(NaN),
+    rechargeM2PerDay: new Float64Array(n).fill(NaN),
+    peakHeadM: new Float64Array(n).fill(NaN),
+    peakOffsetM: new Float64Array(n).fill(NaN),
+    minDepthM: new Float64Array(n).fill(NaN),
+    shallowM: new Float64Array(n).fill(NaN),
+    dupuitRatio: new Float64Array(n).fill(NaN),
+  };
+  const solver = new TransectSolver(64);
+  for (let i = 0; i < n; i++) {
+    if (facings.reason[i] !== FACING_PAIRED) continue;
+    const station = i >> 1;
+    const cut = cutTransect(zoneIndex, stations.x[station], stations.y[station], facings.endX[i], facings.endY[i]);
+    if (cut.uncoveredM > UNCOVERED_TOLERANCE_M || cut.count === 0) {
+      facings.reason[i] = FACING_OUTSIDE_AQUIFER;
+      continue;
+    }
+    let pieces = 0, carryM = 0, baseSum = 0, lengthSum = 0, baseLow = Infinity, baseHigh = -Infinity;
+    for (let p = 0; p < cut.count; p++) {
+      const zoneNumber = cut.zone[p];
+      // a sliver outside every zone (rounding at shared edges) joins its neighbour
+      if (zoneNumber < 0) {
+        if (pieces > 0) solver.lengthM[pieces - 1] += cut.lengthM[p];
+        else carryM += cut.lengthM[p];
+        continue;
+      }
+      const zone = zones[zoneNumber];
+      const length = cut.lengthM[p] + carryM;
+      carryM = 0;
+      if (pieces === solver.maxZones) {
+        // more zones than the solver holds is absurd for one transect: lump the tail, do not fail
+        solver.lengthM[pieces - 1] += length;
+      } else {
+        solver.lengthM[pieces] = length;
+        solver.kMPerDay[pieces] = zone.kMPerDay;
+        solver.rechargeMPerDay[pieces] = zone.rechargeMPerDay;
+        solver.groundM[pieces] = zone.groundM;
+        pieces++;
+      }
+      baseSum += zone.baseM * length;
+      lengthSum += length;
+      if (zone.baseM < baseLow) baseLow = zone.baseM;
+      if (zone.baseM > baseHigh) baseHigh = zone.baseM;
+    }
+    if (pieces === 0) {
+      facings.reason[i] = FACING_OUTSIDE_AQUIFER;
+      continue;
+    }
+    // The strip solution stands on one horizontal base: the length-weighted mean of the zones crossed.
+    const baseM = baseSum / lengthSum;
+    const ownLine = stations.line[station];
+    const partner = facings.partner[i];
+    const stageAM = stageAtChainage(lines[ownLine], stations.chainageM[station], lineLengthsM[ownLine]);
+    const stageBM = stageAtChainage(lines[partner], facings.partnerChainageM[i], lineLengthsM[partner]);
+    results.stageAM[i] = stageAM;
+    results.stageBM[i] = stageBM;
+    results.baseM[i] = baseM;
+    if (cut.overlapM > UNCOVERED_TOLERANCE_M) results.flags[i] |= FLAG_ZONE_OVERLAP;
+    const status = solver.solve(stageAM, stageBM, baseM, pieces);
+    results.status[i] = status;
+    if (status !== SOLVE_OK) continue;
+    results.seepageM2PerDay[i] = solver.seepageAM2PerDay;
+    results.partnerSeepageM2PerDay[i] = solver.seepageBM2PerDay;
+    let recharge = 0;
+    for (let p = 0; p < pieces; p++) recharge += solver.rechargeMPerDay[p] * solver.lengthM[p];
+    results.rechargeM2PerDay[i] = recharge;
+    results.peakHeadM[i] = solver.peakHeadM;
+    results.peakOffsetM[i] = solver.peakOffsetM;
+    solver.scanDepth(settings.bankWidthM);
+    results.minDepthM[i] = solver.minDepthM;
+    results.shallowM[i] = solver.shallowLengthM(settings.risk.waterloggedDepthM, settings.bankWidthM);
+    results.dupuitRatio[i] = solver.dupuitRatio;
+    if (solver.dupuitRatio < settings.dupuitRatioMin) results.flags[i] |= FLAG_NARROW;
+    if (baseHigh - baseLow > settings.baseSpreadFraction * solver.meanThicknessM) results.flags[i] |= FLAG_UNEVEN_BASE;
+  }
+  return results;
+}
