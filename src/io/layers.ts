@@ -29,8 +29,8 @@ function toLonLat(crs: WorkCrs, x: number, y: number): [number, number] {
 /** Twice the signed area of a lon/lat ring: positive when counter-clockwise. */
 function signedArea2(ring: [number, number][]): number {
   let sum = 0;
-  for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) sum += (ring[j][0] - ring[i][0]) * (ring[j][1] + ring[i][1]);
-  return -sum;
+  for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) sum += ring[j][0] * ring[i][1] - ring[i][0] * ring[j][1];
+  return sum;
 }
 
 export function ringToLonLat(crs: WorkCrs, ringM: Float64Array): [number, number][] {

@@ -1,5 +1,4 @@
 // The run record (run.json) and the end-of-run summary printed to stdout.
-import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { roundNumber } from './layers.js';
 import type { InputFile } from './read-geojson.js';
@@ -57,9 +56,8 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
     totals: {
       loss_m3_d: roundNumber(totals.lossM3PerDay),
       loss_m3_yr: roundNumber(totals.lossM3PerYear),
-      canal_loss_m3_d: roundNumber(totals.canalLossM3PerDay),
-      canal_loss_m3_yr: roundNumber(m3PerDayToM3PerYear(totals.canalLossM3PerDay)),
-      drain_gain_m3_d: roundNumber(totals.drainGainM3PerDay),
+      gain_m3_d: roundNumber(totals.gainM3PerDay),
+      net_m3_d: roundNumber(totals.netM3PerDay),
       paired_m: roundNumber(totals.pairedM),
       unpaired_m: roundNumber(totals.unpairedM),
       risk_area_ha: roundNumber(totals.riskAreaHa),
@@ -72,7 +70,10 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
 }
 
 function formatNumber(value: number, digits: number): string {
-  return Number.isFinite(value) ? value.toFixed(digits) : '-';
+  if (!Number.isFinite(value)) return '-';
+  const text = value.toFixed(digits);
+  // -0.00 reads as a sign error to a person; a rounded zero has none
+  return Number(text) === 0 ? text.replace('-', '') : text;
 }
 
 export function summaryText(result: ScreenResult, top = 10): string {
@@ -80,8 +81,8 @@ export function summaryText(result: ScreenResult, top = 10): string {
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
   lines.push(
-    `Net seepage from all lines: ${formatNumber(totals.lossM3PerDay, 0)} m3/d (${formatNumber(totals.lossM3PerYear, 0)} m3/yr); ` +
-      `canals lose ${formatNumber(totals.canalLossM3PerDay, 0)} m3/d, drains take in ${formatNumber(totals.drainGainM3PerDay, 0)} m3/d`,
+    `Seepage loss from losing lines: ${formatNumber(totals.lossM3PerDay, 0)} m3/d (${formatNumber(totals.lossM3PerYear, 0)} m3/yr); ` +
+      `gaining lines take in ${formatNumber(totals.gainM3PerDay, 0)} m3/d`,
   );
   lines.push(
     `Paired ${formatNumber(totals.pairedM / 1000, 1)} km, unpaired ${formatNumber(totals.unpairedM / 1000, 1)} km; ` +

@@ -20,11 +20,13 @@ import { solveFacings, type FacingResults } from './solve-facings.js';
 import { RISK_CLASSES, type RiskClass, type ScreenSettings } from './settings.js';
 
 export interface DistrictTotals {
-  /** Net seepage of all lines (m^3/d): positive water leaves the lines into the ground. */
+  /** What the lines that lose water lose to the ground, summed over those lines (m^3/d). */
   lossM3PerDay: number;
   lossM3PerYear: number;
-  canalLossM3PerDay: number;
-  drainGainM3PerDay: number;
+  /** What the lines that gain water (drains, mostly) take in from the ground (m^3/d). */
+  gainM3PerDay: number;
+  /** Net seepage of all lines, loss less gain (m^3/d). */
+  netM3PerDay: number;
   pairedM: number;
   unpairedM: number;
   riskAreaHa: number;
@@ -92,7 +94,7 @@ export function screenDistrict(lines: LineRecord[], zones: ZoneRecord[], setting
     results,
     strips,
     lineSummaries,
-    totals: districtTotals(lines, lineSummaries, strips),
+    totals: districtTotals(lineSummaries, strips),
     counts: {
       lines: lines.length,
       zones: zones.length,
@@ -126,15 +128,14 @@ function descendingNaNLast(a: number, b: number): number {
   return b - a;
 }
 
-function districtTotals(lines: LineRecord[], summaries: LineSummary[], strips: StripSummary[]): DistrictTotals {
-  let loss = 0, canalLoss = 0, drainGain = 0, paired = 0, unpaired = 0, riskArea = 0;
-  summaries.forEach((summary, i) => {
-    loss += summary.lossM3PerDay;
-    if (lines[i].kind === 'canal') canalLoss += summary.lossM3PerDay;
-    else drainGain -= summary.lossM3PerDay;
+function districtTotals(summaries: LineSummary[], strips: StripSummary[]): DistrictTotals {
+  let loss = 0, gain = 0, paired = 0, unpaired = 0, riskArea = 0;
+  for (const summary of summaries) {
+    if (summary.lossM3PerDay > 0) loss += summary.lossM3PerDay;
+    else gain -= summary.lossM3PerDay;
     paired += summary.pairedM;
     unpaired += summary.unpairedM;
-  });
+  }
   const stripsByRisk = { unsolved: 0 } as Record<RiskClass | 'unsolved', number>;
   for (const risk of RISK_CLASSES) stripsByRisk[risk] = 0;
   for (const strip of strips) {
@@ -144,8 +145,8 @@ function districtTotals(lines: LineRecord[], summaries: LineSummary[], strips: S
   return {
     lossM3PerDay: loss,
     lossM3PerYear: m3PerDayToM3PerYear(loss),
-    canalLossM3PerDay: canalLoss,
-    drainGainM3PerDay: drainGain,
+    gainM3PerDay: gain,
+    netM3PerDay: loss - gain,
     pairedM: paired,
     unpairedM: unpaired,
     riskAreaHa: riskArea,

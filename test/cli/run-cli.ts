@@ -1,0 +1,50 @@
+// Runs the doab CLI as a child process, the way a user does, from the TypeScript sources.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+
+export const ROOT = resolve(import.meta.dirname, '../..');
+const ENTRY = join(ROOT, 'src/cli/entry.ts');
+
+export interface CliRun {
+  status: number | null;
+  stdout: string;
+  stderr: string;
+}
+
+export function runCli(args: string[]): CliRun {
+  const run = spawnSync(process.execPath, ['--import', 'tsx', ENTRY, ...args], { cwd: ROOT, encoding: 'utf8', timeout: 120_000 });
+  return { status: run.status, stdout: run.stdout, stderr: run.stderr };
+}
+
+export function freshDir(prefix: string): string {
+  return mkdtempSync(join(tmpdir(), `doab-${prefix}-`));
+}
+
+export function readJson(path: string): any {
+  return JSON.parse(readFileSync(path, 'utf8'));
+}
+
+/** Minimal CSV reader for doab's own table (quoted cells allowed, no embedded newlines). */
+export function readCsv(path: string): Record<string, string>[] {
+  const lines = readFileSync(path, 'utf8').trimEnd().split('\n');
+  const split = (line: string) => {
+    const cells: string[] = [];
+    let cell = '', quoted = false;
+    for (let i = 0; i < line.length; i++) {
+      const ch = line[i];
+      if (quoted) {
+        if (ch === '"' && line[i + 1] === '"') { cell += '"'; i++; }
+        else if (ch === '"') quoted = false;
+        else cell += ch;
+      } else if (ch === '"') quoted = true;
+      else if (ch === ',') { cells.push(cell); cell = ''; }
+      else cell += ch;
+    }
+    cells.push(cell);
+    return cells;
+  };
+  const header = split(lines[0]);
+  return lines.slice(1).map((line) => Object.fromEntries(split(line).map((cell, i) => [header[i], cell])));
+}
