@@ -11,6 +11,11 @@ export interface WorkCrs {
 
 const LON_LAT_WGS84 = '+proj=longlat +datum=WGS84 +no_defs';
 const UTM_ZONE_WIDTH_DEG = 6;
+// UTM keeps its scale within 0.9996-1.0010 inside a zone; beyond 0.2% the CRS does not suit the data
+const SCALE_WARN = 0.002;
+// WGS 84 defining semi-major axis and flattening, NIMA TR8350.2 (2000) [from memory]
+const WGS84_A_M = 6378137;
+const WGS84_F = 1 / 298.257223563;
 const ACCEPTED = 'accepted: EPSG:32601-32660 (UTM north, WGS 84), EPSG:32701-32760 (UTM south, WGS 84), or a proj4 string starting with "+proj=" in metres';
 
 /** UTM zone number (1-60) holding a longitude; 180 E folds into zone 60 rather than a zone 61. */
@@ -55,12 +60,27 @@ function userProj4Crs(def: string, centre: [number, number]): WorkCrs {
     crs = makeCrs(def, def, null);
     xy = crs.forward(centre);
   } catch (err) {
-    throw new Error(`Unknown CRS "${def}": ${(err as Error).message}; ${ACCEPTED}.`);
+    throw new Error(`Unknown CRS "${def}": ${err instanceof Error ? err.message : String(err)}; ${ACCEPTED}.`);
   }
   if (!Number.isFinite(xy[0]) || !Number.isFinite(xy[1])) {
     throw new Error(`CRS "${def}" cannot project the data's centre (${centre.join(', ')}); ${ACCEPTED}.`);
   }
   return crs;
+}
+
+/**
+ * Point scale of the CRS at a place, east-west: projected length of 0.001 degree of longitude over
+ * its length on the ellipsoid, N cos(lat) dlon (N the prime vertical radius of curvature).
+ */
+export function scaleAt(crs: WorkCrs, lonLat: [number, number]): number {
+  const d = 1e-3;
+  const [lon, lat] = lonLat;
+  const a = crs.forward([lon - d / 2, lat]);
+  const b = crs.forward([lon + d / 2, lat]);
+  const e2 = WGS84_F * (2 - WGS84_F);
+  const phi = (lat * Math.PI) / 180;
+  const n = WGS84_A_M / Math.sqrt(1 - e2 * Math.sin(phi) ** 2);
+  return Math.hypot(b[0] - a[0], b[1] - a[1]) / ((n * Math.cos(phi) * d * Math.PI) / 180);
 }
 
 /**
@@ -94,14 +114,14 @@ export function chooseWorkCrs(
       throw new Error(`Unsupported CRS "${userCrs}"; ${ACCEPTED}.`);
     }
     crs = utmCrs(zone, hemi === 32700);
-    const lonOffset = Math.abs(centre[0] - (zone * 6 - 183));
-    if (Math.min(lonOffset, 360 - lonOffset) > UTM_ZONE_WIDTH_DEG / 2) {
-      warnings.push(`The data centre (${centre[0].toFixed(3)} E) lies outside UTM zone ${zone} of ${spec}; distances carry extra scale error.`);
-    }
   } else if (spec.startsWith('+proj=')) {
     crs = userProj4Crs(spec, centre);
   } else {
     throw new Error(`Unsupported CRS "${userCrs}"; ${ACCEPTED}.`);
+  }
+  const scale = scaleAt(crs, centre);
+  if (Math.abs(scale - 1) > SCALE_WARN) {
+    warnings.push(`${crs.name} has a scale of ${scale.toFixed(4)} at the data centre; distances are off by ${(Math.abs(scale - 1) * 100).toFixed(2)}%.`);
   }
   return { crs, warnings };
 }
