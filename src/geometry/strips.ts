@@ -117,18 +117,26 @@ export function buildStrips(lines: LineGeometry[], stations: StationTable, facin
     if (list) list.push(i);
     else byPair.set(key, [i]);
   });
+  // A b facing that lands just past an a-run's end (within one station interval, as happens at
+  // line ends and junctions) joins it too, rather than making a strip of a few metres on its own.
   const claimedBy = new Int32Array(facings.count).fill(-1);
   for (let k = 0; k < facings.count; k++) {
     const b = stations.line[k >> 1];
     if (!paired(k) || first(b, facings.partner[k])) continue;
     const c = facings.partnerChainageM[k];
+    let best = -1, bestMiss = Infinity;
     for (const i of byPair.get(`${facings.partner[k]}:${b}`) ?? []) {
       const r = mainRuns[i];
-      if (r.side === facings.partnerSide[k] && facings.partnerSide[2 * r.first + r.side] === (k & 1) && c >= r.startM && c <= r.endM) {
-        claimedBy[k] = i;
-        break;
+      if (r.side !== facings.partnerSide[k] || facings.partnerSide[2 * r.first + r.side] !== (k & 1)) continue;
+      const miss = c < r.startM ? r.startM - c : c > r.endM ? c - r.endM : 0;
+      const reach = Math.max(stations.lengthM[r.first], stations.lengthM[r.last], stations.lengthM[k >> 1]);
+      if (miss <= reach && miss < bestMiss) {
+        best = i;
+        bestMiss = miss;
+        if (miss === 0) break;
       }
     }
+    claimedBy[k] = best;
   }
   const leftoverRuns = runsOf((k) => paired(k) && !first(stations.line[k >> 1], facings.partner[k]) && claimedBy[k] < 0);
 

@@ -53,12 +53,13 @@ describe('buildStrips', () => {
     // the pipeline drops a's facings at x = 350-650 (say outside the aquifer); b's still pair
     for (let s = 3; s <= 6; s++) facings.reason[2 * s] = FACING_OUTSIDE_AQUIFER;
     const strips = buildStrips(lines, stations, facings);
+    // b's stations at 350 and 650 land within one interval of a's runs and join them; 450 and 550 stay alone
     expect(summary(strips)).toEqual([
-      ['a|b|0', 0, 3, 3],
-      ['a|b|1', 0, 3, 3],
-      ['b|a|0', 1, 4, 0],
+      ['a|b|0', 0, 3, 4],
+      ['a|b|1', 0, 3, 4],
+      ['b|a|0', 1, 2, 0],
     ]);
-    expect(strips[2].chainageA).toEqual([300, 700]);
+    expect(strips[2].chainageA).toEqual([400, 600]);
     expectPairedFacingsOnce(stations, facings, strips);
   });
 
