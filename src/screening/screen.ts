@@ -11,6 +11,7 @@ import {
   type FacingTable,
   type LineGeometry,
   type StationTable,
+  type ZoneIndex,
 } from '../geometry/index.js';
 import { chooseWorkCrs, type WorkCrs } from '../io/crs.js';
 import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
@@ -48,6 +49,7 @@ export interface ScreenResult {
   lines: LineRecord[];
   zones: ZoneRecord[];
   lineLengthsM: Float64Array;
+  zoneIndex: ZoneIndex;
   stations: StationTable;
   facings: FacingTable;
   results: FacingResults;
@@ -58,7 +60,15 @@ export interface ScreenResult {
   counts: ScreenCounts;
 }
 
-export function screenDistrict(lines: LineRecord[], zones: ZoneRecord[], settings: ScreenSettings): ScreenResult {
+/** Told when each named stage starts and ends: (stage, done, total) with done 0 or total. */
+export type ProgressListener = (stage: string, done: number, total: number) => void;
+
+export function screenDistrict(
+  lines: LineRecord[],
+  zones: ZoneRecord[],
+  settings: ScreenSettings,
+  onProgress: ProgressListener = () => {},
+): ScreenResult {
   const { crs, warnings } = chooseWorkCrs(boundsOf(lines), settings.crs ?? undefined);
   const geometries: LineGeometry[] = lines.map((line) => ({
     id: line.id,
@@ -73,14 +83,22 @@ export function screenDistrict(lines: LineRecord[], zones: ZoneRecord[], setting
     ),
   );
 
+  onProgress('stations', 0, lines.length);
   const stations = placeStations(geometries, settings.stepM);
+  onProgress('stations', lines.length, lines.length);
+  onProgress('transects', 0, stations.count);
   const facings = castTransects(geometries, stations, { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg });
-  const results = solveFacings(lines, lineLengthsM, zones, zoneIndex, stations, facings, settings);
+  onProgress('transects', stations.count, stations.count);
+  const results = solveFacings(lines, lineLengthsM, zones, zoneIndex, stations, facings, settings, (done) =>
+    onProgress('solve', done, facings.count),
+  );
+  onProgress('strips', 0, 1);
   const strips = buildStrips(geometries, stations, facings, { spacingJump: settings.spacingJump }).map((strip) =>
     summariseStrip(strip, lines, stations, facings, results, settings),
   );
   rankStrips(strips, settings.rankBy);
   const lineSummaries = summariseLines(lines, lineLengthsM, stations, facings, results);
+  onProgress('strips', 1, 1);
 
   return {
     settings,
@@ -89,6 +107,7 @@ export function screenDistrict(lines: LineRecord[], zones: ZoneRecord[], setting
     lines,
     zones,
     lineLengthsM,
+    zoneIndex,
     stations,
     facings,
     results,

@@ -53,6 +53,7 @@ export function solveFacings(
   stations: StationTable,
   facings: FacingTable,
   settings: ScreenSettings,
+  onProgress: (done: number) => void = () => {},
 ): FacingResults {
   const n = facings.count;
   const results: FacingResults = {
@@ -71,7 +72,10 @@ export function solveFacings(
     dupuitRatio: new Float64Array(n).fill(NaN),
   };
   const solver = new TransectSolver(64);
+  onProgress(0);
   for (let i = 0; i < n; i++) {
+    // a report every 2^16 facings keeps a progress bar moving at no measurable cost
+    if ((i & 0xffff) === 0xffff) onProgress(i + 1);
     if (facings.reason[i] !== FACING_PAIRED) continue;
     const station = i >> 1;
     const cut = cutTransect(zoneIndex, stations.x[station], stations.y[station], facings.endX[i], facings.endY[i]);
@@ -137,5 +141,6 @@ export function solveFacings(
     if (solver.dupuitRatio < settings.dupuitRatioMin) results.flags[i] |= FLAG_NARROW;
     if (baseHigh - baseLow > settings.baseSpreadFraction * solver.meanThicknessM) results.flags[i] |= FLAG_UNEVEN_BASE;
   }
+  onProgress(n);
   return results;
 }

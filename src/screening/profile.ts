@@ -1,0 +1,107 @@
+// Cross-section of one transect: the water table from line to line over ground and base, for
+// the report and for `doab profile`. It solves the transect again from the same inputs.
+import { cutTransect } from '../geometry/index.js';
+import { SOLVE_OK, TransectSolver } from '../hydraulics/strip-solver.js';
+import type { StripSummary } from './aggregate.js';
+import type { ScreenResult } from './screen.js';
+
+export interface ProfileZone {
+  id: string;
+  fromM: number;
+  toM: number;
+  groundM: number;
+  kMPerDay: number;
+}
+
+export interface Profile {
+  stripId: string;
+  /** The line at x = 0 and the line at x = widthM. */
+  lineA: string;
+  lineB: string;
+  widthM: number;
+  stageAM: number;
+  stageBM: number;
+  baseM: number;
+  zones: ProfileZone[];
+  xM: Float64Array;
+  waterTableM: Float64Array;
+  groundM: Float64Array;
+  peakHeadM: number;
+  peakOffsetM: number;
+  minDepthM: number;
+  seepageAM2PerDay: number;
+  seepageBM2PerDay: number;
+  waterloggedDepthM: number;
+  potentialDepthM: number;
+}
+
+/** The strip's key transect: the one holding its peak water table (peak_wt_m), first found on ties. */
+export function keyFacing(result: ScreenResult, strip: StripSummary): number {
+  let best = -1, bestPeak = -Infinity;
+  for (const list of [strip.facingsA, strip.facingsB]) {
+    for (const facing of list) {
+      const peak = result.results.peakHeadM[facing];
+      if (peak > bestPeak) { bestPeak = peak; best = facing; }
+    }
+  }
+  return best;
+}
+
+/** Samples the solved water table every ~widthM/samples metres, plus zone edges and the peak. */
+export function profileOfFacing(result: ScreenResult, strip: StripSummary, facing: number, samples = 200): Profile | null {
+  const { stations, facings, zones, results } = result;
+  if (facing < 0 || results.status[facing] !== SOLVE_OK) return null;
+  const station = facing >> 1;
+  const cut = cutTransect(result.zoneIndex, stations.x[station], stations.y[station], facings.endX[facing], facings.endY[facing]);
+  const solver = new TransectSolver(Math.max(1, cut.count));
+  const pieces: ProfileZone[] = [];
+  let x = 0, n = 0;
+  for (let p = 0; p < cut.count; p++) {
+    const length = cut.lengthM[p];
+    if (cut.zone[p] < 0) {
+      // a sliver outside every zone joins its neighbour, as in the screening solve
+      if (n > 0) { solver.lengthM[n - 1] += length; pieces[n - 1].toM += length; }
+      x += length;
+      continue;
+    }
+    const zone = zones[cut.zone[p]];
+    solver.lengthM[n] = length + (n === 0 ? x : 0);
+    solver.kMPerDay[n] = zone.kMPerDay;
+    solver.rechargeMPerDay[n] = zone.rechargeMPerDay;
+    solver.groundM[n] = zone.groundM;
+    pieces.push({ id: zone.id, fromM: n === 0 ? 0 : x, toM: x + length, groundM: zone.groundM, kMPerDay: zone.kMPerDay });
+    x += length;
+    n++;
+  }
+  const status = solver.solve(results.stageAM[facing], results.stageBM[facing], results.baseM[facing], n);
+  if (status !== SOLVE_OK) return null;
+  solver.scanDepth(result.settings.bankWidthM);
+  const width = solver.widthM;
+  const xs = new Set<number>();
+  for (let i = 0; i <= samples; i++) xs.add((width * i) / samples);
+  for (const piece of pieces) { xs.add(piece.fromM); xs.add(piece.toM); }
+  xs.add(solver.peakOffsetM);
+  const xM = Float64Array.from([...xs].filter((v) => v >= 0 && v <= width).sort((a, b) => a - b));
+  const ownLine = result.lines[stations.line[station]].id;
+  const partner = result.lines[facings.partner[facing]].id;
+  return {
+    stripId: strip.stripId,
+    lineA: ownLine,
+    lineB: partner,
+    widthM: width,
+    stageAM: results.stageAM[facing],
+    stageBM: results.stageBM[facing],
+    baseM: results.baseM[facing],
+    zones: pieces,
+    xM,
+    waterTableM: xM.map((v) => solver.headAt(v)),
+    groundM: xM.map((v) => solver.groundAt(v)),
+    peakHeadM: solver.peakHeadM,
+    peakOffsetM: solver.peakOffsetM,
+    minDepthM: solver.minDepthM,
+    seepageAM2PerDay: solver.seepageAM2PerDay,
+    seepageBM2PerDay: solver.seepageBM2PerDay,
+    waterloggedDepthM: result.settings.risk.waterloggedDepthM,
+    potentialDepthM: result.settings.risk.potentialDepthM,
+  };
+}
