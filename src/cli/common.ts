@@ -9,16 +9,11 @@ export const VERSION: string = (require('../../package.json') as { version: stri
 /** A command line that cannot run as given (exit code 2). */
 export class UsageError extends Error {}
 
-export function readJsonFile(path: string): unknown {
-  let text: string;
+export function readTextFile(path: string): string {
   try {
-    text = readFileSync(path, 'utf8');
+    return readFileSync(path, 'utf8');
   } catch (error) {
-    throw new DataError({ file: path }, `cannot be read (${(error as NodeJS.ErrnoException).code ?? String(error)})`);
-  }
-  try {
-    return JSON.parse(text);
-  } catch (error) {
-    throw new DataError({ file: path }, `not valid JSON (${(error as Error).message})`);
+    const code = (error as NodeJS.ErrnoException).code;
+    throw new DataError({ file: path }, code === 'ENOENT' ? 'file not found' : `cannot be read (${code ?? String(error)})`);
   }
 }

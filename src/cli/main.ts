@@ -1,9 +1,12 @@
-// Command-line wiring only: parse options, call the stages, map failures to exit codes
-// (0 done, 1 bad data, 2 bad usage). Tests call main() directly or run it as a child process.
+// Command-line wiring only: parse options, call the commands, map failures to exit codes
+// (0 done, 1 bad data, 2 bad usage, 3 internal error). Tests call main() or run it as a child process.
 import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
 import { DataError } from '../io/data-error.js';
+import { checkCommand, type CheckOptions } from './check-command.js';
 import { UsageError, VERSION } from './common.js';
-import { screenCommand, type ScreenOptions } from './screen-command.js';
+import { initConfigCommand, type InitConfigOptions } from './init-config-command.js';
+import { InputProblems, problemLines } from './load-district.js';
+import { screenCommand, type CliIo, type ScreenOptions } from './screen-command.js';
 
 function positiveNumber(value: string): number {
   const number = Number(value);
@@ -11,9 +14,14 @@ function positiveNumber(value: string): number {
   return number;
 }
 
-export async function main(argv: string[], io: { out: (text: string) => void; err: (text: string) => void } = defaultIo): Promise<number> {
+const defaultIo: CliIo = {
+  out: (text: string) => process.stdout.write(text),
+  err: (text: string) => process.stderr.write(text),
+};
+
+export async function main(argv: string[], io: CliIo = defaultIo): Promise<number> {
   const program = new Command('doab')
-    .description('Screen an irrigation district\'s canals and drains for seepage losses and waterlogging risk.')
+    .description("Screen an irrigation district's canals and drains for seepage losses and waterlogging risk.")
     .version(VERSION)
     .exitOverride()
     .configureOutput({ writeOut: io.out, writeErr: io.err });
@@ -21,26 +29,61 @@ export async function main(argv: string[], io: { out: (text: string) => void; er
   program
     .command('screen')
     .description('pair parallel reaches, solve every strip between them, and write GIS layers, a ranked table and a run record')
-    .requiredOption('--canals <file>', 'canal and drain lines (GeoJSON)')
-    .requiredOption('--aquifer <file>', 'aquifer zones (GeoJSON polygons)')
+    .requiredOption('--canals <file>', 'canal and drain lines (GeoJSON, GeoJSON text sequence, .shp or zipped shapefile)')
+    .requiredOption('--aquifer <file>', 'aquifer zones (polygons; same formats)')
     .requiredOption('--out <dir>', 'output folder (created if missing)')
-    .option('--config <file>', 'JSON config with settings and risk thresholds')
+    .option('--config <file>', 'JSON config (comments allowed): settings, risk thresholds, field names and units')
     .option('--step <m>', 'station spacing along each line, m (default 100)', positiveNumber)
     .option('--max-gap <m>', 'longest transect, m (default 3000)', positiveNumber)
     .option('--max-angle <deg>', 'largest angle from parallel for a partner, degrees (default 20)', positiveNumber)
     .option('--crs <crs>', 'work CRS: EPSG:326xx/327xx or a +proj string (default: UTM zone of the data centre)')
+    .option('--input-crs <crs>', 'CRS of the input files (EPSG:<code>, proj4 or WKT); overrides .prj and "crs" members')
     .addOption(new Option('--rank-by <key>', 'rank strips by loss per km or by smallest depth (default loss)').choices(['loss', 'risk']))
-    .option('--transects', 'also write transects.geojson with every transect for inspection')
+    .option('--transects', 'also write the transects layer, every transect with its inputs and results')
+    .option('--seq', 'write the layers as GeoJSON text sequences (RFC 8142, .geojsons) instead of FeatureCollections')
+    .option('--skip-invalid', 'leave out invalid features instead of stopping; run.json lists them')
     .option('--quiet', 'print only errors and the caution line')
     .option('--debug', 'show stack traces of internal errors')
-    .action((options: ScreenOptions) => {
-      exitCode = screenCommand(options, argv, io);
+    .action(async (options: ScreenOptions) => {
+      exitCode = await screenCommand(options, argv, io);
     });
+  program
+    .command('check')
+    .description('check the inputs without computing: every problem with file, feature and field')
+    .requiredOption('--canals <file>', 'canal and drain lines')
+    .requiredOption('--aquifer <file>', 'aquifer zones')
+    .option('--config <file>', 'JSON config (field names, units, defaults)')
+    .option('--input-crs <crs>', 'CRS of the input files')
+    .option('--debug', 'show stack traces of internal errors')
+    .action(async (options: CheckOptions) => {
+      exitCode = await checkCommand(options, io);
+    });
+  program
+    .command('init-config')
+    .description('write a commented starting config from the attributes found in your files')
+    .requiredOption('--canals <file>', 'canal and drain lines')
+    .requiredOption('--aquifer <file>', 'aquifer zones')
+    .requiredOption('--out <file>', 'config file to write (not overwritten unless --force)')
+    .option('--input-crs <crs>', 'CRS of the input files')
+    .option('--force', 'replace an existing config file')
+    .option('--debug', 'show stack traces of internal errors')
+    .action(async (options: InitConfigOptions) => {
+      exitCode = await initConfigCommand(options, io);
+    });
+  if (argv.length === 0) {
+    io.err(program.helpInformation());
+    return 2;
+  }
   try {
     await program.parseAsync(argv, { from: 'user' });
   } catch (error) {
     if (error instanceof CommanderError) {
       return error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help' ? 0 : 2;
+    }
+    if (error instanceof InputProblems) {
+      io.err(problemLines(error.problems));
+      io.err(`doab: stopped: ${error.message}; nothing was written\n`);
+      return 1;
     }
     if (error instanceof DataError) {
       io.err(`doab: error: ${error.message}\n`);
@@ -54,14 +97,5 @@ export async function main(argv: string[], io: { out: (text: string) => void; er
     io.err(`doab: internal error: ${(error as Error).message}\n${debug ? `${(error as Error).stack}\n` : 'Run again with --debug for details, and please report it.\n'}`);
     return 3;
   }
-  if (argv.length === 0) {
-    io.err(program.helpInformation());
-    return 2;
-  }
   return exitCode;
 }
-
-const defaultIo = {
-  out: (text: string) => process.stdout.write(text),
-  err: (text: string) => process.stderr.write(text),
-};

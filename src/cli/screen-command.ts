@@ -1,12 +1,12 @@
-// `doab screen`: read, validate, screen, write all outputs or none, print the summary.
-import { linesLayer, rankingTable, stripsLayer, transectsLayer } from '../io/layers.js';
+// `doab screen`: read and check, screen, write all outputs or none, print the summary.
 import { writeAllOrNothing, type OutputFile } from '../io/atomic-write.js';
-import { readGeoJsonFile } from '../io/read-geojson.js';
+import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from '../io/layers.js';
 import { runRecord, summaryText, CAUTION } from '../io/run-record.js';
-import { readLines, readZones } from '../screening/district-inputs.js';
-import { screenDistrict } from '../screening/screen.js';
-import { DEFAULT_SETTINGS, settingsFromConfig, type RankBy, type ScreenSettings } from '../screening/settings.js';
-import { readJsonFile, UsageError, VERSION } from './common.js';
+import { defaultConfig, parseConfig, type RunConfig } from '../screening/config.js';
+import { screenDistrict, type ProgressListener } from '../screening/screen.js';
+import type { RankBy } from '../screening/settings.js';
+import { readTextFile, UsageError, VERSION } from './common.js';
+import { errorsOf, InputProblems, loadDistrict, problemLines } from './load-district.js';
 
 export interface ScreenOptions {
   canals: string;
@@ -17,15 +17,24 @@ export interface ScreenOptions {
   maxGap?: number;
   maxAngle?: number;
   crs?: string;
+  inputCrs?: string;
   rankBy?: RankBy;
   transects?: boolean;
+  seq?: boolean;
+  skipInvalid?: boolean;
   quiet?: boolean;
   debug?: boolean;
 }
 
-export function screenSettings(options: ScreenOptions): ScreenSettings {
-  const base = options.config ? settingsFromConfig(options.config, readJsonFile(options.config)) : DEFAULT_SETTINGS;
-  const settings: ScreenSettings = { ...base, risk: { ...base.risk } };
+export interface CliIo {
+  out: (text: string) => void;
+  err: (text: string) => void;
+}
+
+/** The config file (if any) with the command line's options over it. */
+export function runConfig(options: Partial<ScreenOptions>): RunConfig {
+  const config = options.config ? parseConfig(options.config, readTextFile(options.config)) : defaultConfig();
+  const settings = config.settings;
   if (options.step !== undefined) settings.stepM = options.step;
   if (options.maxGap !== undefined) settings.maxGapM = options.maxGap;
   if (options.maxAngle !== undefined) {
@@ -35,46 +44,62 @@ export function screenSettings(options: ScreenOptions): ScreenSettings {
   if (options.crs !== undefined) settings.crs = options.crs;
   if (options.rankBy !== undefined) settings.rankBy = options.rankBy;
   if (options.transects) settings.writeTransects = true;
-  return settings;
+  if (options.inputCrs !== undefined) config.inputCrs = options.inputCrs;
+  return config;
 }
 
-export function screenCommand(
-  options: ScreenOptions,
-  argv: string[],
-  io: { out: (text: string) => void; err: (text: string) => void },
-): number {
+export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
-  const settings = screenSettings(options);
-  const canalsFile = readGeoJsonFile(options.canals);
-  const aquiferFile = readGeoJsonFile(options.aquifer);
-  const lines = readLines(options.canals, canalsFile.features);
-  const zones = readZones(options.aquifer, aquiferFile.features);
-  log(`read ${lines.length} lines from ${options.canals} and ${zones.length} zones from ${options.aquifer}`);
+  const config = runConfig(options);
+  const settings = config.settings;
+  const district = await loadDistrict(options.canals, options.aquifer, config);
+  const errors = errorsOf(district.problems);
+  const fileErrors = errors.filter((problem) => problem.place.featureIndex === undefined);
+  if (errors.length > 0 && (!options.skipInvalid || fileErrors.length > 0)) throw new InputProblems(errors);
+  if (!district.canals || !district.aquifer) throw new InputProblems(errors);
+  const warnings = district.problems.filter((problem) => problem.severity === 'warning');
+  if (warnings.length > 0) log(problemLines(warnings).trimEnd());
+  if (errors.length > 0) log(`skipping ${errors.length} invalid feature${errors.length === 1 ? '' : 's'} (--skip-invalid):\n${problemLines(errors).trimEnd()}`);
+  if (district.lines.length === 0 || district.zones.length === 0) throw new InputProblems(errors);
+  log(`read ${district.lines.length} lines from ${options.canals} and ${district.zones.length} zones from ${options.aquifer}`);
+
   let result;
   try {
-    result = screenDistrict(lines, zones, settings);
+    result = screenDistrict(district.lines, district.zones, settings, onProgress);
   } catch (error) {
     // an unusable --crs is the user's to fix, not an internal failure
-    if (options.crs !== undefined && /CRS/.test((error as Error).message)) throw new UsageError((error as Error).message);
+    if (settings.crs !== null && /CRS/.test((error as Error).message)) throw new UsageError((error as Error).message);
     throw error;
   }
   for (const warning of result.warnings) log(`warning: ${warning}`);
   log(`solved ${result.counts.facingsByReason.paired} paired transect sides into ${result.counts.strips} strips`);
 
+  const format: LayerFormat = options.seq ? 'sequence' : 'collection';
+  const extension = options.seq ? 'geojsons' : 'geojson';
   const files: OutputFile[] = [
-    { name: 'strips.geojson', content: stripsLayer(result) },
-    { name: 'canals.geojson', content: linesLayer(result) },
+    { name: `strips.${extension}`, content: stripsLayer(result, format) },
+    { name: `canals.${extension}`, content: linesLayer(result, format) },
     { name: 'ranking.csv', content: rankingTable(result) },
   ];
-  if (settings.writeTransects) files.push({ name: 'transects.geojson', content: transectsLayer(result) });
+  if (settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
   const outputs = [...files.map((file) => file.name), 'run.json'];
   files.push({
     name: 'run.json',
-    content: runRecord(result, { version: VERSION, commandLine: ['doab', ...argv], canals: canalsFile, aquifer: aquiferFile, config: options.config ?? null, outputs }),
+    content: runRecord(result, {
+      version: VERSION,
+      commandLine: ['doab', ...argv],
+      canals: district.canals,
+      aquifer: district.aquifer,
+      config: options.config ?? null,
+      inputCrs: config.inputCrs,
+      rules: config.rules,
+      outputs,
+      problems: district.problems,
+    }),
   });
   writeAllOrNothing(options.out, files);
   log(`wrote ${outputs.join(', ')} to ${options.out}`);
-  if (!options.quiet) io.out(summaryText(result));
+  if (!options.quiet) io.out(summaryText(result, 10, errors.length));
   else io.err(`${CAUTION}\n`);
   return 0;
 }

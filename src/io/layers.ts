@@ -43,7 +43,11 @@ export function ringToLonLat(crs: WorkCrs, ringM: Float64Array): [number, number
   return ring;
 }
 
-function featureCollection(features: object[]): string {
+/** A FeatureCollection (RFC 7946), or a GeoJSON text sequence (RFC 8142: each record led by RS, ended by LF). */
+export type LayerFormat = 'collection' | 'sequence';
+
+function featureCollection(features: object[], format: LayerFormat): string {
+  if (format === 'sequence') return features.map((f) => `\u001e${JSON.stringify(f)}\n`).join('');
   if (features.length === 0) return '{"type":"FeatureCollection","features":[]}\n';
   return `{"type":"FeatureCollection","features":[\n${features.map((f) => JSON.stringify(f)).join(',\n')}\n]}\n`;
 }
@@ -71,13 +75,14 @@ export function stripProperties(strip: StripSummary): Record<string, unknown> {
   };
 }
 
-export function stripsLayer(result: ScreenResult): string {
+export function stripsLayer(result: ScreenResult, format: LayerFormat = 'collection'): string {
   return featureCollection(
     result.strips.map((strip) => ({
       type: 'Feature',
       properties: stripProperties(strip),
       geometry: { type: 'Polygon', coordinates: [ringToLonLat(result.crs, strip.ringM)] },
     })),
+    format,
   );
 }
 
@@ -87,12 +92,13 @@ function reasonsText(byReason: Record<string, number>): string {
     .join('; ');
 }
 
-export function linesLayer(result: ScreenResult): string {
+export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): string {
   return featureCollection(
     result.lines.map((line, i) => {
       const summary = result.lineSummaries[i];
-      const properties: Record<string, unknown> = {};
-      for (const [key, value] of Object.entries(line.properties)) properties[key] = value;
+      // the input's attributes go out as they came in; the prototype-free copy keeps __proto__ a plain key
+      const properties: Record<string, unknown> = Object.create(null);
+      for (const key of Object.keys(line.properties)) properties[key] = line.properties[key];
       properties.length_m = roundNumber(summary.lengthM);
       properties.loss_m3_d = roundNumber(summary.lossM3PerDay);
       properties.loss_m3_d_km = summary.pairedM > 0 ? roundNumber(summary.lossM3PerDay / (summary.pairedM / 1000)) : null;
@@ -103,10 +109,11 @@ export function linesLayer(result: ScreenResult): string {
       const geometry = parts.length === 1 ? { type: 'LineString', coordinates: parts[0] } : { type: 'MultiLineString', coordinates: parts };
       return { type: 'Feature', properties, geometry };
     }),
+    format,
   );
 }
 
-export function transectsLayer(result: ScreenResult): string {
+export function transectsLayer(result: ScreenResult, format: LayerFormat = 'collection'): string {
   const { stations, facings, results, lines, crs } = result;
   const features: object[] = [];
   for (let i = 0; i < facings.count; i++) {
@@ -142,7 +149,7 @@ export function transectsLayer(result: ScreenResult): string {
       },
     });
   }
-  return featureCollection(features);
+  return featureCollection(features, format);
 }
 
 // OWASP, CSV Injection: a cell starting with =, +, -, @, tab or carriage return may run as a

@@ -1,31 +1,29 @@
-// Reads a GeoJSON file as given: the bytes (for the run record's SHA-256) and the parsed
-// FeatureCollection. Nothing here interprets attributes; that is the validation stage's job.
-import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
+// Parses GeoJSON text as given: a FeatureCollection (RFC 7946, with or without a legacy `crs`
+// member) or a GeoJSON text sequence (RFC 8142: records led by RS, or one feature per line).
+// Nothing here interprets attributes; that is the validation stage's job.
 import { DataError } from './data-error.js';
 
-export interface InputFile {
-  path: string;
-  sha256: string;
-  bytes: number;
+export interface ParsedGeoJson {
   features: unknown[];
-  /** The collection's own members other than `features` (a legacy `crs`, say). */
-  members: Record<string, unknown>;
+  /** The CRS named by a legacy `crs` member, or null. */
+  declaredCrs: string | null;
+  sequence: boolean;
 }
 
-export function readGeoJsonFile(path: string): InputFile {
-  let buffer: Buffer;
-  try {
-    buffer = readFileSync(path);
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    const why = code === 'ENOENT' ? 'file not found' : code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (${code ?? String(error)})`;
-    throw new DataError({ file: path }, why);
-  }
-  if (buffer.length === 0) throw new DataError({ file: path }, 'the file is empty (0 bytes)');
+const RS = '\u001e';
+
+/** True when the text is a GeoJSON text sequence rather than one JSON document. */
+export function looksLikeSequence(path: string, text: string): boolean {
+  if (/\.(geojsons|geojsonl|geojsonseq|ndjson|jsonl)$/i.test(path)) return true;
+  return text.trimStart().startsWith(RS);
+}
+
+export function parseGeoJsonText(path: string, text: string): ParsedGeoJson {
+  if (text.trim() === '') throw new DataError({ file: path }, 'the file is empty');
+  if (looksLikeSequence(path, text)) return { features: parseSequence(path, text), declaredCrs: null, sequence: true };
   let parsed: unknown;
   try {
-    parsed = JSON.parse(buffer.toString('utf8'));
+    parsed = JSON.parse(text);
   } catch (error) {
     throw new DataError({ file: path }, `not valid JSON (${(error as Error).message}); is the file complete?`);
   }
@@ -34,15 +32,36 @@ export function readGeoJsonFile(path: string): InputFile {
   }
   const object = parsed as Record<string, unknown>;
   if (object.type !== 'FeatureCollection' || !Array.isArray(object.features)) {
-    throw new DataError({ file: path }, `expected a GeoJSON FeatureCollection, found type ${JSON.stringify(object.type)}`);
+    throw new DataError({ file: path }, `expected a GeoJSON FeatureCollection with a "features" array, found type ${JSON.stringify(object.type)}`);
   }
-  const members: Record<string, unknown> = Object.create(null);
-  for (const key of Object.keys(object)) if (key !== 'features') members[key] = object[key];
-  return {
-    path,
-    sha256: createHash('sha256').update(buffer).digest('hex'),
-    bytes: buffer.length,
-    features: object.features,
-    members,
-  };
+  return { features: object.features, declaredCrs: legacyCrsName(path, object.crs), sequence: false };
+}
+
+// The 2008 GeoJSON draft's named CRS, still written by many desktop exports of projected data:
+// {"type": "name", "properties": {"name": "urn:ogc:def:crs:EPSG::32643"}}
+function legacyCrsName(path: string, crs: unknown): string | null {
+  if (crs === undefined || crs === null) return null;
+  const member = crs as { type?: unknown; properties?: { name?: unknown } };
+  if (member.type === 'name' && typeof member.properties?.name === 'string') return member.properties.name;
+  throw new DataError({ file: path, field: 'crs' }, `unsupported "crs" member ${JSON.stringify(crs).slice(0, 120)}; expected {"type":"name","properties":{"name":"EPSG:<code>"}}`);
+}
+
+function parseSequence(path: string, text: string): unknown[] {
+  const records = text.includes(RS) ? text.split(RS) : text.split('\n');
+  const features: unknown[] = [];
+  records.forEach((record, index) => {
+    if (record.trim() === '') return;
+    let value: unknown;
+    try {
+      value = JSON.parse(record);
+    } catch (error) {
+      throw new DataError({ file: path }, `record ${index} of the GeoJSON text sequence is not valid JSON (${(error as Error).message}); a truncated record?`);
+    }
+    if (value !== null && typeof value === 'object' && (value as { type?: unknown }).type === 'FeatureCollection') {
+      features.push(...(((value as { features?: unknown[] }).features ?? []) as unknown[]));
+    } else {
+      features.push(value);
+    }
+  });
+  return features;
 }

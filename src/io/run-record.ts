@@ -1,7 +1,9 @@
 // The run record (run.json) and the end-of-run summary printed to stdout.
 import type { ScreenResult } from '../screening/screen.js';
 import { roundNumber } from './layers.js';
-import type { InputFile } from './read-geojson.js';
+import type { InputRules } from '../screening/input-rules.js';
+import { formatProblem, type Problem } from '../screening/district-inputs.js';
+import type { InputFile } from './read-features.js';
 
 export const CAUTION =
   'Screening estimate only (steady Dupuit-Forchheimer flow, fully penetrating unlined lines, horizontal base): ' +
@@ -13,11 +15,15 @@ export interface RunMeta {
   canals: InputFile;
   aquifer: InputFile;
   config: string | null;
+  inputCrs: string | null;
+  rules: InputRules;
   outputs: string[];
+  /** Every problem the checks found: warnings, and the errors of features skipped with --skip-invalid. */
+  problems: Problem[];
 }
 
 function describeInput(file: InputFile) {
-  return { path: file.path, sha256: file.sha256, bytes: file.bytes, features: file.features.length };
+  return { path: file.path, format: file.format, source_crs: file.sourceCrs, sha256: file.sha256, bytes: file.bytes, features: file.features.length };
 }
 
 export function runRecord(result: ScreenResult, meta: RunMeta): string {
@@ -40,6 +46,11 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
       waterlogged_depth_m: settings.risk.waterloggedDepthM,
       potential_depth_m: settings.risk.potentialDepthM,
       config: meta.config,
+      input_crs: meta.inputCrs,
+      fields: meta.rules.fields,
+      units: meta.rules.units,
+      defaults: meta.rules.defaults,
+      kind_words: meta.rules.kindWords,
     },
     inputs: { canals: describeInput(meta.canals), aquifer: describeInput(meta.aquifer) },
     work_crs: { name: result.crs.name, epsg: result.crs.epsg, proj4: result.crs.proj4Def },
@@ -63,7 +74,14 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
       risk_area_ha: roundNumber(totals.riskAreaHa),
     },
     outputs: meta.outputs,
-    warnings: result.warnings,
+    warnings: [...meta.problems.filter((p) => p.severity === 'warning').map(formatProblem), ...result.warnings],
+    skipped_features: meta.problems.filter((p) => p.severity === 'error').map((p) => ({
+      file: p.place.file,
+      feature: p.place.featureIndex ?? null,
+      id: p.place.featureId ?? null,
+      field: p.place.field ?? null,
+      problem: p.message,
+    })),
     caution: CAUTION,
   };
   return `${JSON.stringify(record, null, 2)}\n`;
@@ -76,7 +94,7 @@ function formatNumber(value: number, digits: number): string {
   return Number(text) === 0 ? text.replace('-', '') : text;
 }
 
-export function summaryText(result: ScreenResult, top = 10): string {
+export function summaryText(result: ScreenResult, top = 10, skipped = 0): string {
   const { totals, counts } = result;
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
@@ -105,6 +123,7 @@ export function summaryText(result: ScreenResult, top = 10): string {
   lines.push('', `Top ${rows.length} strips (ranked by ${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}):`);
   lines.push(format(header), ...rows.map(format));
   for (const warning of result.warnings) lines.push(`warning: ${warning}`);
+  if (skipped > 0) lines.push(`${skipped} invalid feature${skipped === 1 ? ' was' : 's were'} skipped (--skip-invalid); run.json lists them`);
   lines.push('', `CAUTION: ${CAUTION}`);
   return `${lines.join('\n')}\n`;
 }

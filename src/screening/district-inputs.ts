@@ -1,11 +1,15 @@
-// Validation stage: turns parsed GeoJSON features into typed records of lines and zones,
-// or throws a DataError naming the file, the feature and the field. Pure: no file access.
-import { DataError } from '../io/data-error.js';
-import { rechargeToMPerDay } from '../hydraulics/units.js';
+// Validation stage: turns GeoJSON features (lon/lat) into typed records of lines and zones, and
+// lists every problem found with its file, feature and field. A feature with an error is left
+// out of the records; warnings keep it. Pure: no file access.
+import { booleanValid, kinks, polygon as turfPolygon } from '@turf/turf';
+import { kToMPerDay, lengthToM, rechargeFromMPerDay, rechargeToMPerDay } from '../hydraulics/units.js';
+import { describePlace, type DataProblemPlace } from '../io/data-error.js';
+import type { InputRules } from './input-rules.js';
 
 export type LineKind = 'canal' | 'drain';
 
 export interface LineRecord {
+  /** Index of the feature in its file. */
   index: number;
   id: string;
   name: string | null;
@@ -20,7 +24,10 @@ export interface LineRecord {
 }
 
 export interface ZoneRecord {
+  /** Position in the zone list, which the geometry stage indexes by. */
   index: number;
+  /** Index of the feature in its file. */
+  featureIndex: number;
   id: string;
   kMPerDay: number;
   baseM: number;
@@ -30,118 +37,195 @@ export interface ZoneRecord {
   polygonsLonLat: number[][][][];
 }
 
+export interface Problem {
+  severity: 'error' | 'warning';
+  place: DataProblemPlace;
+  message: string;
+}
+
+export interface Checked<T> {
+  records: T[];
+  problems: Problem[];
+}
+
+export function formatProblem(problem: Problem): string {
+  return `${problem.severity}: ${describePlace(problem.place)}: ${problem.message}`;
+}
+
+// Thrown inside one feature's check; caught per feature so that every feature gets checked.
+class FeatureProblem extends Error {
+  constructor(readonly field: string | undefined, message: string) {
+    super(message);
+  }
+}
+
 interface FeatureView {
-  file: string;
   index: number;
   id: string | undefined;
   geometry: Record<string, unknown> | null;
   properties: Record<string, unknown>;
 }
 
-function viewFeature(file: string, feature: unknown, index: number): FeatureView {
+function viewFeature(feature: unknown, index: number, idField: string): FeatureView {
   if (feature === null || typeof feature !== 'object' || (feature as { type?: unknown }).type !== 'Feature') {
-    throw new DataError({ file, featureIndex: index }, 'is not a GeoJSON Feature');
+    throw new FeatureProblem(undefined, 'is not a GeoJSON Feature');
   }
   const raw = feature as Record<string, unknown>;
+  // a prototype-free copy: attribute names such as __proto__ stay plain data
   const properties: Record<string, unknown> = Object.create(null);
   if (raw.properties !== null && typeof raw.properties === 'object') {
-    for (const [key, value] of Object.entries(raw.properties as object)) properties[key] = value;
+    for (const key of Object.keys(raw.properties as object)) properties[key] = (raw.properties as Record<string, unknown>)[key];
   }
-  const id = typeof properties.id === 'string' || typeof properties.id === 'number' ? String(properties.id) : undefined;
+  const rawId = properties[idField];
+  const id = typeof rawId === 'string' || (typeof rawId === 'number' && Number.isFinite(rawId)) ? String(rawId).trim() : undefined;
   const geometry = raw.geometry !== null && typeof raw.geometry === 'object' ? (raw.geometry as Record<string, unknown>) : null;
-  return { file, index, id, geometry, properties };
+  return { index, id: id === '' ? undefined : id, geometry, properties };
 }
 
-function fail(view: FeatureView, field: string | undefined, problem: string): never {
-  throw new DataError({ file: view.file, featureIndex: view.index, featureId: view.id, field }, problem);
-}
-
-function requiredId(view: FeatureView, seen: Set<string>): string {
-  if (view.id === undefined || view.id.trim() === '') fail(view, 'id', 'missing id: every feature needs a unique text id');
-  if (seen.has(view.id)) fail(view, 'id', `duplicate id "${view.id}"`);
-  seen.add(view.id);
-  return view.id;
+function describeValue(value: unknown): string {
+  if (typeof value === 'string') {
+    if (/^\s*[-+]?\d+,\d+\s*$/.test(value)) return `text "${value}" (a decimal comma? write ${value.trim().replace(',', '.')} as a number)`;
+    if (value.trim() !== '' && Number.isFinite(Number(value))) return `text "${value}" (a number stored as text; store it as a number)`;
+    return `text "${value}"`;
+  }
+  return `${Array.isArray(value) ? 'a list' : typeof value} ${JSON.stringify(value)}`;
 }
 
 function numberField(view: FeatureView, field: string, fallback?: number): number {
   const value = view.properties[field];
   if (value === undefined || value === null || value === '') {
     if (fallback !== undefined) return fallback;
-    fail(view, field, 'missing required number');
+    throw new FeatureProblem(field, 'missing required number');
   }
-  if (typeof value !== 'number') {
-    fail(view, field, `expected a number, found ${typeof value} ${JSON.stringify(value)}`);
-  }
-  if (!Number.isFinite(value)) fail(view, field, `expected a finite number, found ${value}`);
+  if (typeof value !== 'number') throw new FeatureProblem(field, `expected a number, found ${describeValue(value)}`);
+  if (!Number.isFinite(value)) throw new FeatureProblem(field, `expected a finite number, found ${value}`);
   return value;
 }
 
-function checkPosition(view: FeatureView, position: unknown): number[] {
-  if (!Array.isArray(position) || position.length < 2) fail(view, 'geometry', 'a position is not an array of at least two numbers');
+function checkPosition(position: unknown): number[] {
+  if (!Array.isArray(position) || position.length < 2) throw new FeatureProblem('geometry', `a position is not a list of at least two numbers: ${JSON.stringify(position)}`);
   const [lon, lat] = position as unknown[];
   if (typeof lon !== 'number' || typeof lat !== 'number' || !Number.isFinite(lon) || !Number.isFinite(lat)) {
-    fail(view, 'geometry', `a coordinate is not a finite number: ${JSON.stringify(position)}`);
+    throw new FeatureProblem('geometry', `a coordinate is not a finite number: ${JSON.stringify(position)}`);
   }
   if (Math.abs(lon) > 180 || Math.abs(lat) > 90) {
-    fail(view, 'geometry', `coordinate ${JSON.stringify(position)} is not longitude/latitude in degrees (RFC 7946); reproject the file to WGS 84`);
+    throw new FeatureProblem(
+      'geometry',
+      `coordinate ${JSON.stringify(position)} cannot be longitude/latitude (outside +-180/+-90): the data look projected but no CRS is declared; ` +
+        'add the .prj, a "crs" member, or give --input-crs EPSG:<code>',
+    );
   }
   return [lon, lat];
 }
 
 function lineParts(view: FeatureView): number[][][] {
   const geometry = view.geometry;
-  if (geometry === null) fail(view, 'geometry', 'has no geometry');
+  if (geometry === null) throw new FeatureProblem('geometry', 'has no geometry');
   const raw = geometry.type === 'LineString' ? [geometry.coordinates] : geometry.type === 'MultiLineString' ? geometry.coordinates : null;
-  if (raw === null) fail(view, 'geometry', `expected LineString or MultiLineString, found ${JSON.stringify(geometry.type)}`);
-  if (!Array.isArray(raw) || raw.length === 0) fail(view, 'geometry', 'empty geometry');
+  if (raw === null) throw new FeatureProblem('geometry', `expected LineString or MultiLineString, found ${JSON.stringify(geometry.type)}`);
+  if (!Array.isArray(raw) || raw.length === 0 || (raw.length === 1 && Array.isArray(raw[0]) && raw[0].length === 0)) {
+    throw new FeatureProblem('geometry', 'empty geometry: no positions');
+  }
   return raw.map((part) => {
-    if (!Array.isArray(part) || part.length < 2) fail(view, 'geometry', 'a line part has fewer than two positions');
-    return part.map((position) => checkPosition(view, position));
+    if (!Array.isArray(part) || part.length < 2) throw new FeatureProblem('geometry', 'a line part has fewer than two positions');
+    return part.map(checkPosition);
   });
 }
 
 function polygonList(view: FeatureView): number[][][][] {
   const geometry = view.geometry;
-  if (geometry === null) fail(view, 'geometry', 'has no geometry');
+  if (geometry === null) throw new FeatureProblem('geometry', 'has no geometry');
   const raw = geometry.type === 'Polygon' ? [geometry.coordinates] : geometry.type === 'MultiPolygon' ? geometry.coordinates : null;
-  if (raw === null) fail(view, 'geometry', `expected Polygon or MultiPolygon, found ${JSON.stringify(geometry.type)}`);
-  if (!Array.isArray(raw) || raw.length === 0) fail(view, 'geometry', 'empty geometry');
-  return raw.map((polygon) => {
-    if (!Array.isArray(polygon) || polygon.length === 0) fail(view, 'geometry', 'a polygon has no rings');
-    return polygon.map((ring) => {
-      if (!Array.isArray(ring) || ring.length < 4) fail(view, 'geometry', 'a polygon ring has fewer than four positions');
-      const positions = ring.map((position) => checkPosition(view, position));
+  if (raw === null) throw new FeatureProblem('geometry', `expected Polygon or MultiPolygon, found ${JSON.stringify(geometry.type)}`);
+  if (!Array.isArray(raw) || raw.length === 0 || (raw.length === 1 && Array.isArray(raw[0]) && raw[0].length === 0)) {
+    throw new FeatureProblem('geometry', 'empty geometry: no rings');
+  }
+  return raw.map((polygon, p) => {
+    if (!Array.isArray(polygon) || polygon.length === 0) throw new FeatureProblem('geometry', `polygon ${p} has no rings`);
+    const rings = polygon.map((ring) => {
+      if (!Array.isArray(ring) || ring.length < 4) throw new FeatureProblem('geometry', 'a polygon ring has fewer than four positions');
+      const positions = ring.map(checkPosition);
       const first = positions[0], last = positions[positions.length - 1];
-      if (first[0] !== last[0] || first[1] !== last[1]) fail(view, 'geometry', 'a polygon ring is not closed (first and last positions differ)');
+      if (first[0] !== last[0] || first[1] !== last[1]) {
+        throw new FeatureProblem('geometry', `a polygon ring is not closed: it starts at ${JSON.stringify(first)} and ends at ${JSON.stringify(last)}`);
+      }
       return positions;
     });
+    const shape = turfPolygon(rings);
+    const crossings = kinks(shape).features;
+    if (crossings.length > 0) {
+      const at = crossings[0].geometry.coordinates.map((v) => Number(v.toFixed(6)));
+      throw new FeatureProblem('geometry', `polygon ${p} intersects itself (first crossing near ${JSON.stringify(at)}); fix the ring`);
+    }
+    if (!booleanValid(shape)) throw new FeatureProblem('geometry', `polygon ${p} is not a valid polygon (a hole outside its shell, or rings touching)`);
+    return rings;
   });
 }
 
-export function readLines(file: string, features: unknown[]): LineRecord[] {
-  if (features.length === 0) throw new DataError({ file }, 'has no features: expected canal and drain lines');
-  const seen = new Set<string>();
-  return features.map((feature, index) => {
-    const view = viewFeature(file, feature, index);
-    const id = requiredId(view, seen);
-    const kindValue = view.properties.kind ?? 'canal';
-    if (kindValue !== 'canal' && kindValue !== 'drain') fail(view, 'kind', `expected "canal" or "drain", found ${JSON.stringify(kindValue)}`);
-    const hasConstant = view.properties.stage_m !== undefined && view.properties.stage_m !== null;
-    let stageStartM: number, stageEndM: number;
-    if (hasConstant) {
-      stageStartM = stageEndM = numberField(view, 'stage_m');
-    } else if (view.properties.stage_start_m !== undefined || view.properties.stage_end_m !== undefined) {
-      stageStartM = numberField(view, 'stage_start_m');
-      stageEndM = numberField(view, 'stage_end_m');
-    } else {
-      fail(view, 'stage_m', 'missing water level: give stage_m, or stage_start_m and stage_end_m');
+function checkAll<T>(
+  file: string,
+  features: unknown[],
+  idField: string,
+  what: string,
+  build: (view: FeatureView, warn: (field: string, message: string) => void) => T,
+): Checked<T> {
+  const problems: Problem[] = [];
+  const records: T[] = [];
+  if (features.length === 0) {
+    problems.push({ severity: 'error', place: { file }, message: `has no features: expected ${what}` });
+    return { records, problems };
+  }
+  const seen = new Map<string, number>();
+  features.forEach((feature, index) => {
+    let view: FeatureView | undefined;
+    const place = (field?: string): DataProblemPlace => ({ file, featureIndex: index, featureId: view?.id, field });
+    const warnings: Problem[] = [];
+    try {
+      view = viewFeature(feature, index, idField);
+      if (view.id === undefined) throw new FeatureProblem(idField, `missing id: every feature needs a unique text id in "${idField}"`);
+      const earlier = seen.get(view.id);
+      if (earlier !== undefined) throw new FeatureProblem(idField, `duplicate id "${view.id}" (also feature ${earlier})`);
+      seen.set(view.id, index);
+      records.push(build(view, (field, message) => warnings.push({ severity: 'warning', place: place(field), message })));
+      problems.push(...warnings);
+    } catch (error) {
+      if (!(error instanceof FeatureProblem)) throw error;
+      problems.push({ severity: 'error', place: place(error.field), message: error.message });
     }
-    const name = view.properties.name;
+  });
+  return { records, problems };
+}
+
+export function checkLines(file: string, features: unknown[], rules: InputRules): Checked<LineRecord> {
+  const f = rules.fields.lines;
+  const toM = (value: number) => lengthToM(value, rules.units.elevation);
+  return checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view) => {
+    const kindValue = view.properties[f.kind];
+    let kind: LineKind = rules.defaults.kind;
+    if (kindValue !== undefined && kindValue !== null && kindValue !== '') {
+      const word = String(kindValue).trim().toLowerCase();
+      if (rules.kindWords.canal.some((w) => w.toLowerCase() === word)) kind = 'canal';
+      else if (rules.kindWords.drain.some((w) => w.toLowerCase() === word)) kind = 'drain';
+      else {
+        throw new FeatureProblem(f.kind, `expected ${[...rules.kindWords.canal, ...rules.kindWords.drain].map((w) => `"${w}"`).join(' or ')}, found ${describeValue(kindValue)}`);
+      }
+    }
+    const given = (field: string) => view.properties[field] !== undefined && view.properties[field] !== null && view.properties[field] !== '';
+    let stageStartM: number, stageEndM: number;
+    if (given(f.stage)) {
+      stageStartM = stageEndM = toM(numberField(view, f.stage));
+    } else if (given(f.stageStart) || given(f.stageEnd)) {
+      stageStartM = toM(numberField(view, f.stageStart));
+      stageEndM = toM(numberField(view, f.stageEnd));
+    } else {
+      throw new FeatureProblem(f.stage, `missing water level: give "${f.stage}", or "${f.stageStart}" and "${f.stageEnd}"`);
+    }
+    const name = view.properties[f.name];
     return {
-      index,
-      id,
+      index: view.index,
+      id: view.id as string,
       name: typeof name === 'string' ? name : null,
-      kind: kindValue,
+      kind,
       stageStartM,
       stageEndM,
       partsLonLat: lineParts(view),
@@ -150,28 +234,47 @@ export function readLines(file: string, features: unknown[]): LineRecord[] {
   });
 }
 
-export function readZones(file: string, features: unknown[]): ZoneRecord[] {
-  if (features.length === 0) throw new DataError({ file }, 'has no features: expected aquifer zone polygons');
-  const seen = new Set<string>();
-  return features.map((feature, index) => {
-    const view = viewFeature(file, feature, index);
-    const id = requiredId(view, seen);
-    const kMPerDay = numberField(view, 'k_m_d');
-    if (!(kMPerDay > 0)) fail(view, 'k_m_d', `hydraulic conductivity must be positive, found ${kMPerDay}`);
-    const baseM = numberField(view, 'base_m');
-    const groundM = numberField(view, 'ground_m');
-    if (!(groundM > baseM)) fail(view, 'ground_m', `ground ${groundM} m must lie above the aquifer base ${baseM} m`);
-    const rechargeMmPerYear = numberField(view, 'recharge_mm_yr', 0);
+// Hydraulic conductivity of aquifer materials, H. Bouwer (1978), Groundwater Hydrology, as
+// reproduced by Canter et al. (1988) [published second-hand]: from about 0.01 m/d (clay soils,
+// till) to 1000 m/d (gravel). Outside that a zone is unlikely to be an aquifer, or a unit is wrong.
+export const K_HANDBOOK_MIN_M_PER_DAY = 0.01;
+export const K_HANDBOOK_MAX_M_PER_DAY = 1000;
+// Net areal recharge beyond a few thousand mm a year exceeds what irrigation applies or a hot
+// desert evaporates in a year [from memory]: most often a monthly value or a wrong unit.
+export const RECHARGE_PLAUSIBLE_MM_PER_YEAR = 3000;
+
+export function checkZones(file: string, features: unknown[], rules: InputRules): Checked<ZoneRecord> {
+  const f = rules.fields.zones;
+  const toM = (value: number) => lengthToM(value, rules.units.elevation);
+  const checked = checkAll(file, features, f.id, 'aquifer zones (Polygon or MultiPolygon)', (view, warn) => {
+    const kGiven = numberField(view, f.k);
+    const kMPerDay = kToMPerDay(kGiven, rules.units.k);
+    if (!(kMPerDay > 0)) throw new FeatureProblem(f.k, `hydraulic conductivity must be positive, found ${kGiven} ${rules.units.k}`);
+    if (kMPerDay < K_HANDBOOK_MIN_M_PER_DAY || kMPerDay > K_HANDBOOK_MAX_M_PER_DAY) {
+      warn(f.k, `hydraulic conductivity ${kMPerDay} m/d is outside the handbook range for aquifer materials, ${K_HANDBOOK_MIN_M_PER_DAY} to ${K_HANDBOOK_MAX_M_PER_DAY} m/d (H. Bouwer, Groundwater Hydrology, 1978); check the value and its unit (${rules.units.k})`);
+    }
+    const baseM = toM(numberField(view, f.base));
+    const groundM = toM(numberField(view, f.ground));
+    if (!(groundM > baseM)) throw new FeatureProblem(f.ground, `ground ${groundM} m must lie above the aquifer base ${baseM} m`);
+    const rechargeGiven = numberField(view, f.recharge, rules.defaults.recharge);
+    const rechargeMPerDay = rechargeToMPerDay(rechargeGiven, rules.units.recharge);
+    const mmPerYear = rechargeFromMPerDay(rechargeMPerDay, 'mm/yr');
+    if (Math.abs(mmPerYear) > RECHARGE_PLAUSIBLE_MM_PER_YEAR) {
+      throw new FeatureProblem(f.recharge, `recharge ${rechargeGiven} ${rules.units.recharge} is ${Math.round(mmPerYear)} mm/yr, not plausible for a year (limit +-${RECHARGE_PLAUSIBLE_MM_PER_YEAR} mm/yr); check the unit`);
+    }
     return {
-      index,
-      id,
+      index: 0,
+      featureIndex: view.index,
+      id: view.id as string,
       kMPerDay,
       baseM,
       groundM,
-      rechargeMPerDay: rechargeToMPerDay(rechargeMmPerYear, 'mm/yr'),
+      rechargeMPerDay,
       polygonsLonLat: polygonList(view),
     };
   });
+  checked.records.forEach((zone, i) => (zone.index = i));
+  return checked;
 }
 
 /** The line's stage (m) at a chainage (m), varying linearly from its first vertex to its end. */

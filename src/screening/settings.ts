@@ -1,5 +1,4 @@
-// Every setting of a screening run with its default, and the config file that can change them.
-// Unknown keys and wrong types are errors that name the key.
+// Every setting of a screening run with its default, and the risk classes.
 import { DataError } from '../io/data-error.js';
 
 export type RankBy = 'loss' | 'risk';
@@ -46,75 +45,6 @@ export const DEFAULT_SETTINGS: ScreenSettings = Object.freeze({
   bankWidthM: 10,
   risk: Object.freeze({ waterloggedDepthM: 2, potentialDepthM: 3 }),
 }) as ScreenSettings;
-
-type Checker = (value: unknown, key: string) => unknown;
-
-const positive: Checker = (value, key) => {
-  if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) throw new Error(`"${key}" must be a positive number, found ${JSON.stringify(value)}`);
-  return value;
-};
-const angle: Checker = (value, key) => {
-  const v = positive(value, key) as number;
-  if (v >= 90) throw new Error(`"${key}" must be below 90 degrees, found ${v}`);
-  return v;
-};
-const nullableText: Checker = (value, key) => {
-  if (value !== null && typeof value !== 'string') throw new Error(`"${key}" must be text or null, found ${JSON.stringify(value)}`);
-  return value;
-};
-const rankBy: Checker = (value, key) => {
-  if (value !== 'loss' && value !== 'risk') throw new Error(`"${key}" must be "loss" or "risk", found ${JSON.stringify(value)}`);
-  return value;
-};
-const bool: Checker = (value, key) => {
-  if (typeof value !== 'boolean') throw new Error(`"${key}" must be true or false, found ${JSON.stringify(value)}`);
-  return value;
-};
-
-const TOP_LEVEL: Record<string, Checker> = {
-  stepM: positive,
-  maxGapM: positive,
-  maxAngleDeg: angle,
-  crs: nullableText,
-  rankBy,
-  writeTransects: bool,
-  spacingJump: positive,
-  dupuitRatioMin: positive,
-  baseSpreadFraction: positive,
-  bankWidthM: (value, key) => {
-    if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) throw new Error(`"${key}" must be a number of metres, 0 or more, found ${JSON.stringify(value)}`);
-    return value;
-  },
-};
-const RISK_KEYS: Record<string, Checker> = { waterloggedDepthM: positive, potentialDepthM: positive };
-
-/** Applies a parsed config object over the defaults; throws DataError naming the key. */
-export function settingsFromConfig(file: string, config: unknown, base: ScreenSettings = DEFAULT_SETTINGS): ScreenSettings {
-  if (config === null || typeof config !== 'object' || Array.isArray(config)) {
-    throw new DataError({ file }, 'the config must be a JSON object');
-  }
-  const settings: ScreenSettings = { ...base, risk: { ...base.risk } };
-  try {
-    for (const [key, value] of Object.entries(config)) {
-      if (key === 'risk') {
-        if (value === null || typeof value !== 'object' || Array.isArray(value)) throw new Error('"risk" must be an object');
-        for (const [riskKey, riskValue] of Object.entries(value)) {
-          const check = Object.hasOwn(RISK_KEYS, riskKey) ? RISK_KEYS[riskKey] : undefined;
-          if (!check) throw new Error(`unknown key "risk.${riskKey}" (known: ${Object.keys(RISK_KEYS).join(', ')})`);
-          (settings.risk as unknown as Record<string, unknown>)[riskKey] = check(riskValue, `risk.${riskKey}`);
-        }
-        continue;
-      }
-      const check = Object.hasOwn(TOP_LEVEL, key) ? TOP_LEVEL[key] : undefined;
-      if (!check) throw new Error(`unknown key "${key}" (known: ${[...Object.keys(TOP_LEVEL), 'risk'].join(', ')})`);
-      (settings as unknown as Record<string, unknown>)[key] = check(value, key);
-    }
-  } catch (error) {
-    throw new DataError({ file }, (error as Error).message);
-  }
-  checkRisk(file, settings.risk);
-  return settings;
-}
 
 export function checkRisk(file: string, risk: RiskThresholds): void {
   if (!(risk.potentialDepthM > risk.waterloggedDepthM)) {

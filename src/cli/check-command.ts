@@ -1,0 +1,26 @@
+// `doab check`: validate both inputs without computing; print every problem, errors first.
+import { runConfig } from './screen-command.js';
+import type { CliIo } from './screen-command.js';
+import { errorsOf, loadDistrict, problemLines } from './load-district.js';
+
+export interface CheckOptions {
+  canals: string;
+  aquifer: string;
+  config?: string;
+  inputCrs?: string;
+  debug?: boolean;
+}
+
+export async function checkCommand(options: CheckOptions, io: CliIo): Promise<number> {
+  const config = runConfig(options);
+  const district = await loadDistrict(options.canals, options.aquifer, config);
+  const errors = errorsOf(district.problems);
+  const warnings = district.problems.filter((problem) => problem.severity === 'warning');
+  io.out(problemLines([...errors, ...warnings]));
+  io.out(
+    `${options.canals}: ${district.canals?.features.length ?? 0} features (${district.lines.length} valid lines); ` +
+      `${options.aquifer}: ${district.aquifer?.features.length ?? 0} features (${district.zones.length} valid zones)\n`,
+  );
+  io.out(`${errors.length} error${errors.length === 1 ? '' : 's'}, ${warnings.length} warning${warnings.length === 1 ? '' : 's'}\n`);
+  return errors.length > 0 ? 1 : 0;
+}

@@ -1,0 +1,135 @@
+// `doab init-config`: a commented starting config, with doab's fields matched to the attributes
+// found in the user's files where a name makes the match plain, and every attribute listed.
+import { existsSync } from 'node:fs';
+import { basename, dirname } from 'node:path';
+import { writeAllOrNothing } from '../io/atomic-write.js';
+import { DataError } from '../io/data-error.js';
+import { readFeatureFile } from '../io/read-features.js';
+import { DEFAULT_RULES } from '../screening/input-rules.js';
+import { DEFAULT_SETTINGS } from '../screening/settings.js';
+import type { CliIo } from './screen-command.js';
+
+export interface InitConfigOptions {
+  canals: string;
+  aquifer: string;
+  out: string;
+  inputCrs?: string;
+  force?: boolean;
+}
+
+// Attribute names that plainly mean one of doab's fields, compared without case or separators.
+const ALIASES: Record<string, string[]> = {
+  'lines.id': ['id', 'lineid', 'canalid', 'code', 'fid'],
+  'lines.kind': ['kind', 'type', 'class', 'linetype'],
+  'lines.name': ['name', 'canalname', 'label'],
+  'lines.stage': ['stagem', 'stage', 'wl', 'waterlevel', 'fsl', 'level'],
+  'lines.stageStart': ['stagestartm', 'stagestart', 'wlstart', 'wlup', 'fslstart', 'levelstart'],
+  'lines.stageEnd': ['stageendm', 'stageend', 'wlend', 'wldown', 'fslend', 'levelend'],
+  'zones.id': ['id', 'zoneid', 'zone', 'code', 'fid'],
+  'zones.k': ['kmd', 'k', 'ksat', 'hk', 'conductivity', 'hydcond'],
+  'zones.base': ['basem', 'base', 'bottom', 'bot', 'aquiferbase'],
+  'zones.ground': ['groundm', 'ground', 'gl', 'dem', 'surface', 'elevation', 'elev'],
+  'zones.recharge': ['rechargemmyr', 'recharge', 'rch', 'netrecharge'],
+};
+
+interface AttributeSummary {
+  name: string;
+  types: Set<string>;
+  sample: unknown;
+}
+
+function attributesOf(features: unknown[]): AttributeSummary[] {
+  const found = new Map<string, AttributeSummary>();
+  for (const feature of features.slice(0, 1000)) {
+    const properties = (feature as { properties?: unknown } | null)?.properties;
+    if (properties === null || typeof properties !== 'object') continue;
+    for (const [name, value] of Object.entries(properties as object)) {
+      const entry = found.get(name) ?? { name, types: new Set<string>(), sample: value };
+      entry.types.add(value === null ? 'null' : typeof value);
+      found.set(name, entry);
+    }
+  }
+  return [...found.values()];
+}
+
+const squash = (name: string) => name.toLowerCase().replace(/[^a-z0-9]/g, '');
+
+function match(key: string, attributes: AttributeSummary[], fallback: string): { name: string; found: boolean } {
+  for (const alias of ALIASES[key]) {
+    const hit = attributes.find((a) => squash(a.name) === alias);
+    if (hit) return { name: hit.name, found: true };
+  }
+  return { name: fallback, found: false };
+}
+
+function listing(attributes: AttributeSummary[]): string {
+  if (attributes.length === 0) return '  //   (no attributes found)\n';
+  return attributes.map((a) => `  //   ${a.name} (${[...a.types].join('/')}), e.g. ${JSON.stringify(a.sample)?.slice(0, 40)}\n`).join('');
+}
+
+export async function initConfigCommand(options: InitConfigOptions, io: CliIo): Promise<number> {
+  if (existsSync(options.out) && !options.force) {
+    throw new DataError({ file: options.out }, 'already exists; give --force to replace it, or another --out');
+  }
+  const canals = await readFeatureFile(options.canals, { inputCrs: options.inputCrs });
+  const aquifer = await readFeatureFile(options.aquifer, { inputCrs: options.inputCrs });
+  const lineAttributes = attributesOf(canals.features);
+  const zoneAttributes = attributesOf(aquifer.features);
+  const field = (section: 'lines' | 'zones', key: string, comment: string) => {
+    const attributes = section === 'lines' ? lineAttributes : zoneAttributes;
+    const fallback = (DEFAULT_RULES.fields[section] as unknown as Record<string, string>)[key];
+    const hit = match(`${section}.${key}`, attributes, fallback);
+    const note = hit.found ? comment : `${comment}; NOT FOUND in your file: pick one of the attributes listed above`;
+    return `      ${JSON.stringify(key)}: ${JSON.stringify(hit.name)}, // ${note}`;
+  };
+  const crsLine = canals.sourceCrs ?? aquifer.sourceCrs;
+  const s = DEFAULT_SETTINGS;
+  const text = `// doab config, started by \`doab init-config\` from ${basename(options.canals)} and ${basename(options.aquifer)}.
+// JSON with comments. Every key is optional; delete what you do not need. Options given on the
+// command line win over this file. Check the result with: doab check --canals ... --aquifer ... --config ${basename(options.out)}
+{
+  // Which of your attributes holds each of doab's fields.
+  // Attributes found in ${basename(options.canals)}:
+${listing(lineAttributes)}  // Attributes found in ${basename(options.aquifer)}:
+${listing(zoneAttributes)}  "fields": {
+    "lines": {
+${field('lines', 'id', 'unique text id of each line')}
+${field('lines', 'kind', 'canal or drain (see kindWords)')}
+${field('lines', 'name', 'optional name')}
+${field('lines', 'stage', 'water level, constant along the line')}
+${field('lines', 'stageStart', 'or: water level at the first vertex')}
+${field('lines', 'stageEnd', 'and at the last vertex')}
+    },
+    "zones": {
+${field('zones', 'id', 'unique text id of each zone')}
+${field('zones', 'k', 'hydraulic conductivity, in units.k')}
+${field('zones', 'base', 'aquifer base elevation, in units.elevation')}
+${field('zones', 'ground', 'ground elevation, in units.elevation')}
+${field('zones', 'recharge', 'areal recharge, in units.recharge')}
+    }
+  },
+  // Your words for the two kinds of line (compared without case).
+  "kindWords": { "canal": ["canal"], "drain": ["drain"] },
+  // Units of your attributes: k in "m/d", "m/s" or "cm/s"; recharge in "mm/yr" or "m/d";
+  // elevations (stages, base, ground) in "m" or "ft". All elevations in ONE vertical datum.
+  "units": { "k": "m/d", "recharge": "mm/yr", "elevation": "m" },
+  // Used where a feature leaves the attribute out (recharge in units.recharge).
+  "defaults": { "kind": "canal", "recharge": 0 },
+  // CRS of your files when they do not declare one (EPSG:<code>, a proj4 string, or null).
+  "inputCrs": null, // ${crsLine ? `your files declare ${crsLine}` : 'your files declare no CRS: lon/lat (WGS 84) is assumed'}
+  // Screening options.
+  "stepM": ${s.stepM}, // station spacing along each line, m
+  "maxGapM": ${s.maxGapM}, // longest transect, m
+  "maxAngleDeg": ${s.maxAngleDeg}, // largest angle from parallel for a partner, degrees
+  "crs": null, // work CRS (EPSG:326xx/327xx or +proj); null: UTM zone of the data centre
+  "rankBy": "${s.rankBy}", // "loss" (per km) or "risk" (smallest depth first)
+  "bankWidthM": ${s.bankWidthM}, // land beside each line left out of the depth check, m
+  // Risk classes from the smallest depth to the water table; defaults from the Government of India,
+  // Ministry of Water Resources working group on waterlogging (1991).
+  "risk": { "waterloggedDepthM": ${s.risk.waterloggedDepthM}, "potentialDepthM": ${s.risk.potentialDepthM} }
+}
+`;
+  writeAllOrNothing(dirname(options.out), [{ name: basename(options.out), content: text }]);
+  io.err(`wrote ${options.out}; review it, then run doab check with --config ${options.out}\n`);
+  return 0;
+}

@@ -1,0 +1,66 @@
+// Read and validate both inputs, collecting every problem: what `doab check` prints and what
+// `doab screen` refuses to go on with (unless told to skip the bad features).
+import { DataError, describePlace } from '../io/data-error.js';
+import { readFeatureFile, type InputFile } from '../io/read-features.js';
+import type { RunConfig } from '../screening/config.js';
+import { crossCheck } from '../screening/cross-checks.js';
+import { checkLines, checkZones, formatProblem, type LineRecord, type Problem, type ZoneRecord } from '../screening/district-inputs.js';
+
+export interface LoadedDistrict {
+  canals: InputFile | null;
+  aquifer: InputFile | null;
+  lines: LineRecord[];
+  zones: ZoneRecord[];
+  problems: Problem[];
+}
+
+/** Problems that stop a run; the CLI prints each on its own line and exits 1. */
+export class InputProblems extends Error {
+  constructor(readonly problems: Problem[]) {
+    super(`${problems.length} problem${problems.length === 1 ? '' : 's'} in the inputs`);
+    this.name = 'InputProblems';
+  }
+}
+
+async function readOrProblem(path: string, inputCrs: string | undefined, problems: Problem[]): Promise<InputFile | null> {
+  try {
+    const file = await readFeatureFile(path, { inputCrs });
+    for (const warning of file.warnings) problems.push({ severity: 'warning', place: { file: path }, message: warning });
+    return file;
+  } catch (error) {
+    if (!(error instanceof DataError)) throw error;
+    problems.push({ severity: 'error', place: error.place, message: error.message.slice(describePlace(error.place).length + 2) });
+    return null;
+  }
+}
+
+export async function loadDistrict(canalsPath: string, aquiferPath: string, config: RunConfig): Promise<LoadedDistrict> {
+  const problems: Problem[] = [];
+  const inputCrs = config.inputCrs ?? undefined;
+  const canals = await readOrProblem(canalsPath, inputCrs, problems);
+  const aquifer = await readOrProblem(aquiferPath, inputCrs, problems);
+  let lines: LineRecord[] = [];
+  let zones: ZoneRecord[] = [];
+  if (canals) {
+    const checked = checkLines(canalsPath, canals.features, config.rules);
+    lines = checked.records;
+    problems.push(...checked.problems);
+  }
+  if (aquifer) {
+    const checked = checkZones(aquiferPath, aquifer.features, config.rules);
+    zones = checked.records;
+    problems.push(...checked.problems);
+  }
+  const cross = crossCheck(lines, zones, { lines: canalsPath, zones: aquiferPath });
+  problems.push(...cross.problems);
+  lines = lines.filter((_, i) => !cross.badLines.has(i));
+  return { canals, aquifer, lines, zones, problems };
+}
+
+export function errorsOf(problems: Problem[]): Problem[] {
+  return problems.filter((problem) => problem.severity === 'error');
+}
+
+export function problemLines(problems: Problem[]): string {
+  return problems.map((problem) => `${formatProblem(problem)}\n`).join('');
+}

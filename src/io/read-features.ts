@@ -1,0 +1,189 @@
+// The reading stage: one input file, whatever its format, to GeoJSON features in lon/lat (WGS 84)
+// with the bytes' SHA-256 for the run record. GeoJSON, GeoJSON text sequences, shapefiles and
+// zipped shapefiles; the source CRS from the .prj, a legacy `crs` member or --input-crs.
+import { createHash } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
+import { basename, dirname, extname, join } from 'node:path';
+import { unzipSync } from 'fflate';
+import * as shapefile from 'shapefile';
+import { DataError } from './data-error.js';
+import { parseGeoJsonText } from './read-geojson.js';
+import { resolveSourceCrs, type SourceCrs } from './source-crs.js';
+
+export type InputFormat = 'geojson' | 'geojson-seq' | 'shapefile' | 'zipped-shapefile';
+
+export interface InputFile {
+  path: string;
+  format: InputFormat;
+  /** SHA-256 of the file's bytes; for a shapefile, of its .shp, .dbf, .prj and .cpg in that order. */
+  sha256: string;
+  bytes: number;
+  features: unknown[];
+  /** The CRS the file was written in, or null for lon/lat as RFC 7946 asks. */
+  sourceCrs: string | null;
+  warnings: string[];
+}
+
+export interface ReadOptions {
+  /** Overrides whatever the file declares. */
+  inputCrs?: string;
+}
+
+function readBytes(path: string, what = 'file'): Buffer {
+  try {
+    return readFileSync(path);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    const why = code === 'ENOENT' ? `${what} not found` : code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (${code ?? String(error)})`;
+    throw new DataError({ file: path }, why);
+  }
+}
+
+export async function readFeatureFile(path: string, options: ReadOptions = {}): Promise<InputFile> {
+  const extension = extname(path).toLowerCase();
+  const raw =
+    extension === '.shp' ? readShapefileFromDisk(path) : extension === '.zip' ? readZippedShapefile(path) : null;
+  let file: Omit<InputFile, 'features' | 'sourceCrs' | 'warnings'> & { features: unknown[]; declaredCrs: string | null };
+  if (raw) {
+    const features = await parseShapefile(raw.label, raw.shp, raw.dbf, raw.encoding);
+    file = { path, format: raw.format, sha256: raw.sha256, bytes: raw.bytes, features, declaredCrs: raw.prj };
+  } else {
+    const buffer = readBytes(path);
+    if (buffer.length === 0) throw new DataError({ file: path }, 'the file is empty (0 bytes)');
+    const parsed = parseGeoJsonText(path, buffer.toString('utf8'));
+    file = {
+      path,
+      format: parsed.sequence ? 'geojson-seq' : 'geojson',
+      sha256: createHash('sha256').update(buffer).digest('hex'),
+      bytes: buffer.length,
+      features: parsed.features,
+      declaredCrs: parsed.declaredCrs,
+    };
+  }
+  const spec = options.inputCrs ?? file.declaredCrs;
+  const warnings: string[] = [];
+  let crs: SourceCrs | null = null;
+  if (spec) {
+    try {
+      crs = resolveSourceCrs(spec);
+    } catch (error) {
+      const source = options.inputCrs ? '--input-crs' : raw ? `${raw.label.replace(/\.(shp|zip)$/i, '')}.prj` : 'the "crs" member';
+      throw new DataError({ file: path, field: options.inputCrs ? undefined : raw ? undefined : 'crs' }, `${source}: ${(error as Error).message}`);
+    }
+    warnings.push(...crs.warnings);
+    if (crs.toLonLat) reproject(file.features, crs.toLonLat);
+  }
+  return {
+    path: file.path,
+    format: file.format,
+    sha256: file.sha256,
+    bytes: file.bytes,
+    features: file.features,
+    sourceCrs: crs ? crs.label : null,
+    warnings,
+  };
+}
+
+interface RawShapefile {
+  label: string;
+  format: InputFormat;
+  shp: Uint8Array;
+  dbf: Uint8Array;
+  prj: string | null;
+  encoding: string | undefined;
+  sha256: string;
+  bytes: number;
+}
+
+function sidecar(shpPath: string, extension: string): string | null {
+  const stem = join(dirname(shpPath), basename(shpPath, extname(shpPath)));
+  for (const candidate of [extension, extension.toUpperCase()]) {
+    if (existsSync(stem + candidate)) return stem + candidate;
+  }
+  return null;
+}
+
+function readShapefileFromDisk(path: string): RawShapefile {
+  const shp = readBytes(path);
+  const dbfPath = sidecar(path, '.dbf');
+  if (!dbfPath) throw new DataError({ file: path }, 'the .dbf file with the attributes is missing beside the .shp (a shapefile needs .shp, .shx and .dbf)');
+  const dbf = readBytes(dbfPath);
+  const prjPath = sidecar(path, '.prj');
+  const cpgPath = sidecar(path, '.cpg');
+  const prj = prjPath ? readText(prjPath, readBytes(prjPath)) : null;
+  const cpg = cpgPath ? readBytes(cpgPath) : null;
+  return finish(path, 'shapefile', shp, dbf, prj, cpg, cpgPath ?? path);
+}
+
+function readZippedShapefile(path: string): RawShapefile {
+  const buffer = readBytes(path);
+  let entries: Record<string, Uint8Array>;
+  try {
+    entries = unzipSync(new Uint8Array(buffer));
+  } catch (error) {
+    throw new DataError({ file: path }, `not a readable zip archive (${(error as Error).message})`);
+  }
+  const names = Object.keys(entries).filter((name) => !name.startsWith('__MACOSX/'));
+  const shps = names.filter((name) => /\.shp$/i.test(name));
+  if (shps.length === 0) throw new DataError({ file: path }, 'the zip archive holds no .shp file');
+  if (shps.length > 1) throw new DataError({ file: path }, `the zip archive holds ${shps.length} shapefiles (${shps.join(', ')}); give one shapefile per input`);
+  const stem = shps[0].slice(0, -4);
+  const find = (extension: string) => names.find((name) => name.toLowerCase() === `${stem}${extension}`.toLowerCase());
+  const dbfName = find('.dbf');
+  if (!dbfName) throw new DataError({ file: path }, `the zip archive has ${shps[0]} but no ${stem}.dbf with the attributes`);
+  const prjName = find('.prj');
+  const cpgName = find('.cpg');
+  const prj = prjName ? readText(`${path}:${prjName}`, entries[prjName]) : null;
+  return finish(path, 'zipped-shapefile', entries[shps[0]], entries[dbfName], prj, cpgName ? entries[cpgName] : null, `${path}:${cpgName}`, buffer.length);
+}
+
+function readText(label: string, bytes: Uint8Array): string {
+  const text = new TextDecoder('utf-8').decode(bytes).replace(/^\uFEFF/, '').trim();
+  if (text === '') throw new DataError({ file: label }, 'the .prj file is empty: it cannot say which CRS the shapefile uses');
+  return text;
+}
+
+// .cpg holds a code page name such as "UTF-8", "1252" or "ISO-8859-1"
+function encodingOf(label: string, cpg: Uint8Array | null): string | undefined {
+  if (!cpg) return undefined;
+  const name = new TextDecoder('ascii').decode(cpg).trim();
+  const candidate = /^\d+$/.test(name) ? (name === '65001' ? 'utf-8' : `windows-${name}`) : name;
+  try {
+    new TextDecoder(candidate);
+  } catch {
+    throw new DataError({ file: label }, `unknown text encoding "${name}" in the .cpg file`);
+  }
+  return candidate;
+}
+
+function finish(label: string, format: InputFormat, shp: Uint8Array, dbf: Uint8Array, prj: string | null, cpg: Uint8Array | null, cpgLabel: string, bytes?: number): RawShapefile {
+  const hash = createHash('sha256').update(shp).update(dbf);
+  if (prj) hash.update(prj);
+  if (cpg) hash.update(cpg);
+  return { label, format, shp, dbf, prj, encoding: encodingOf(cpgLabel, cpg), sha256: hash.digest('hex'), bytes: bytes ?? shp.length + dbf.length };
+}
+
+async function parseShapefile(label: string, shp: Uint8Array, dbf: Uint8Array, encoding: string | undefined): Promise<unknown[]> {
+  if (shp.length < 100) throw new DataError({ file: label }, `not a shapefile: ${shp.length} bytes is shorter than the 100-byte header`);
+  try {
+    const collection = await shapefile.read(shp, dbf, encoding ? { encoding } : undefined);
+    return collection.features;
+  } catch (error) {
+    throw new DataError({ file: label }, `not a readable shapefile (${(error as Error).message})`);
+  }
+}
+
+function reproject(features: unknown[], toLonLat: (x: number, y: number) => [number, number]): void {
+  const walk = (coordinates: unknown): unknown => {
+    if (!Array.isArray(coordinates)) return coordinates;
+    if (coordinates.length >= 2 && typeof coordinates[0] === 'number' && typeof coordinates[1] === 'number') {
+      const [lon, lat] = toLonLat(coordinates[0], coordinates[1]);
+      return [lon, lat, ...coordinates.slice(2)];
+    }
+    return coordinates.map(walk);
+  };
+  for (const feature of features) {
+    const geometry = (feature as { geometry?: { coordinates?: unknown } } | null)?.geometry;
+    if (geometry && typeof geometry === 'object' && 'coordinates' in geometry) geometry.coordinates = walk(geometry.coordinates);
+  }
+}

@@ -1,0 +1,90 @@
+// Checks that need lines and zones together, or zones against each other: a line's stage at or
+// below the aquifer base under it (an error: the strip solution cannot hold), a stage far above
+// ground, and zones that overlap. Runs on valid records, in lon/lat, before projection.
+import Flatbush from 'flatbush';
+import { area, bbox, booleanPointInPolygon, distance, intersect, featureCollection, multiPolygon } from '@turf/turf';
+import type { Feature, MultiPolygon } from 'geojson';
+import { stageAtChainage, type LineRecord, type Problem, type ZoneRecord } from './district-inputs.js';
+
+// An embankment canal stands a few metres above the land at most; more is most often a datum
+// or unit mix-up (common practice).
+export const STAGE_ABOVE_GROUND_WARN_M = 5;
+// Overlaps smaller than this (m^2) are digitising slivers along shared edges.
+const OVERLAP_TOLERANCE_M2 = 1;
+
+export interface CrossCheckFiles {
+  lines: string;
+  zones: string;
+}
+
+function zoneShapes(zones: ZoneRecord[]): { shapes: Feature<MultiPolygon>[]; index: Flatbush | null } {
+  const shapes = zones.map((zone) => multiPolygon(zone.polygonsLonLat));
+  if (zones.length === 0) return { shapes, index: null };
+  const index = new Flatbush(zones.length);
+  for (const shape of shapes) {
+    const [w, s, e, n] = bbox(shape);
+    index.add(w, s, e, n);
+  }
+  index.finish();
+  return { shapes, index };
+}
+
+export function crossCheck(lines: LineRecord[], zones: ZoneRecord[], files: CrossCheckFiles): { problems: Problem[]; badLines: Set<number> } {
+  const problems: Problem[] = [];
+  const badLines = new Set<number>();
+  const { shapes, index } = zoneShapes(zones);
+  if (!index) return { problems, badLines };
+
+  shapes.forEach((shape, i) => {
+    const [w, s, e, n] = bbox(shape);
+    for (const j of index.search(w, s, e, n)) {
+      if (j <= i) continue;
+      const overlap = intersect(featureCollection([shape, shapes[j]]));
+      const overlapM2 = overlap ? area(overlap) : 0;
+      if (overlapM2 > OVERLAP_TOLERANCE_M2) {
+        problems.push({
+          severity: 'warning',
+          place: { file: files.zones, featureIndex: zones[j].featureIndex, featureId: zones[j].id, field: 'geometry' },
+          message: `overlaps zone "${zones[i].id}" (feature ${zones[i].featureIndex}) over ${(overlapM2 / 10_000).toFixed(2)} ha; where zones overlap doab uses the one listed first`,
+        });
+      }
+    }
+  });
+
+  lines.forEach((line, lineNumber) => {
+    const lengthM = line.partsLonLat.reduce((sum, part) => sum + partLengthM(part), 0);
+    let chainageM = 0, reported = false, warned = false;
+    for (const part of line.partsLonLat) {
+      part.forEach((position, v) => {
+        if (v > 0) chainageM += distance(part[v - 1], position, { units: 'meters' });
+        if (reported) return;
+        const stageM = stageAtChainage(line, chainageM, lengthM);
+        for (const z of index.search(position[0], position[1], position[0], position[1])) {
+          if (!booleanPointInPolygon(position, shapes[z])) continue;
+          const zone = zones[z];
+          const place = { file: files.lines, featureIndex: line.index, featureId: line.id, field: 'stage' };
+          if (stageM <= zone.baseM) {
+            problems.push({ severity: 'error', place, message: `stage ${round(stageM)} m at chainage ${Math.round(chainageM)} m is at or below the aquifer base ${zone.baseM} m of zone "${zone.id}"` });
+            badLines.add(lineNumber);
+            reported = true;
+          } else if (!warned && stageM > zone.groundM + STAGE_ABOVE_GROUND_WARN_M) {
+            problems.push({ severity: 'warning', place, message: `stage ${round(stageM)} m at chainage ${Math.round(chainageM)} m is ${round(stageM - zone.groundM)} m above the ground of zone "${zone.id}" (${zone.groundM} m); check the datum and units` });
+            warned = true;
+          }
+          break;
+        }
+      });
+    }
+  });
+  return { problems, badLines };
+}
+
+function partLengthM(part: number[][]): number {
+  let sum = 0;
+  for (let v = 1; v < part.length; v++) sum += distance(part[v - 1], part[v], { units: 'meters' });
+  return sum;
+}
+
+function round(value: number): number {
+  return Math.round(value * 100) / 100;
+}
