@@ -33,7 +33,7 @@ export const SOLVE_STATUS_NAMES = [
 export type SolveStatusName = (typeof SOLVE_STATUS_NAMES)[number];
 
 // 5-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz and Stegun, Handbook of
-// Mathematical Functions, table 25.4), for the mean saturated thickness.
+// Mathematical Functions, table 25.4), for the mean saturated thickness of nearly linear u.
 const GL_NODES = [0, -0.5384693101056831, 0.5384693101056831, -0.906179845938664, 0.906179845938664];
 const GL_WEIGHTS = [0.5688888888888889, 0.4786286704993665, 0.4786286704993665, 0.2369268850561891, 0.2369268850561891];
 
@@ -179,10 +179,7 @@ export class TransectSolver {
       if (zoneMinU < minU) minU = zoneMinU;
       if (zoneMinU <= 0) { this.failedZone = j; return SOLVE_AQUIFER_DRIES; }
       if (zoneMaxU > peakU) { peakU = zoneMaxU; peakX = xEdgeM[j] + zoneMaxT; }
-      for (let g = 0; g < 5; g++) {
-        const t = (l / 2) * (1 + GL_NODES[g]);
-        thicknessIntegral += (l / 2) * GL_WEIGHTS[g] * Math.sqrt(uLeft + slope * t + c * t * (l - t));
-      }
+      thicknessIntegral += integralOfRoot(-c, slope + c * l, uLeft, l);
     }
     this.peakHeadM = this.baseM + Math.sqrt(peakU);
     this.peakOffsetM = peakX;
@@ -306,4 +303,38 @@ function positiveMeasure(a: number, b: number, c: number, t0: number, t1: number
     if (from >= l) break;
   }
   return total;
+}
+
+// Integral of sqrt(a t^2 + b t + c) over [0, l]: the saturated thickness over a zone. The closed
+// forms (I.S. Gradshteyn and I.M. Ryzhik, Table of Integrals, 2.262 [from memory]; each checked
+// here by differentiation) lose digits when the curvature a is tiny, so a nearly linear u goes to
+// composite Gauss-Legendre instead, where sqrt(u) is smooth.
+function integralOfRoot(a: number, b: number, c: number, l: number): number {
+  const uMax = Math.max(c, a * l * l + b * l + c);
+  if (Math.abs(a) * l * l < 1e-4 * uMax) {
+    const pieces = 8, h = l / pieces;
+    let sum = 0;
+    for (let p = 0; p < pieces; p++) {
+      for (let g = 0; g < 5; g++) {
+        const t = h * (p + (1 + GL_NODES[g]) / 2);
+        sum += (h / 2) * GL_WEIGHTS[g] * Math.sqrt(Math.max((a * t + b) * t + c, 0));
+      }
+    }
+    return sum;
+  }
+  const disc = b * b - 4 * a * c;
+  const antiderivative = (t: number): number => {
+    const q = Math.max((a * t + b) * t + c, 0), root = Math.sqrt(q), lin = 2 * a * t + b;
+    const first = (lin * root) / (4 * a);
+    if (a > 0) {
+      // ln|2 sqrt(a) root + lin|; where lin < 0 the two terms cancel, so use the conjugate:
+      // (2 sqrt(a) root + lin)(2 sqrt(a) root - lin) = -disc
+      const conjugate = 2 * Math.sqrt(a) * root - lin;
+      const logTerm = lin >= 0 ? Math.log(2 * Math.sqrt(a) * root + lin) : Math.log(Math.abs(disc)) - Math.log(conjugate);
+      return first - (disc / (8 * a * Math.sqrt(a))) * logTerm;
+    }
+    // a < 0: disc > 0 whenever u > 0 somewhere
+    return first + (disc / (8 * a * Math.sqrt(-a))) * Math.asin(Math.min(Math.max(lin / Math.sqrt(disc), -1), 1));
+  };
+  return antiderivative(l) - antiderivative(0);
 }
