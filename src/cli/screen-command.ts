@@ -1,4 +1,5 @@
 // `doab screen`: read and check, screen, write all outputs or none, print the summary.
+import { existsSync, statSync } from 'node:fs';
 import { writeAllOrNothing, type OutputFile } from '../io/atomic-write.js';
 import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from '../io/layers.js';
 import { runRecord, summaryText, CAUTION } from '../io/run-record.js';
@@ -50,6 +51,9 @@ export function runConfig(options: Partial<ScreenOptions>): RunConfig {
 
 export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
+  if (existsSync(options.out) && !statSync(options.out).isDirectory()) {
+    throw new UsageError(`--out ${options.out} is a file, not a folder: name a folder for the outputs`);
+  }
   const config = runConfig(options);
   const settings = config.settings;
   const district = await loadDistrict(options.canals, options.aquifer, config);

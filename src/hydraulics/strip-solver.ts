@@ -32,10 +32,6 @@ export const SOLVE_STATUS_NAMES = [
 ] as const;
 export type SolveStatusName = (typeof SOLVE_STATUS_NAMES)[number];
 
-// 5-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz and Stegun, Handbook of
-// Mathematical Functions, table 25.4), for the mean saturated thickness of nearly linear u.
-const GL_NODES = [0, -0.5384693101056831, 0.5384693101056831, -0.906179845938664, 0.906179845938664];
-const GL_WEIGHTS = [0.5688888888888889, 0.4786286704993665, 0.4786286704993665, 0.2369268850561891, 0.2369268850561891];
 
 export class TransectSolver {
   readonly maxZones: number;
@@ -50,6 +46,7 @@ export class TransectSolver {
   readonly xEdgeM: Float64Array;
   private readonly scratchC: Float64Array;
   private readonly scratchD: Float64Array;
+  private readonly zoneIntegral = new Float64Array(1);
 
   // Results of the last successful solve.
   zoneCount = 0;
@@ -177,16 +174,19 @@ export class TransectSolver {
         }
       }
       if (zoneMinU < minU) minU = zoneMinU;
-      if (zoneMinU <= 0) { this.failedZone = j; return SOLVE_AQUIFER_DRIES; }
+      if (zoneMinU <= 0) { this.failedZone = j; this.seepageAM2PerDay = this.seepageBM2PerDay = NaN; return SOLVE_AQUIFER_DRIES; }
       if (zoneMaxU > peakU) { peakU = zoneMaxU; peakX = xEdgeM[j] + zoneMaxT; }
-      thicknessIntegral += integralOfRoot(-c, slope + c * l, uLeft, l);
+      this.integrateThickness(j);
+      thicknessIntegral += this.zoneIntegral[0];
     }
     this.peakHeadM = this.baseM + Math.sqrt(peakU);
     this.peakOffsetM = peakX;
     this.meanThicknessM = thicknessIntegral / this.widthM;
     this.dupuitRatio = this.widthM / this.meanThicknessM;
     this.scanDepth(0);
-    return minU > 0 ? SOLVE_OK : SOLVE_AQUIFER_DRIES;
+    if (minU > 0) return SOLVE_OK;
+    this.seepageAM2PerDay = this.seepageBM2PerDay = NaN;
+    return SOLVE_AQUIFER_DRIES;
   }
 
   /**
@@ -218,6 +218,49 @@ export class TransectSolver {
     }
     this.minDepthM = minDepth;
     this.minDepthOffsetM = minDepthX;
+  }
+
+  // Integral of sqrt(u) over zone j, u(t) = a t^2 + b t + c with a = -N/K: the saturated thickness
+  // over the zone, by the closed forms (I.S. Gradshteyn and I.M. Ryzhik, Table of Integrals, 2.262
+  // [from memory]; each checked here by differentiation). Their two terms cancel as the curvature a
+  // vanishes, losing about eps * u / (a l^2) relative; below 1e-7 of u the linear form is exact to
+  // that order instead. Written into a typed array, not returned, and with both ends in one loop,
+  // so that no number is boxed on the heap.
+  private integrateThickness(j: number): void {
+    const l = this.lengthM[j], a = -this.rechargeMPerDay[j] / this.kMPerDay[j];
+    const c = this.uEdgeM2[j], uEnd = this.uEdgeM2[j + 1];
+    const b = (uEnd - c) / l - a * l;
+    if (Math.abs(a) * l * l < 1e-7 * Math.max(c, uEnd)) {
+      // u along its chord: sqrt(c + m t) integrates exactly (its slope m, not the tangent's b,
+      // which differs by a l and would not meet uEnd)
+      const rise = uEnd - c, ratio = rise / c;
+      const end = Math.max(uEnd, 0);
+      this.zoneIntegral[0] = Math.abs(ratio) < 1e-6 ? Math.sqrt(c) * l * (1 + ratio / 4) : ((2 * l) / (3 * rise)) * (end * Math.sqrt(end) - c * Math.sqrt(c));
+      return;
+    }
+    const disc = b * b - 4 * a * c;
+    let total = 0;
+    for (let end = 0; end < 2; end++) {
+      const t = end === 0 ? 0 : l, sign = end === 0 ? -1 : 1;
+      const root = Math.sqrt(Math.max((a * t + b) * t + c, 0)), lin = 2 * a * t + b;
+      let value = (lin * root) / (4 * a);
+      if (a > 0) {
+        // ln|2 sqrt(a) root + lin|; where lin < 0 the two terms cancel, so use the conjugate:
+        // (2 sqrt(a) root + lin)(2 sqrt(a) root - lin) = -disc
+        const logTerm = lin >= 0 ? Math.log(2 * Math.sqrt(a) * root + lin) : Math.log(Math.abs(disc)) - Math.log(2 * Math.sqrt(a) * root - lin);
+        value -= (disc / (8 * a * Math.sqrt(a))) * logTerm;
+      } else {
+        // disc > 0 whenever u > 0 somewhere. asin(x) is ill-conditioned as |x| nears 1, so take
+        // 1 - |x| = -4 a u / (sqrt(disc) (sqrt(disc) + |lin|)) without cancellation and use
+        // asin(|x|) = pi/2 - 2 asin(sqrt((1 - |x|) / 2)).
+        const rootDisc = Math.sqrt(Math.max(disc, 0));
+        const gap = (-4 * a * root * root) / (rootDisc * (rootDisc + Math.abs(lin)));
+        const angle = Math.PI / 2 - 2 * Math.asin(Math.min(Math.sqrt(Math.max(gap, 0) / 2), 1));
+        value += (disc / (8 * a * Math.sqrt(-a))) * (lin >= 0 ? angle : -angle);
+      }
+      total += sign * value;
+    }
+    this.zoneIntegral[0] = total;
   }
 
   private zoneAt(xM: number): number {
@@ -303,38 +346,4 @@ function positiveMeasure(a: number, b: number, c: number, t0: number, t1: number
     if (from >= l) break;
   }
   return total;
-}
-
-// Integral of sqrt(a t^2 + b t + c) over [0, l]: the saturated thickness over a zone. The closed
-// forms (I.S. Gradshteyn and I.M. Ryzhik, Table of Integrals, 2.262 [from memory]; each checked
-// here by differentiation) lose digits when the curvature a is tiny, so a nearly linear u goes to
-// composite Gauss-Legendre instead, where sqrt(u) is smooth.
-function integralOfRoot(a: number, b: number, c: number, l: number): number {
-  const uMax = Math.max(c, a * l * l + b * l + c);
-  if (Math.abs(a) * l * l < 1e-4 * uMax) {
-    const pieces = 8, h = l / pieces;
-    let sum = 0;
-    for (let p = 0; p < pieces; p++) {
-      for (let g = 0; g < 5; g++) {
-        const t = h * (p + (1 + GL_NODES[g]) / 2);
-        sum += (h / 2) * GL_WEIGHTS[g] * Math.sqrt(Math.max((a * t + b) * t + c, 0));
-      }
-    }
-    return sum;
-  }
-  const disc = b * b - 4 * a * c;
-  const antiderivative = (t: number): number => {
-    const q = Math.max((a * t + b) * t + c, 0), root = Math.sqrt(q), lin = 2 * a * t + b;
-    const first = (lin * root) / (4 * a);
-    if (a > 0) {
-      // ln|2 sqrt(a) root + lin|; where lin < 0 the two terms cancel, so use the conjugate:
-      // (2 sqrt(a) root + lin)(2 sqrt(a) root - lin) = -disc
-      const conjugate = 2 * Math.sqrt(a) * root - lin;
-      const logTerm = lin >= 0 ? Math.log(2 * Math.sqrt(a) * root + lin) : Math.log(Math.abs(disc)) - Math.log(conjugate);
-      return first - (disc / (8 * a * Math.sqrt(a))) * logTerm;
-    }
-    // a < 0: disc > 0 whenever u > 0 somewhere
-    return first + (disc / (8 * a * Math.sqrt(-a))) * Math.asin(Math.min(Math.max(lin / Math.sqrt(disc), -1), 1));
-  };
-  return antiderivative(l) - antiderivative(0);
 }

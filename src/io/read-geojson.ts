@@ -18,7 +18,9 @@ export function looksLikeSequence(path: string, text: string): boolean {
   return text.trimStart().startsWith(RS);
 }
 
-export function parseGeoJsonText(path: string, text: string): ParsedGeoJson {
+export function parseGeoJsonText(path: string, rawText: string): ParsedGeoJson {
+  // RFC 8259 section 8.1: a parser may ignore a leading byte order mark, which Windows exports write
+  const text = rawText.replace(/^\uFEFF/, '');
   if (text.trim() === '') throw new DataError({ file: path }, 'the file is empty');
   if (looksLikeSequence(path, text)) return { features: parseSequence(path, text), declaredCrs: null, sequence: true };
   let parsed: unknown;
@@ -46,11 +48,11 @@ function legacyCrsName(path: string, crs: unknown): string | null {
   throw new DataError({ file: path, field: 'crs' }, `unsupported "crs" member ${JSON.stringify(crs).slice(0, 120)}; expected {"type":"name","properties":{"name":"EPSG:<code>"}}`);
 }
 
+// Records are numbered from 0 in the order they stand, whichever way they are framed, like features.
 function parseSequence(path: string, text: string): unknown[] {
-  const records = text.includes(RS) ? text.split(RS) : text.split('\n');
+  const records = (text.includes(RS) ? text.split(RS) : text.split('\n')).filter((record) => record.trim() !== '');
   const features: unknown[] = [];
   records.forEach((record, index) => {
-    if (record.trim() === '') return;
     let value: unknown;
     try {
       value = JSON.parse(record);
@@ -58,7 +60,9 @@ function parseSequence(path: string, text: string): unknown[] {
       throw new DataError({ file: path }, `record ${index} of the GeoJSON text sequence is not valid JSON (${(error as Error).message}); a truncated record?`);
     }
     if (value !== null && typeof value === 'object' && (value as { type?: unknown }).type === 'FeatureCollection') {
-      features.push(...(((value as { features?: unknown[] }).features ?? []) as unknown[]));
+      const inner = (value as { features?: unknown }).features;
+      if (!Array.isArray(inner)) throw new DataError({ file: path }, `record ${index} of the GeoJSON text sequence is a FeatureCollection without a "features" list`);
+      features.push(...inner);
     } else {
       features.push(value);
     }

@@ -35,7 +35,11 @@ function registryProj4(code: number): string {
   } catch {
     throw new Error(`EPSG:${code} is not a coordinate reference system in the EPSG registry`);
   }
-  if (!entry.proj4) throw new Error(`EPSG:${code} (${entry.kind ?? 'unknown kind'}) has no usable definition`);
+  // only map CRSs have the two horizontal axes doab reads: no geocentric, vertical or compound ones
+  if (entry.kind !== 'CRS-PROJCRS' && entry.kind !== 'CRS-GEOGCRS') {
+    throw new Error(`EPSG:${code} is a ${(entry.kind ?? 'unknown').replace(/^CRS-/, '')} coordinate reference system, not a projected or geographic 2D one`);
+  }
+  if (!entry.proj4) throw new Error(`EPSG:${code} (${entry.kind}) has no usable definition`);
   return entry.proj4;
 }
 
@@ -68,7 +72,7 @@ export function resolveSourceCrs(spec: string): SourceCrs {
     const label = `EPSG:${code}`;
     if (LON_LAT_CODES.has(code)) return { label, toLonLat: null, warnings };
     const definition = withoutGrids(registryProj4(code), warnings, label);
-    return { label, toLonLat: transformFrom(definition), warnings };
+    return { label, toLonLat: checked(label, () => transformFrom(definition)), warnings };
   }
   if (text.startsWith('+proj=')) {
     if (/\+proj=(?:longlat|latlong)\b/.test(text) && /WGS84/i.test(text)) return { label: text, toLonLat: null, warnings };

@@ -89,6 +89,9 @@ function checkSection(section: Section, value: unknown, path: string): Map<strin
   if (value === null || typeof value !== 'object' || Array.isArray(value)) {
     throw new Error(`"${path || 'the config'}" must be a JSON object, found ${JSON.stringify(value)}`);
   }
+  // jsonc-parser turns a "__proto__" key into the object's prototype, where Object.entries misses it
+  const prototype = Object.getPrototypeOf(value);
+  if (prototype !== Object.prototype && prototype !== null) throw new Error(`unknown key "${path ? `${path}.` : ''}__proto__"`);
   const found = new Map<string, unknown>();
   for (const [key, child] of Object.entries(value)) {
     const keyPath = path ? `${path}.${key}` : key;

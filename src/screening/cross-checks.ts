@@ -62,7 +62,7 @@ export function crossCheck(lines: LineRecord[], zones: ZoneRecord[], files: Cros
         for (const z of index.search(position[0], position[1], position[0], position[1])) {
           if (!booleanPointInPolygon(position, shapes[z])) continue;
           const zone = zones[z];
-          const place = { file: files.lines, featureIndex: line.index, featureId: line.id, field: 'stage' };
+          const place = { file: files.lines, featureIndex: line.index, featureId: line.id, field: line.stageField };
           if (stageM <= zone.baseM) {
             problems.push({ severity: 'error', place, message: `stage ${round(stageM)} m at chainage ${Math.round(chainageM)} m is at or below the aquifer base ${zone.baseM} m of zone "${zone.id}"` });
             badLines.add(lineNumber);

@@ -1,7 +1,7 @@
 // Validation stage: turns GeoJSON features (lon/lat) into typed records of lines and zones, and
 // lists every problem found with its file, feature and field. A feature with an error is left
 // out of the records; warnings keep it. Pure: no file access.
-import { booleanValid, kinks, polygon as turfPolygon } from '@turf/turf';
+import { booleanPointInPolygon, booleanValid, kinks, polygon as turfPolygon } from '@turf/turf';
 import { kToMPerDay, lengthToM, rechargeFromMPerDay, rechargeToMPerDay } from '../hydraulics/units.js';
 import { describePlace, type DataProblemPlace } from '../io/data-error.js';
 import type { InputRules } from './input-rules.js';
@@ -17,6 +17,8 @@ export interface LineRecord {
   /** Stage at the first vertex and at the end of the line (m); equal when constant. */
   stageStartM: number;
   stageEndM: number;
+  /** The attribute(s) the stage came from, for messages: "stage_m" or "stage_start_m/stage_end_m". */
+  stageField: string;
   /** Parts in lon/lat: one per LineString part. */
   partsLonLat: number[][][];
   /** The feature's own attributes, copied into a prototype-free object. */
@@ -82,13 +84,28 @@ function viewFeature(feature: unknown, index: number, idField: string): FeatureV
   return { index, id: id === '' ? undefined : id, geometry, properties };
 }
 
+/** A position as the user would write it: JSON, but Infinity and NaN shown as themselves. */
+function showPosition(position: unknown): string {
+  if (!Array.isArray(position)) return showValue(position);
+  return `[${position.map(showValue).join(',')}]`;
+}
+
+function showValue(value: unknown): string {
+  if (typeof value === 'number' && !Number.isFinite(value)) return String(value);
+  try {
+    return JSON.stringify(value) ?? String(value);
+  } catch {
+    return Object.prototype.toString.call(value);
+  }
+}
+
 function describeValue(value: unknown): string {
   if (typeof value === 'string') {
     if (/^\s*[-+]?\d+,\d+\s*$/.test(value)) return `text "${value}" (a decimal comma? write ${value.trim().replace(',', '.')} as a number)`;
     if (value.trim() !== '' && Number.isFinite(Number(value))) return `text "${value}" (a number stored as text; store it as a number)`;
     return `text "${value}"`;
   }
-  return `${Array.isArray(value) ? 'a list' : typeof value} ${JSON.stringify(value)}`;
+  return `${Array.isArray(value) ? 'a list' : typeof value} ${showValue(value)}`;
 }
 
 function numberField(view: FeatureView, field: string, fallback?: number): number {
@@ -103,15 +120,15 @@ function numberField(view: FeatureView, field: string, fallback?: number): numbe
 }
 
 function checkPosition(position: unknown): number[] {
-  if (!Array.isArray(position) || position.length < 2) throw new FeatureProblem('geometry', `a position is not a list of at least two numbers: ${JSON.stringify(position)}`);
+  if (!Array.isArray(position) || position.length < 2) throw new FeatureProblem('geometry', `a position is not a list of at least two numbers: ${showPosition(position)}`);
   const [lon, lat] = position as unknown[];
   if (typeof lon !== 'number' || typeof lat !== 'number' || !Number.isFinite(lon) || !Number.isFinite(lat)) {
-    throw new FeatureProblem('geometry', `a coordinate is not a finite number: ${JSON.stringify(position)}`);
+    throw new FeatureProblem('geometry', `a coordinate is not a finite number: ${showPosition(position)}`);
   }
   if (Math.abs(lon) > 180 || Math.abs(lat) > 90) {
     throw new FeatureProblem(
       'geometry',
-      `coordinate ${JSON.stringify(position)} cannot be longitude/latitude (outside +-180/+-90): the data look projected but no CRS is declared; ` +
+      `coordinate ${showPosition(position)} cannot be longitude/latitude (outside +-180/+-90): the data look projected but no CRS is declared; ` +
         'add the .prj, a "crs" member, or give --input-crs EPSG:<code>',
     );
   }
@@ -157,7 +174,10 @@ function polygonList(view: FeatureView): number[][][][] {
       const at = crossings[0].geometry.coordinates.map((v) => Number(v.toFixed(6)));
       throw new FeatureProblem('geometry', `polygon ${p} intersects itself (first crossing near ${JSON.stringify(at)}); fix the ring`);
     }
-    if (!booleanValid(shape)) throw new FeatureProblem('geometry', `polygon ${p} is not a valid polygon (a hole outside its shell, or rings touching)`);
+    // turf's booleanValid lets a hole lying wholly outside its shell pass: check each hole too
+    const shell = turfPolygon([rings[0]]);
+    const holeOutside = rings.slice(1).some((hole) => !hole.slice(0, -1).some((position) => booleanPointInPolygon(position, shell, { ignoreBoundary: true })));
+    if (holeOutside || !booleanValid(shape)) throw new FeatureProblem('geometry', `polygon ${p} is not a valid polygon (a hole outside its shell, or rings touching)`);
     return rings;
   });
 }
@@ -203,20 +223,22 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
     const kindValue = view.properties[f.kind];
     let kind: LineKind = rules.defaults.kind;
     if (kindValue !== undefined && kindValue !== null && kindValue !== '') {
-      const word = String(kindValue).trim().toLowerCase();
-      if (rules.kindWords.canal.some((w) => w.toLowerCase() === word)) kind = 'canal';
-      else if (rules.kindWords.drain.some((w) => w.toLowerCase() === word)) kind = 'drain';
+      const word = typeof kindValue === 'string' || typeof kindValue === 'number' ? String(kindValue).trim().toLowerCase() : null;
+      if (word !== null && rules.kindWords.canal.some((w) => w.toLowerCase() === word)) kind = 'canal';
+      else if (word !== null && rules.kindWords.drain.some((w) => w.toLowerCase() === word)) kind = 'drain';
       else {
         throw new FeatureProblem(f.kind, `expected ${[...rules.kindWords.canal, ...rules.kindWords.drain].map((w) => `"${w}"`).join(' or ')}, found ${describeValue(kindValue)}`);
       }
     }
     const given = (field: string) => view.properties[field] !== undefined && view.properties[field] !== null && view.properties[field] !== '';
-    let stageStartM: number, stageEndM: number;
+    let stageStartM: number, stageEndM: number, stageField: string;
     if (given(f.stage)) {
       stageStartM = stageEndM = toM(numberField(view, f.stage));
+      stageField = f.stage;
     } else if (given(f.stageStart) || given(f.stageEnd)) {
       stageStartM = toM(numberField(view, f.stageStart));
       stageEndM = toM(numberField(view, f.stageEnd));
+      stageField = `${f.stageStart}/${f.stageEnd}`;
     } else {
       throw new FeatureProblem(f.stage, `missing water level: give "${f.stage}", or "${f.stageStart}" and "${f.stageEnd}"`);
     }
@@ -228,6 +250,7 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       kind,
       stageStartM,
       stageEndM,
+      stageField,
       partsLonLat: lineParts(view),
       properties: view.properties,
     };
