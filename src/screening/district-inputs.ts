@@ -216,10 +216,33 @@ function checkAll<T>(
   return { records, problems };
 }
 
+// The dBASE table of a shapefile keeps 10 characters of a field name, so "recharge_mm_yr" comes
+// back as "recharge_m". Where a field is missing from every feature but its cut name is there,
+// read the cut name and say so.
+const DBF_NAME_LENGTH = 10;
+
+function resolveCutNames<T extends object>(file: string, features: unknown[], fields: T, problems: Problem[]): T {
+  const present = new Set<string>();
+  for (const feature of features) {
+    const properties = (feature as { properties?: unknown } | null)?.properties;
+    if (properties !== null && typeof properties === 'object') for (const key of Object.keys(properties)) present.add(key);
+  }
+  const resolved = { ...fields };
+  for (const [key, name] of Object.entries(fields) as [keyof T & string, string][]) {
+    const cut = name.slice(0, DBF_NAME_LENGTH);
+    if (name.length > DBF_NAME_LENGTH && !present.has(name) && present.has(cut)) {
+      (resolved as Record<string, string>)[key] = cut;
+      problems.push({ severity: 'warning', place: { file, field: cut }, message: `reading "${cut}" as "${name}" (a shapefile keeps 10 characters of a field name); map it in the config's fields to silence this` });
+    }
+  }
+  return resolved;
+}
+
 export function checkLines(file: string, features: unknown[], rules: InputRules): Checked<LineRecord> {
-  const f = rules.fields.lines;
+  const cutWarnings: Problem[] = [];
+  const f = resolveCutNames(file, features, rules.fields.lines, cutWarnings);
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
-  return checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view) => {
+  const checked = checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view) => {
     const kindValue = view.properties[f.kind];
     let kind: LineKind = rules.defaults.kind;
     if (kindValue !== undefined && kindValue !== null && kindValue !== '') {
@@ -255,6 +278,8 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       properties: view.properties,
     };
   });
+  checked.problems.unshift(...cutWarnings);
+  return checked;
 }
 
 // Hydraulic conductivity of aquifer materials, H. Bouwer (1978), Groundwater Hydrology, as
@@ -267,7 +292,8 @@ export const K_HANDBOOK_MAX_M_PER_DAY = 1000;
 export const RECHARGE_PLAUSIBLE_MM_PER_YEAR = 3000;
 
 export function checkZones(file: string, features: unknown[], rules: InputRules): Checked<ZoneRecord> {
-  const f = rules.fields.zones;
+  const cutWarnings: Problem[] = [];
+  const f = resolveCutNames(file, features, rules.fields.zones, cutWarnings);
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
   const checked = checkAll(file, features, f.id, 'aquifer zones (Polygon or MultiPolygon)', (view, warn) => {
     const kGiven = numberField(view, f.k);
@@ -297,6 +323,7 @@ export function checkZones(file: string, features: unknown[], rules: InputRules)
     };
   });
   checked.records.forEach((zone, i) => (zone.index = i));
+  checked.problems.unshift(...cutWarnings);
   return checked;
 }
 
