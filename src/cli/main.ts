@@ -6,6 +6,8 @@ import { checkCommand, type CheckOptions } from './check-command.js';
 import { UsageError, VERSION } from './common.js';
 import { initConfigCommand, type InitConfigOptions } from './init-config-command.js';
 import { InputProblems, problemLines } from './load-district.js';
+import { registerProfileCommand } from './profile-command.js';
+import { progressReporter } from './progress.js';
 import { screenCommand, type CliIo, type ScreenOptions } from './screen-command.js';
 
 function positiveNumber(value: string): number {
@@ -45,7 +47,12 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .option('--quiet', 'print only errors and the caution line')
     .option('--debug', 'show stack traces of internal errors')
     .action(async (options: ScreenOptions) => {
-      exitCode = await screenCommand(options, argv, io);
+      const progress = progressReporter({ quiet: Boolean(options.quiet), stream: process.stderr });
+      try {
+        exitCode = await screenCommand(options, argv, io, progress.onProgress);
+      } finally {
+        progress.stop();
+      }
     });
   program
     .command('check')
@@ -70,6 +77,9 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .action(async (options: InitConfigOptions) => {
       exitCode = await initConfigCommand(options, io);
     });
+  registerProfileCommand(program, io, (code) => {
+    exitCode = code;
+  });
   if (argv.length === 0) {
     io.err(program.helpInformation());
     return 2;

@@ -3,6 +3,8 @@ import { existsSync, statSync } from 'node:fs';
 import { writeAllOrNothing, type OutputFile } from '../io/atomic-write.js';
 import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from '../io/layers.js';
 import { runRecord, summaryText, CAUTION } from '../io/run-record.js';
+import { renderReport } from '../report/index.js';
+import { formatProblem } from '../screening/district-inputs.js';
 import { defaultConfig, parseConfig, type RunConfig } from '../screening/config.js';
 import { screenDistrict, type ProgressListener } from '../screening/screen.js';
 import type { RankBy } from '../screening/settings.js';
@@ -86,6 +88,18 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     { name: 'ranking.csv', content: rankingTable(result) },
   ];
   if (settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
+  files.push({
+    name: 'report.html',
+    content: renderReport(result, {
+      version: VERSION,
+      commandLine: ['doab', ...argv],
+      inputs: [
+        { label: 'canals', path: district.canals.path, sha256: district.canals.sha256 },
+        { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256 },
+      ],
+      inputWarnings: district.problems.map(formatProblem),
+    }),
+  });
   const outputs = [...files.map((file) => file.name), 'run.json'];
   files.push({
     name: 'run.json',

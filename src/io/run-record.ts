@@ -1,5 +1,6 @@
 // The run record (run.json) and the end-of-run summary printed to stdout.
 import type { ScreenResult } from '../screening/screen.js';
+import { formatFixed } from '../report/format.js';
 import { roundNumber } from './layers.js';
 import type { InputRules } from '../screening/input-rules.js';
 import { formatProblem, type Problem } from '../screening/district-inputs.js';
@@ -87,24 +88,17 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
   return `${JSON.stringify(record, null, 2)}\n`;
 }
 
-function formatNumber(value: number, digits: number): string {
-  if (!Number.isFinite(value)) return '-';
-  const text = value.toFixed(digits);
-  // -0.00 reads as a sign error to a person; a rounded zero has none
-  return Number(text) === 0 ? text.replace('-', '') : text;
-}
-
 export function summaryText(result: ScreenResult, top = 10, skipped = 0): string {
   const { totals, counts } = result;
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
   lines.push(
-    `Seepage loss from losing lines: ${formatNumber(totals.lossM3PerDay, 0)} m3/d (${formatNumber(totals.lossM3PerYear, 0)} m3/yr); ` +
-      `gaining lines take in ${formatNumber(totals.gainM3PerDay, 0)} m3/d`,
+    `Seepage loss from losing lines: ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr); ` +
+      `gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d`,
   );
   lines.push(
-    `Paired ${formatNumber(totals.pairedM / 1000, 1)} km, unpaired ${formatNumber(totals.unpairedM / 1000, 1)} km; ` +
-      `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatNumber(totals.riskAreaHa, 1)} ha`,
+    `Paired ${formatFixed(totals.pairedM / 1000, 1)} km, unpaired ${formatFixed(totals.unpairedM / 1000, 1)} km; ` +
+      `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatFixed(totals.riskAreaHa, 1)} ha`,
   );
   const byRisk = totals.stripsByRisk;
   lines.push(`Strips by risk: ponded ${byRisk.ponded}, waterlogged ${byRisk.waterlogged}, potential ${byRisk.potential}, safe ${byRisk.safe}, unsolved ${byRisk.unsolved}`);
@@ -112,9 +106,9 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
   const rows = result.strips.slice(0, top).map((strip, i) => [
     String(i + 1),
     strip.stripId,
-    formatNumber(strip.lossM3PerDayKm, 1),
-    formatNumber(strip.lossM3PerDay, 1),
-    formatNumber(strip.minDepthM, 2),
+    formatFixed(strip.lossM3PerDayKm, 1),
+    formatFixed(strip.lossM3PerDay, 1),
+    formatFixed(strip.minDepthM, 2),
     strip.risk ?? 'unsolved',
     strip.flags.join(';'),
   ]);

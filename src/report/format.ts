@@ -1,0 +1,36 @@
+// Number formatting for what a person reads in the report: fixed decimals, no "-0", and a dash
+// for a value that does not exist (an unsolved strip has no depth).
+
+export function formatFixed(value: number, digits: number): string {
+  if (!Number.isFinite(value)) return '-';
+  const text = value.toFixed(digits);
+  // -0.00 reads as a sign error to a person; a rounded zero has none
+  return Number(text) === 0 ? text.replace('-', '') : text;
+}
+
+/** Thousands grouped with thin spaces, so a loss of 4545366 m^3/yr reads as 4 545 366. */
+export function formatGrouped(value: number, digits = 0): string {
+  const text = formatFixed(value, digits);
+  if (text === '-') return text;
+  const [whole, fraction] = text.split('.');
+  const grouped = whole.replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
+  return fraction === undefined ? grouped : `${grouped}.${fraction}`;
+}
+
+/** The largest 1, 2 or 5 times a power of ten not above value: lengths of scale bars, axis steps. */
+export function roundDown125(value: number): number {
+  if (!(value > 0) || !Number.isFinite(value)) throw new Error(`Unexpected value: ${value}.`);
+  const power = 10 ** Math.floor(Math.log10(value));
+  const mantissa = value / power;
+  return (mantissa >= 5 ? 5 : mantissa >= 2 ? 2 : 1) * power;
+}
+
+/** Evenly spaced round ticks covering [min, max], about `count` of them. */
+export function ticks(min: number, max: number, count: number): number[] {
+  if (!(max > min)) return [min];
+  const step = roundDown125((max - min) / count);
+  const out: number[] = [];
+  // the step is a round number, so ticks at whole multiples of it stay round after the product
+  for (let k = Math.ceil(min / step - 1e-9); k * step <= max + step * 1e-9; k++) out.push(Number((k * step).toPrecision(12)));
+  return out;
+}

@@ -1,0 +1,258 @@
+// The district map of the report, drawn in the work CRS (metres, grid north up): strips filled by
+// risk class, lines with a width that grows with their loss per km, drains dashed, reaches with
+// neither side paired overlaid, a scale bar and a north arrow. Returns the SVG and its key (HTML).
+import { FACING_PAIRED } from '../geometry/index.js';
+import type { StripSummary } from '../screening/aggregate.js';
+import type { ScreenResult } from '../screening/screen.js';
+import { escapeHtml } from './escape.js';
+import { formatFixed, formatGrouped, roundDown125 } from './format.js';
+import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES, patternId, stripPatternDefs, type StripClass } from './palette.js';
+import { fitView, pathData, type MapView } from './svg-path.js';
+
+export interface MapOptions {
+  /** Drawing width in SVG units (about CSS pixels at 100% zoom); default 1000. */
+  widthPx?: number;
+  maxHeightPx?: number;
+  /** Detail finer than this is dropped from strips and lines (drawing units); default 1. */
+  minStepPx?: number;
+}
+
+export interface DistrictMap {
+  svg: string;
+  /** The map's key as HTML: risk classes, line kinds and widths, unpaired reaches. */
+  key: string;
+}
+
+const PAD_PX = 24;
+// the band under the data that holds the scale bar and the north arrow, clear of every shape
+const BAND_PX = 40;
+
+/** How wide lines are drawn: from min to max (px), max for a loss per km of `top` or more. */
+interface LineWidths {
+  minPx: number;
+  maxPx: number;
+  top: number;
+  /** Width of the band over unpaired reaches (px). */
+  unpairedPx: number;
+}
+
+/**
+ * Widths that suit the drawn scale: the widest line is at most a quarter of the median strip
+ * spacing on the map, so that in a dense district the lines do not cover the strips.
+ */
+function lineWidths(result: ScreenResult, view: MapView): LineWidths {
+  const spacings = result.strips.map((strip) => strip.spacingMeanM).filter(Number.isFinite).sort((a, b) => a - b);
+  const spacingPx = spacings.length > 0 ? spacings[Math.floor(spacings.length / 2)] * view.pxPerM : Infinity;
+  const maxPx = Math.min(4.5, Math.max(1, spacingPx / 4));
+  return { minPx: Math.min(0.8, maxPx / 3), maxPx, top: widthScaleTop(result), unpairedPx: Math.min(7, Math.max(2, spacingPx / 2)) };
+}
+
+/** Loss per km of paired length (m^3/d/km), as in canals.geojson; null without paired length. */
+export function lineLossPerKm(result: ScreenResult, line: number): number | null {
+  const summary = result.lineSummaries[line];
+  return summary.pairedM > 0 ? summary.lossM3PerDay / (summary.pairedM / 1000) : null;
+}
+
+/** The loss per km drawn at the widest: the 95th percentile of the losing lines, so one short outlier does not make every other line hairline-thin. */
+export function widthScaleTop(result: ScreenResult): number {
+  const losing: number[] = [];
+  for (let i = 0; i < result.lines.length; i++) {
+    const v = lineLossPerKm(result, i);
+    if (v !== null && v > 0) losing.push(v);
+  }
+  if (losing.length === 0) return 0;
+  losing.sort((a, b) => a - b);
+  return losing[Math.floor(0.95 * (losing.length - 1))];
+}
+
+function lineWidthPx(lossPerKm: number | null, widths: LineWidths): number {
+  const { minPx, maxPx, top } = widths;
+  if (lossPerKm === null || !(lossPerKm > 0) || !(top > 0)) return minPx;
+  // area-like scaling: a line losing four times as much is drawn twice as wide
+  return minPx + (maxPx - minPx) * Math.sqrt(Math.min(lossPerKm / top, 1));
+}
+
+function stripClass(strip: StripSummary): StripClass {
+  return strip.risk ?? 'unsolved';
+}
+
+function projectLines(result: ScreenResult): Float64Array[][] {
+  const { crs } = result;
+  return result.lines.map((line) =>
+    line.partsLonLat.map((part) => {
+      const out = new Float64Array(part.length * 2);
+      for (let i = 0; i < part.length; i++) {
+        const [x, y] = crs.forward([part[i][0], part[i][1]]);
+        out[2 * i] = x;
+        out[2 * i + 1] = y;
+      }
+      return out;
+    }),
+  );
+}
+
+function boundsOf(linesM: Float64Array[][], strips: StripSummary[]): [number, number, number, number] {
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  const add = (coords: Float64Array) => {
+    for (let i = 0; i < coords.length; i += 2) {
+      if (coords[i] < minX) minX = coords[i];
+      if (coords[i] > maxX) maxX = coords[i];
+      if (coords[i + 1] < minY) minY = coords[i + 1];
+      if (coords[i + 1] > maxY) maxY = coords[i + 1];
+    }
+  };
+  for (const parts of linesM) for (const part of parts) add(part);
+  for (const strip of strips) add(strip.ringM);
+  if (!Number.isFinite(minX)) return [0, 0, 1000, 1000];
+  return [minX, minY, maxX, maxY];
+}
+
+/** Runs of stations with neither side paired, each drawn over the chainage its stations stand for. */
+function unpairedPathData(result: ScreenResult, view: MapView, minStepPx: number): string {
+  const { stations, facings } = result;
+  let d = '';
+  let run: number[] = [];
+  const flush = () => {
+    if (run.length === 0) return;
+    const first = run[0], last = run[run.length - 1];
+    const half0 = stations.lengthM[first] / 2, half1 = stations.lengthM[last] / 2;
+    const coords = [stations.x[first] - stations.dirX[first] * half0, stations.y[first] - stations.dirY[first] * half0];
+    for (const s of run) coords.push(stations.x[s], stations.y[s]);
+    coords.push(stations.x[last] + stations.dirX[last] * half1, stations.y[last] + stations.dirY[last] * half1);
+    d += pathData(view, coords, minStepPx, false);
+    run = [];
+  };
+  for (let s = 0; s < stations.count; s++) {
+    const unpaired = facings.reason[2 * s] !== FACING_PAIRED && facings.reason[2 * s + 1] !== FACING_PAIRED;
+    const continues = run.length > 0 && stations.line[s] === stations.line[run[0]] && stations.part[s] === stations.part[run[0]];
+    if (!unpaired || !continues) flush();
+    if (unpaired) run.push(s);
+  }
+  flush();
+  return d;
+}
+
+function scaleBar(view: MapView): string {
+  const mapWidthM = (view.widthPx - 2 * view.padPx) / view.pxPerM;
+  const lengthM = roundDown125(mapWidthM / 5);
+  const lengthPx = lengthM * view.pxPerM;
+  const x0 = view.padPx, y0 = view.heightPx - 12;
+  const label = (m: number) => (lengthM >= 1000 ? `${formatGrouped(m / 1000, m % 1000 === 0 ? 0 : 1)} km` : `${formatGrouped(m)} m`);
+  const r = (v: number) => Math.round(v * 10) / 10;
+  return (
+    `<g class="map-scale" aria-label="scale bar ${label(lengthM)}">` +
+    `<rect x="${r(x0)}" y="${r(y0 - 5)}" width="${r(lengthPx / 2)}" height="5" fill="#000000"/>` +
+    `<rect x="${r(x0 + lengthPx / 2)}" y="${r(y0 - 5)}" width="${r(lengthPx / 2)}" height="5" fill="#ffffff" stroke="#000000" stroke-width="0.8"/>` +
+    `<text x="${r(x0)}" y="${r(y0 - 9)}" text-anchor="middle">0</text>` +
+    `<text x="${r(x0 + lengthPx / 2)}" y="${r(y0 - 9)}" text-anchor="middle">${label(lengthM / 2)}</text>` +
+    `<text x="${r(x0 + lengthPx)}" y="${r(y0 - 9)}" text-anchor="middle">${label(lengthM)}</text>` +
+    `</g>`
+  );
+}
+
+function northArrow(view: MapView): string {
+  const x = view.widthPx - view.padPx - 70, y = view.heightPx - 36;
+  return (
+    `<g class="map-north" aria-label="grid north is up">` +
+    `<path d="M${x} ${y}l7 26l-7 -6l-7 6z" fill="#000000"/>` +
+    `<text x="${x + 12}" y="${y + 11}" font-weight="bold">N</text>` +
+    `<text x="${x + 12}" y="${y + 24}" font-size="10">grid north</text>` +
+    `</g>`
+  );
+}
+
+/** Loss-per-km values to show as widths in the key: round numbers up to the largest. */
+function widthSamples(scaleTop: number): number[] {
+  if (!(scaleTop > 0)) return [];
+  const samples = [roundDown125(scaleTop), roundDown125(scaleTop / 5), roundDown125(scaleTop / 25)];
+  return [...new Set(samples)].sort((a, b) => a - b);
+}
+
+function keySwatchLine(stroke: string, width: number, extra = ''): string {
+  return (
+    `<svg class="key-swatch" width="44" height="14" viewBox="0 0 44 14" aria-hidden="true">` +
+    `<path d="M2 7h40" stroke="${stroke}" stroke-width="${Math.round(width * 10) / 10}"${extra} fill="none"/></svg>`
+  );
+}
+
+function mapKey(result: ScreenResult, lineWidth: LineWidths): string {
+  const scaleTop = lineWidth.top;
+  const counts = result.totals.stripsByRisk;
+  const risk = result.settings.risk;
+  const depthNote: Record<StripClass, string> = {
+    ponded: 'water table at or above ground',
+    waterlogged: `water table less than ${escapeHtml(risk.waterloggedDepthM)} m below ground`,
+    potential: `${escapeHtml(risk.waterloggedDepthM)} to ${escapeHtml(risk.potentialDepthM)} m below ground`,
+    safe: `${escapeHtml(risk.potentialDepthM)} m or more below ground`,
+    unsolved: 'no transect could be solved',
+  };
+  const classes = STRIP_CLASSES.map(
+    (kind) =>
+      `<li><svg class="key-swatch" width="28" height="18" viewBox="0 0 28 18" aria-hidden="true">` +
+      `<rect x="1" y="1" width="26" height="16" fill="url(#${patternId(kind)})" stroke="#444444" stroke-width="0.6"/></svg>` +
+      `<span><b>${STRIP_STYLES[kind].label}</b> (${formatGrouped(counts[kind])} strips): ${depthNote[kind]}</span></li>`,
+  ).join('');
+  const widths = widthSamples(scaleTop)
+    .map((v) => `<li>${keySwatchLine(LINE_COLOURS.canal, lineWidthPx(v, lineWidth))}<span>${formatGrouped(v)} m³/d per km</span></li>`)
+    .join('');
+  return (
+    `<div class="map-key"><h3>Strips, by smallest depth of the water table</h3><ul>${classes}</ul>` +
+    `<h3>Lines</h3><ul>` +
+    `<li>${keySwatchLine(LINE_COLOURS.canal, 2)}<span><b>canal</b>: solid</span></li>` +
+    `<li>${keySwatchLine(LINE_COLOURS.drain, 1.2, ' stroke-dasharray="5 3"')}<span><b>drain</b>: dashed</span></li>` +
+    `<li>${keySwatchLine(LINE_COLOURS.unpaired, lineWidth.unpairedPx, ' stroke-opacity="0.55"')}` +
+    `<span><b>unpaired reach</b>: neither side faces a partner line (wide band)</span></li></ul>` +
+    (widths
+      ? `<h3>Line width: loss per km of paired length</h3><ul>${widths}</ul><p class="key-note">Lines losing ${formatGrouped(scaleTop, scaleTop < 10 ? 1 : 0)} m³/d per km ` +
+        `or more (the 95th percentile of losing lines) are drawn widest; gaining lines and lines with no paired length thinnest.</p>`
+      : '<p class="key-note">No line loses water.</p>') +
+    `</div>`
+  );
+}
+
+export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}): DistrictMap {
+  const widthPx = options.widthPx ?? 1000;
+  const minStepPx = options.minStepPx ?? 1;
+  const linesM = projectLines(result);
+  const view = fitView(boundsOf(linesM, result.strips), widthPx, PAD_PX, options.maxHeightPx ?? 1000, BAND_PX);
+
+  const strips = result.strips
+    .map(
+      (strip) =>
+        // no <title> per strip: the page's script shows the strip's row of the table on hover,
+        // which keeps a 10,000-strip map from carrying every figure twice
+        `<path class="strip-shape risk-${stripClass(strip)}" data-strip-id="${escapeHtml(strip.stripId)}" d="${pathData(view, strip.ringM, minStepPx, true)}"/>`,
+    )
+    .join('\n');
+
+  const widths = lineWidths(result, view);
+  const drawLine = (i: number) => {
+    const line = result.lines[i];
+    const lossPerKm = lineLossPerKm(result, i);
+    const d = linesM[i].map((part) => pathData(view, part, minStepPx, false)).join('');
+    const title = `${line.id}${line.name ? ` ${line.name}` : ''} (${line.kind}): loss ${formatFixed(result.lineSummaries[i].lossM3PerDay, 1)} m³/d, ` +
+      `${lossPerKm === null ? 'no paired length' : `${formatFixed(lossPerKm, 1)} m³/d per km paired`}`;
+    return `<path class="map-${line.kind}" stroke-width="${Math.round(lineWidthPx(lossPerKm, widths) * 10) / 10}" d="${d}"><title>${escapeHtml(title)}</title></path>`;
+  };
+  const indices = result.lines.map((_, i) => i);
+  // drains under canals, and among canals the widest on top
+  const drains = indices.filter((i) => result.lines[i].kind === 'drain').map(drawLine).join('\n');
+  const canals = indices
+    .filter((i) => result.lines[i].kind === 'canal')
+    .sort((a, b) => (lineLossPerKm(result, a) ?? 0) - (lineLossPerKm(result, b) ?? 0) || a - b)
+    .map(drawLine)
+    .join('\n');
+  const unpaired = unpairedPathData(result, view, minStepPx);
+
+  const svg =
+    `<svg xmlns="http://www.w3.org/2000/svg" class="district-map" viewBox="0 0 ${view.widthPx} ${view.heightPx}" ` +
+    `width="${view.widthPx}" height="${view.heightPx}" role="img" aria-label="Map of strips by risk class and lines by loss per km, grid north up">` +
+    `<defs>${stripPatternDefs()}</defs>` +
+    `<rect class="map-frame" x="0.5" y="0.5" width="${view.widthPx - 1}" height="${view.heightPx - 1}"/>\n` +
+    `<g class="map-strips">\n${strips}\n</g>\n` +
+    (unpaired ? `<path class="map-unpaired" stroke-width="${Math.round(widths.unpairedPx * 10) / 10}" d="${unpaired}"><title>unpaired reaches: neither side faces a partner line</title></path>\n` : '') +
+    `<g class="map-lines">\n${drains}\n${canals}\n</g>\n` +
+    `${scaleBar(view)}${northArrow(view)}</svg>`;
+  return { svg, key: mapKey(result, widths) };
+}
+

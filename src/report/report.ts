@@ -1,0 +1,202 @@
+// report.html: one self-contained page from a screening result (summary, map, cross-sections of the
+// top strips, the ranked table, the run). Pure: same result and meta in, same bytes out. Inline
+// CSS, inline SVG and one small inline script; a Content-Security-Policy forbids every fetch.
+import { FACING_REASON_NAMES } from '../geometry/index.js';
+import { CAUTION } from '../io/run-record.js';
+import { RANKING_COLUMNS, rankingRow } from '../io/layers.js';
+import { keyFacing, profileOfFacing } from '../screening/profile.js';
+import type { ScreenResult } from '../screening/screen.js';
+import { escapeHtml } from './escape.js';
+import { formatFixed, formatGrouped } from './format.js';
+import { renderDistrictMap } from './map-svg.js';
+import { columnKind, PAGE_CSS, PAGE_SCRIPT } from './page-assets.js';
+import { STRIP_CLASSES, STRIP_STYLES, patternId } from './palette.js';
+import { orientFromLineA, renderProfileSvg } from './profile-svg.js';
+
+export interface ReportInput {
+  label: string;
+  path: string;
+  sha256: string;
+}
+
+export interface ReportMeta {
+  version: string;
+  commandLine: string[];
+  inputs: ReportInput[];
+  /** Cross-sections drawn for this many of the top-ranked strips; default 10. */
+  topProfiles?: number;
+  /** Problems found in the inputs (warnings, skipped features), listed before the run's own warnings. */
+  inputWarnings?: string[];
+  /**
+   * Table rows shown before "show all" (default 1000): every row is in the page, but laying out
+   * 10,000 rows again after each sort takes seconds in a browser, and the first rows are the ones read.
+   */
+  rowsShown?: number;
+}
+
+/** The assumptions behind every number in the report, as the README states them. */
+export const ASSUMPTIONS: readonly string[] = [
+  'Steady state: canal stages and recharge are taken as constant long enough for the water table to settle.',
+  'Dupuit-Forchheimer: flow is horizontal and the head is the same over a vertical, in an unconfined aquifer on a horizontal impervious base; ' +
+    'fair when a strip is at least about 5 times wider than its mean saturated thickness (common practice), and narrower strips are flagged.',
+  'Lines fully penetrate the aquifer and meet it without entry resistance (no lining, no clogged bed); real losses through a silted bed can be much smaller.',
+  'Zones are taken in series across each transect, each with one hydraulic conductivity, recharge and ground level.',
+  'All elevations (stages, base, ground) are in one vertical datum.',
+];
+
+
+/** A command line as a person would type it again: arguments with spaces or quotes in single quotes. */
+function shellWords(words: string[]): string {
+  return words.map((word) => (/^[\w@%+=:,./-]+$/.test(word) ? word : `'${word.replace(/'/g, `'\\''`)}'`)).join(' ');
+}
+
+function totalCard(figure: string, what: string): string {
+  return `<div class="total-card"><span class="figure">${figure}</span><span class="what">${what}</span></div>`;
+}
+
+function summarySection(result: ScreenResult, inputWarnings: string[]): string {
+  const { totals, counts, settings } = result;
+  const canals = result.lines.filter((line) => line.kind === 'canal').length;
+  const cards = [
+    totalCard(`${formatGrouped(totals.lossM3PerDay)} m³/d`, 'seepage loss from the lines that lose water'),
+    totalCard(`${formatGrouped(totals.lossM3PerYear)} m³/yr`, 'the same loss over a year'),
+    totalCard(`${formatGrouped(totals.gainM3PerDay)} m³/d`, 'taken in from the ground by gaining lines (drains, mostly)'),
+    totalCard(`${formatGrouped(totals.netM3PerDay)} m³/d`, 'net seepage of all lines, loss less gain'),
+    totalCard(`${formatFixed(totals.pairedM / 1000, 1)} km`, 'line length with at least one side paired'),
+    totalCard(`${formatFixed(totals.unpairedM / 1000, 1)} km`, 'line length with neither side paired'),
+    totalCard(
+      `${formatGrouped(totals.riskAreaHa, 1)} ha`,
+      `area where the water table is less than ${escapeHtml(settings.risk.waterloggedDepthM)} m below ground`,
+    ),
+  ].join('');
+  const riskRows = STRIP_CLASSES.map(
+    (kind) =>
+      `<tr><td><svg class="key-swatch" width="22" height="14" viewBox="0 0 22 14" aria-hidden="true"><rect x="1" y="1" width="20" height="12" ` +
+      `fill="url(#${patternId(kind)})" stroke="#444444" stroke-width="0.6"/></svg></td><th scope="row">${STRIP_STYLES[kind].label}</th>` +
+      `<td class="num">${formatGrouped(totals.stripsByRisk[kind])}</td></tr>`,
+  ).join('');
+  const sides = FACING_REASON_NAMES.map((name) => `${escapeHtml(name)} ${formatGrouped(counts.facingsByReason[name] ?? 0)}`).join(', ');
+  const allWarnings = [...inputWarnings, ...result.warnings];
+  const warnings = allWarnings.length
+    ? `<ul class="plain warnings">${allWarnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('')}</ul>`
+    : '<p>None.</p>';
+  return (
+    `<section id="summary"><h2>District summary</h2><div class="totals-grid">${cards}</div>` +
+    `<h3>Strips by risk class</h3><table class="facts risk-counts"><tbody>${riskRows}` +
+    `<tr><td></td><th scope="row">all strips</th><td class="num">${formatGrouped(counts.strips)}</td></tr></tbody></table>` +
+    `<p>${formatGrouped(counts.lines)} lines (${formatGrouped(canals)} canals, ${formatGrouped(counts.lines - canals)} drains), ` +
+    `${formatGrouped(counts.zones)} aquifer zones, ${formatGrouped(counts.stations)} stations every ${escapeHtml(settings.stepM)} m; transect sides: ${sides}.</p>` +
+    `<h3>Warnings</h3>${warnings}</section>`
+  );
+}
+
+function cautionSection(): string {
+  return (
+    `<section id="cautions" class="caution-box"><p><b>Screening estimate, not a design.</b> ${escapeHtml(CAUTION)}</p>` +
+    `<p>The numbers rest on these assumptions:</p><ul class="plain">${ASSUMPTIONS.map((a) => `<li>${escapeHtml(a)}</li>`).join('')}</ul>` +
+    `<p>Confirm every finding in the field (piezometers, seepage measurements) before acting on it, and defer to local codes, ` +
+    `regulations and licensed professional practice for any design, lining or drainage decision.</p></section>`
+  );
+}
+
+function mapSection(result: ScreenResult): string {
+  const map = renderDistrictMap(result);
+  return (
+    `<section id="map"><h2>Map</h2><p class="run-line">Work CRS ${escapeHtml(result.crs.name)}, grid north up. ` +
+    `Hover over a strip for its figures.</p><div class="map-panel">${map.svg}${map.key}</div>` +
+    `<div id="map-tip" class="map-tip" role="tooltip"></div></section>`
+  );
+}
+
+function profilesSection(result: ScreenResult, top: number): string {
+  const strips = result.strips.slice(0, top);
+  if (strips.length === 0) return `<section id="profiles"><h2>Cross-sections</h2><p>No strips.</p></section>`;
+  const figures = strips.map((strip, i) => {
+    const solved = profileOfFacing(result, strip, keyFacing(result, strip));
+    const profile = solved && orientFromLineA(solved, strip.canalA);
+    const caption =
+      `#${i + 1} ${escapeHtml(strip.stripId)}: ${escapeHtml(STRIP_STYLES[strip.risk ?? 'unsolved'].label)}, ` +
+      `loss ${formatFixed(strip.lossM3PerDayKm, 1)} m³/d per km, smallest depth ${formatFixed(strip.minDepthM, 2)} m` +
+      (strip.flags.length ? `; flags ${escapeHtml(strip.flags.join(', '))}` : '');
+    const body = profile ? renderProfileSvg(profile) : '<p>No solved transect in this strip: nothing to draw.</p>';
+    return `<figure class="profile-card" data-strip-id="${escapeHtml(strip.stripId)}">${body}<figcaption>${caption}</figcaption></figure>`;
+  });
+  return (
+    `<section id="profiles"><h2>Cross-sections of the top ${strips.length} strips</h2>` +
+    `<p class="run-line">Each is the strip's key transect, the one with the highest water table, solved again from the same inputs and drawn with the strip's line a on the left.</p>` +
+    `<div class="profile-grid">${figures.join('\n')}</div></section>`
+  );
+}
+
+function rankingSection(result: ScreenResult, rowsShown: number): string {
+  const head = RANKING_COLUMNS.map(
+    (column) => `<th scope="col" data-column="${column}" data-kind="${columnKind(column)}" aria-sort="none"><button type="button">${column}</button></th>`,
+  ).join('');
+  const rows = result.strips.map((strip, i) => {
+    const row = rankingRow(strip, i + 1);
+    // end tags of td are optional in HTML, and the style sheet aligns numbers by column: both
+    // keep a 10,000-row table smaller
+    const cells = RANKING_COLUMNS.map((column) => {
+      const value = row[column];
+      return `<td>${value === null || value === undefined ? '' : escapeHtml(value)}`;
+    }).join('');
+    return `<tr class="rank-row">${cells}</tr>`;
+  });
+  const capped = rows.length > rowsShown;
+  const cap = capped
+    ? `<p class="table-cap">Showing the first ${formatGrouped(rowsShown)} of ${formatGrouped(rows.length)} rows in the current order. ` +
+      `<button type="button" id="show-all-rows">Show all ${formatGrouped(rows.length)} rows</button></p>`
+    : '';
+  return (
+    `<section id="ranking"><h2>Ranked strips</h2><p class="run-line">The rows and columns of ranking.csv, ranked by ` +
+    `${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}. Click a column header to sort.</p>${cap}` +
+    `<div class="table-wrap"><table id="ranking-table" class="ranking${capped ? ' is-capped' : ''}"><thead><tr>${head}</tr></thead>` +
+    `<tbody>\n${rows.join('\n')}\n</tbody></table></div></section>`
+  );
+}
+
+function settingRows(settings: object, prefix = ''): string[] {
+  const rows: string[] = [];
+  for (const [key, value] of Object.entries(settings)) {
+    if (value !== null && typeof value === 'object') rows.push(...settingRows(value as object, `${prefix}${key}.`));
+    else rows.push(`<tr><th scope="row">${escapeHtml(prefix + key)}</th><td>${escapeHtml(JSON.stringify(value))}</td></tr>`);
+  }
+  return rows;
+}
+
+function runSection(result: ScreenResult, meta: ReportMeta): string {
+  const inputs = meta.inputs
+    .map((input) => `<tr><th scope="row">${escapeHtml(input.label)}</th><td>${escapeHtml(input.path)}</td><td class="hash">${escapeHtml(input.sha256)}</td></tr>`)
+    .join('');
+  return (
+    `<section id="run"><h2>Run</h2><table class="facts"><tbody>` +
+    `<tr><th scope="row">doab version</th><td>${escapeHtml(meta.version)}</td></tr>` +
+    `<tr><th scope="row">command line</th><td class="hash">${escapeHtml(shellWords(meta.commandLine))}</td></tr>` +
+    `<tr><th scope="row">work CRS</th><td>${escapeHtml(result.crs.name)}</td></tr></tbody></table>` +
+    `<h3>Inputs</h3><table class="facts"><thead><tr><th>input</th><th>path</th><th>SHA-256</th></tr></thead><tbody>${inputs}</tbody></table>` +
+    `<h3>Settings</h3><table class="facts settings"><tbody>${settingRows(result.settings).join('')}</tbody></table></section>`
+  );
+}
+
+/**
+ * The whole report as one HTML text. Example:
+ * renderReport(screenDistrict(lines, zones, DEFAULT_SETTINGS), { version: '0.1.0', commandLine: ['doab', 'screen'], inputs: [] })
+ */
+export function renderReport(result: ScreenResult, meta: ReportMeta): string {
+  const top = meta.topProfiles ?? 10;
+  if (!Number.isInteger(top) || top < 0) throw new Error(`Unexpected topProfiles value: ${top}.`);
+  const rowsShown = meta.rowsShown ?? 1000;
+  if (!Number.isInteger(rowsShown) || rowsShown < 1) throw new Error(`Unexpected rowsShown value: ${rowsShown}.`);
+  const capRule = `#ranking-table.is-capped tbody tr:nth-child(n+${rowsShown + 1}){display:none}`;
+  const csp = "default-src 'none'; style-src 'unsafe-inline'; script-src 'unsafe-inline'; img-src data:";
+  return (
+    `<!DOCTYPE html>\n<html lang="en"><head><meta charset="utf-8">` +
+    `<meta http-equiv="Content-Security-Policy" content="${csp}">` +
+    `<meta name="viewport" content="width=device-width, initial-scale=1">` +
+    `<title>doab screening report: ${result.counts.strips} strips</title><style>${PAGE_CSS}${capRule}\n</style></head>\n<body><main>` +
+    `<header><h1>doab screening report</h1><p class="run-line">${result.counts.lines} lines, ${result.counts.strips} strips, ` +
+    `work CRS ${escapeHtml(result.crs.name)}; doab ${escapeHtml(meta.version)}</p></header>\n` +
+    `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${mapSection(result)}\n${profilesSection(result, top)}\n` +
+    `${rankingSection(result, rowsShown)}\n${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`
+  );
+}

@@ -1,0 +1,151 @@
+// The demo report in a real browser (Debian's chromium, headless), opened from disk with the
+// network cut off: it must make no request, log no error, show every strip and sort its table.
+// Under CI a missing chromium fails the test; elsewhere it is skipped with a message.
+// DOAB_UPDATE_SCREENSHOT=1 also refreshes docs/report-demo.png (for the README) on purpose.
+import { copyFileSync, existsSync, mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { rankingRow, stripProperties } from '../../src/io/layers.js';
+import { renderReport, type ReportMeta } from '../../src/report/report.js';
+import type { ScreenResult } from '../../src/screening/screen.js';
+import { DEMO_AQUIFER, DEMO_CANALS, ROOT, screenFiles } from './demo-result.js';
+
+const CHROMIUM = '/usr/bin/chromium';
+const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'];
+const OUTPUT = join(ROOT, 'test-output');
+const present = existsSync(CHROMIUM);
+if (!present && !process.env.CI) console.warn(`skipping the browser test: no chromium at ${CHROMIUM} (apt-get install chromium)`);
+
+describe.skipIf(!present && !process.env.CI)('the demo report in headless chromium', () => {
+  let browser: Browser;
+  let page: Page;
+  let result: ScreenResult;
+  let meta: ReportMeta;
+  let fileUrl: string;
+  const otherRequests: string[] = [];
+  const problems: string[] = [];
+
+  beforeAll(async () => {
+    const screened = await screenFiles(DEMO_CANALS, DEMO_AQUIFER);
+    result = screened.result;
+    meta = screened.meta;
+    mkdirSync(OUTPUT, { recursive: true });
+    const path = join(OUTPUT, 'report-demo.html');
+    writeFileSync(path, renderReport(result, screened.meta));
+    fileUrl = pathToFileURL(path).href;
+
+    browser = await chromium.launch({ executablePath: CHROMIUM, args: ARGS });
+    const context = await browser.newContext({ viewport: { width: 1200, height: 900 }, deviceScaleFactor: 1, offline: true });
+    // the report's own files are the only things it may load
+    await context.route('**/*', (route) => {
+      const url = route.request().url();
+      if (url.startsWith('file://') && url.includes('/test-output/report-demo')) return route.continue();
+      otherRequests.push(url);
+      return route.abort();
+    });
+    page = await context.newPage();
+    page.on('console', (message) => {
+      if (message.type() === 'error' || message.type() === 'warning') problems.push(`${message.type()}: ${message.text()}`);
+    });
+    page.on('pageerror', (error) => problems.push(`page error: ${error.message}`));
+    page.on('requestfailed', (request) => otherRequests.push(request.url()));
+    await page.goto(fileUrl, { waitUntil: 'load' });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('loads with no request but its own file and no console error', () => {
+    expect(otherRequests).toEqual([]);
+    expect(problems).toEqual([]);
+  });
+
+  it('shows every strip on the map and in the table', async () => {
+    expect(result.strips.length).toBe(31);
+    expect(await page.locator('svg.district-map .strip-shape').count()).toBe(result.strips.length);
+    expect(await page.locator('#ranking-table tbody tr.rank-row').count()).toBe(result.strips.length);
+    // the strips are drawn, not only present: each has a box of some size on screen
+    const boxes = await page.locator('svg.district-map .strip-shape').evaluateAll((shapes) =>
+      shapes.map((shape) => (shape as SVGGraphicsElement).getBBox()).map((box) => box.width * box.height),
+    );
+    expect(boxes.every((area) => area > 0)).toBe(true);
+  });
+
+  it("labels the top strip's cross-section with its peak_wt_m", async () => {
+    const top = result.strips[0];
+    const label = page.locator('.peak-label').first();
+    expect(await label.getAttribute('data-strip-id')).toBe(top.stripId);
+    expect(await label.textContent()).toBe(`${(stripProperties(top).peak_wt_m as number).toFixed(2)} m`);
+  });
+
+  it('shows a strip\'s figures on hover', async () => {
+    const strip = result.strips[3];
+    const shape = page.locator(`svg.district-map .strip-shape[data-strip-id="${strip.stripId}"]`);
+    const box = (await shape.boundingBox())!;
+    await shape.dispatchEvent('mouseover', { clientX: box.x + box.width / 2, clientY: box.y + box.height / 2 });
+    const tip = page.locator('#map-tip');
+    await expect.poll(() => tip.isVisible()).toBe(true);
+    const text = (await tip.textContent()) ?? '';
+    expect(text).toContain(`strip ${strip.stripId}`);
+    expect(text).toContain(`risk: ${strip.risk}`);
+    expect(text).toContain(`loss_m3_d_km: ${rankingRow(strip, 4).loss_m3_d_km}`);
+    await shape.dispatchEvent('mouseout');
+    await expect.poll(() => tip.isVisible()).toBe(false);
+  });
+
+  it('sorts the table by a column when its header is clicked, and back the other way', async () => {
+    const column = async (name: string) => {
+      const index = await page.locator(`#ranking-table thead th[data-column="${name}"]`).evaluate((th) => (th as HTMLTableCellElement).cellIndex);
+      return page.locator(`#ranking-table tbody tr`).evaluateAll((rows, i) => rows.map((row) => (row as HTMLTableRowElement).cells[i].textContent ?? ''), index);
+    };
+    const header = page.locator('#ranking-table thead th[data-column="min_depth_m"]');
+    await header.locator('button').click();
+    expect(await header.getAttribute('aria-sort')).toBe('ascending');
+    const ascending = (await column('min_depth_m')).map(Number);
+    expect(ascending).toEqual([...ascending].sort((a, b) => a - b));
+    const shallowest = [...result.strips].sort((a, b) => a.minDepthM - b.minDepthM)[0];
+    expect((await column('strip_id'))[0]).toBe(shallowest.stripId);
+
+    await header.locator('button').click();
+    expect(await header.getAttribute('aria-sort')).toBe('descending');
+    const descending = (await column('min_depth_m')).map(Number);
+    expect(descending).toEqual([...descending].sort((a, b) => b - a));
+
+    // back to rank order
+    await page.locator('#ranking-table thead th[data-column="rank"] button').click();
+    expect((await column('rank')).map(Number)).toEqual(result.strips.map((_, i) => i + 1));
+  });
+
+  it('shows the first rows of a long table, sorted over all rows, and all rows on request', async () => {
+    const path = join(OUTPUT, 'report-demo-capped.html');
+    writeFileSync(path, renderReport(result, { ...meta, rowsShown: 10 }));
+    const capped = await page.context().newPage();
+    await capped.goto(pathToFileURL(path).href, { waitUntil: 'load' });
+    const visibleIds = () =>
+      capped.locator('#ranking-table tbody tr').evaluateAll((rows) =>
+        rows.filter((row) => (row as HTMLElement).offsetParent !== null).map((row) => (row as HTMLTableRowElement).cells[1].textContent),
+      );
+    expect(await visibleIds()).toEqual(result.strips.slice(0, 10).map((s) => s.stripId));
+    await capped.locator('#ranking-table thead th[data-column="min_depth_m"] button').click();
+    const shallowest = [...result.strips].sort((a, b) => a.minDepthM - b.minDepthM).slice(0, 10).map((s) => s.stripId);
+    expect(await visibleIds()).toEqual(shallowest);
+    await capped.locator('#show-all-rows').click();
+    expect(await visibleIds()).toHaveLength(result.strips.length);
+    expect(await capped.locator('.table-cap').isVisible()).toBe(false);
+    await capped.close();
+  });
+
+  it('saves a screenshot of the map, its key, the scale bar and the north arrow', async () => {
+    await page.locator('#map').scrollIntoViewIfNeeded();
+    const path = join(OUTPUT, 'report-demo.png');
+    const png = await page.locator('#map').screenshot({ path });
+    await page.screenshot({ path: join(OUTPUT, 'report-demo-page.png'), fullPage: true });
+    expect(png.length).toBeGreaterThan(20_000);
+    expect(png.length).toBeLessThan(300_000);
+    for (const selector of ['.map-key', '.map-scale', '.map-north']) expect(await page.locator(selector).isVisible(), selector).toBe(true);
+    if (process.env.DOAB_UPDATE_SCREENSHOT) copyFileSync(path, join(ROOT, 'docs/report-demo.png'));
+  });
+});

@@ -1,0 +1,104 @@
+import { beforeAll, describe, expect, it } from 'vitest';
+import { orientFromLineA, peakLabelText, renderProfileSvg } from '../../src/report/profile-svg.js';
+import type { ScreenResult } from '../../src/screening/screen.js';
+import { keyFacing, profileOfFacing, type Profile } from '../../src/screening/profile.js';
+import { DEMO_AQUIFER, DEMO_CANALS, HOSTILE_ID, hostileDemoCopy, screenFiles } from './demo-result.js';
+
+function attribute(element: string, name: string): number {
+  const m = new RegExp(` ${name}="([^"]+)"`).exec(element);
+  if (!m) throw new Error(`no ${name} in ${element}`);
+  return Number(m[1]);
+}
+
+describe('renderProfileSvg', () => {
+  let profile: Profile;
+  let svg: string;
+  beforeAll(async () => {
+    const { result } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER);
+    const strip = result.strips[0];
+    profile = profileOfFacing(result, strip, keyFacing(result, strip)) as Profile;
+    svg = renderProfileSvg(profile);
+  });
+
+  it('is a standalone SVG with both stages, ground, water table, base and both depth lines', () => {
+    expect(svg.startsWith('<svg xmlns="http://www.w3.org/2000/svg"')).toBe(true);
+    expect(svg.endsWith('</svg>')).toBe(true);
+    expect(svg).not.toMatch(/ id="/);
+    expect([...svg.matchAll(/class="profile-stage"/g)]).toHaveLength(2);
+    expect([...svg.matchAll(/class="profile-depth"/g)]).toHaveLength(2);
+    for (const part of ['profile-ground', 'profile-water-table', 'profile-base']) expect(svg).toContain(`class="${part}"`);
+    expect(svg).toContain(`${profile.lineA} stage ${profile.stageAM.toFixed(2)} m`);
+    expect(svg).toContain(`${profile.lineB} stage ${profile.stageBM.toFixed(2)} m`);
+    expect(svg).toContain('2.0 m deep: waterlogged');
+    expect(svg).toContain('3.0 m deep: potential');
+    expect(svg).toContain(`aquifer base ${profile.baseM.toFixed(2)} m`);
+    expect(svg).toContain(`distance from line a (${profile.lineA}), m`);
+    expect(svg).toMatch(/elevation, m/);
+  });
+
+  it('labels the peak with its elevation, over the peak', () => {
+    const label = svg.match(/<text class="peak-label"[^>]*>([^<]*)<\/text>/);
+    expect(label?.[1]).toBe(peakLabelText(profile.peakHeadM));
+    expect(label?.[1]).toBe('180.73 m');
+    const circle = svg.match(/<circle [^>]*>/)![0];
+    expect(attribute(label![0], 'y')).toBeLessThan(attribute(circle, 'cy'));
+  });
+
+  it('draws the water table from stage to stage: its ends sit on the stage markers', () => {
+    const points = svg.match(/class="profile-water-table" points="([^"]*)"/)![1].split(' ').map((p) => p.split(',').map(Number));
+    const stages = [...svg.matchAll(/<path class="profile-stage" d="M([\d.]+) ([\d.]+)/g)].map((m) => [Number(m[1]), Number(m[2])]);
+    expect(points[0]).toEqual(stages[0]);
+    expect(points[points.length - 1]).toEqual(stages[1]);
+  });
+
+  it('formats the peak label with two decimals and the unit', () => {
+    expect(peakLabelText(179.999)).toBe('180.00 m');
+    expect(peakLabelText(-0.001)).toBe('0.00 m');
+    expect(peakLabelText(12.345678)).toBe('12.35 m');
+  });
+});
+
+describe('orientFromLineA', () => {
+  let result: ScreenResult;
+  beforeAll(async () => {
+    ({ result } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER));
+  });
+
+  it("mirrors a key transect cast from line b so that x runs from the strip's line a", () => {
+    const strip = result.strips.find((s) => s.stripId === 'C-05|D-06|0')!;
+    const cast = profileOfFacing(result, strip, keyFacing(result, strip))!;
+    // in the demo this strip's highest water table is on a transect cast from the drain
+    expect(cast.lineA).toBe('D-06');
+    const seen = orientFromLineA(cast, strip.canalA);
+    expect([seen.lineA, seen.lineB]).toEqual(['C-05', 'D-06']);
+    expect([seen.stageAM, seen.stageBM]).toEqual([cast.stageBM, cast.stageAM]);
+    expect(seen.xM[0]).toBe(0);
+    expect(seen.xM[seen.xM.length - 1]).toBeCloseTo(cast.widthM, 9);
+    for (let i = 1; i < seen.xM.length; i++) expect(seen.xM[i]).toBeGreaterThan(seen.xM[i - 1]);
+    expect(seen.waterTableM[0]).toBeCloseTo(seen.stageAM, 9);
+    expect(seen.waterTableM[seen.xM.length - 1]).toBeCloseTo(seen.stageBM, 9);
+    // the peak's offset is now measured as strips.geojson measures it, from line a
+    expect(seen.peakOffsetM).toBeCloseTo(strip.peakOffsetM, 6);
+    expect(seen.zones[0].fromM).toBe(0);
+    expect(seen.seepageAM2PerDay).toBe(cast.seepageBM2PerDay);
+    expect(renderProfileSvg(seen)).toContain('distance from line a (C-05), m');
+  });
+
+  it('leaves a profile cast from line a as it is', () => {
+    const strip = result.strips[0];
+    const cast = profileOfFacing(result, strip, keyFacing(result, strip))!;
+    expect(cast.lineA).toBe(strip.canalA);
+    expect(orientFromLineA(cast, strip.canalA)).toBe(cast);
+  });
+});
+
+describe('renderProfileSvg on hostile ids', () => {
+  it('escapes line and strip ids', async () => {
+    const copy = hostileDemoCopy();
+    const { result } = await screenFiles(copy.canals, copy.aquifer);
+    const strip = result.strips.find((s) => s.canalA === HOSTILE_ID || s.canalB === HOSTILE_ID)!;
+    const svg = renderProfileSvg(profileOfFacing(result, strip, keyFacing(result, strip))!);
+    expect(svg).not.toContain(HOSTILE_ID);
+    expect(svg).toContain('C-01&amp;&quot;&#39;&lt;&gt;');
+  });
+});

@@ -1,0 +1,190 @@
+import { beforeAll, describe, expect, it } from 'vitest';
+import { FACING_PAIRED } from '../../src/geometry/index.js';
+import { rankingTable, stripProperties } from '../../src/io/layers.js';
+import { escapeHtml } from '../../src/report/escape.js';
+import { renderReport, type ReportMeta } from '../../src/report/report.js';
+import type { ScreenResult } from '../../src/screening/screen.js';
+import { DEMO_AQUIFER, DEMO_CANALS, HOSTILE_ID, HOSTILE_NAME, hostileDemoCopy, screenFiles } from './demo-result.js';
+
+function count(text: string, pattern: RegExp): number {
+  return [...text.matchAll(pattern)].length;
+}
+
+/** Text of each cell of each table row, entities decoded the way a browser decodes them. */
+function tableRows(html: string): string[][] {
+  const decode = (cell: string) =>
+    cell.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
+  return [...html.matchAll(/<tr class="rank-row">(.*?)<\/tr>/g)].map((m) => m[1].split('<td>').slice(1).map(decode));
+}
+
+describe('renderReport on the demo district', () => {
+  let result: ScreenResult;
+  let meta: ReportMeta;
+  let html: string;
+  beforeAll(async () => {
+    ({ result, meta } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER));
+    html = renderReport(result, meta);
+  });
+
+  it('draws every strip once on the map and lists it once in the table', () => {
+    expect(result.strips.length).toBe(31);
+    expect(count(html, /class="strip-shape /g)).toBe(result.strips.length);
+    expect(count(html, /<tr class="rank-row">/g)).toBe(result.strips.length);
+    const mapIds = [...html.matchAll(/class="strip-shape [^"]*" data-strip-id="([^"]*)"/g)].map((m) => m[1]).sort();
+    expect(mapIds).toEqual(result.strips.map((s) => escapeHtml(s.stripId)).sort());
+  });
+
+  it('gives the table the rows and columns of ranking.csv, in rank order', () => {
+    const csv = rankingTable(result).trimEnd().split('\n');
+    const header = [...html.matchAll(/<th scope="col" data-column="([^"]+)"/g)].map((m) => m[1]);
+    expect(header.join(',')).toBe(csv[0]);
+    const rows = tableRows(html);
+    expect(rows).toHaveLength(csv.length - 1);
+    // the demo has no text that CSV would quote, so a plain join is the CSV line
+    rows.forEach((cells, i) => expect(cells.join(','), `row ${i + 1}`).toBe(csv[i + 1]));
+  });
+
+  it('loads nothing from anywhere: no URL but the SVG namespace, no external reference', () => {
+    const urls = [...html.matchAll(/https?:\/\/[^\s"'<>)]*/g)].map((m) => m[0]);
+    expect(urls.length).toBeGreaterThan(0);
+    expect(new Set(urls)).toEqual(new Set(['http://www.w3.org/2000/svg']));
+    expect(html).not.toMatch(/<link\b|<img\b|<iframe\b|@import|src=|href=/i);
+    expect(html).toMatch(/<meta http-equiv="Content-Security-Policy" content="default-src 'none';/);
+    expect(count(html, /<script\b/g)).toBe(1);
+  });
+
+  it('labels the top strip\'s cross-section with its peak_wt_m', () => {
+    const labels = [...html.matchAll(/<text class="peak-label" data-strip-id="([^"]*)"[^>]*>([^<]*)<\/text>/g)];
+    expect(labels).toHaveLength(10);
+    labels.forEach((label, i) => {
+      const strip = result.strips[i];
+      expect(label[1]).toBe(escapeHtml(strip.stripId));
+      const peak = stripProperties(strip).peak_wt_m as number;
+      expect(label[2]).toBe(`${peak.toFixed(2)} m`);
+    });
+    expect(labels[0][2]).toBe('180.73 m');
+  });
+
+  it('draws as many cross-sections as asked', () => {
+    const cards = (text: string) => count(text, /<figure class="profile-card"/g);
+    expect(cards(renderReport(result, { ...meta, topProfiles: 3 }))).toBe(3);
+    expect(cards(renderReport(result, { ...meta, topProfiles: 0 }))).toBe(0);
+    expect(cards(renderReport(result, { ...meta, topProfiles: 500 }))).toBe(result.strips.length);
+    expect(() => renderReport(result, { ...meta, topProfiles: -1 })).toThrow(/topProfiles/);
+    expect(() => renderReport(result, { ...meta, topProfiles: 2.5 })).toThrow(/topProfiles/);
+  });
+
+  it('shows the first rows only, with a button for all, past rowsShown', () => {
+    expect(html).not.toContain('is-capped"');
+    expect(html).not.toContain('id="show-all-rows"');
+    const capped = renderReport(result, { ...meta, rowsShown: 10 });
+    expect(capped).toContain('<table id="ranking-table" class="ranking is-capped">');
+    expect(capped).toContain('#ranking-table.is-capped tbody tr:nth-child(n+11){display:none}');
+    expect(capped).toContain('Showing the first 10 of 31 rows in the current order. <button type="button" id="show-all-rows">Show all 31 rows</button>');
+    // every row is still in the page
+    expect(count(capped, /<tr class="rank-row">/g)).toBe(31);
+    expect(() => renderReport(result, { ...meta, rowsShown: 0 })).toThrow(/rowsShown/);
+  });
+
+  it('states the totals, the classes, the settings, the inputs and the cautions', () => {
+    const byRisk = result.totals.stripsByRisk;
+    expect(byRisk).toEqual({ unsolved: 0, ponded: 4, waterlogged: 19, potential: 6, safe: 2 });
+    // 12444.5 m3/d, grouped with a thin space
+    expect(html).toContain('12\u2009445 m³/d');
+    expect(html).toContain('4\u2009545\u2009366 m³/yr');
+    expect(html).toContain('105.3 km');
+    expect(html).toContain('16.1 km');
+    for (const [kind, label] of [['ponded', 'ponded'], ['waterlogged', 'waterlogged'], ['potential', 'potentially waterlogged'], ['safe', 'safe']] as const) {
+      expect(html).toContain(`<th scope="row">${label}</th><td class="num">${byRisk[kind]}</td>`);
+    }
+    expect(html).toContain('<th scope="row">stepM</th><td>100</td>');
+    expect(html).toContain('<th scope="row">risk.waterloggedDepthM</th><td>2</td>');
+    expect(html).toContain(meta.inputs[0].sha256);
+    expect(html).toContain('&#39;out dir&#39;');
+    expect(html).toMatch(/Screening estimate, not a design/);
+    expect(html).toMatch(/Dupuit-Forchheimer: flow is horizontal/);
+    expect(html).toMatch(/Confirm every finding in the field/);
+    expect(html).toMatch(/defer to local codes/);
+  });
+
+  it('marks each run of stations with neither side paired', () => {
+    const { stations, facings } = result;
+    let runs = 0;
+    for (let s = 0; s < stations.count; s++) {
+      const unpaired = (k: number) => facings.reason[2 * k] !== FACING_PAIRED && facings.reason[2 * k + 1] !== FACING_PAIRED;
+      const continues = s > 0 && unpaired(s - 1) && stations.line[s - 1] === stations.line[s] && stations.part[s - 1] === stations.part[s];
+      if (unpaired(s) && !continues) runs++;
+    }
+    expect(runs).toBeGreaterThan(0);
+    const overlay = html.match(/<path class="map-unpaired" stroke-width="[\d.]+" d="([^"]*)"/);
+    expect(overlay).not.toBeNull();
+    expect(count(overlay![1], /M/g)).toBe(runs);
+  });
+
+  it('draws drains dashed and canals solid, wider where they lose more per km', () => {
+    expect(count(html, /<path class="map-drain"/g)).toBe(result.lines.filter((l) => l.kind === 'drain').length);
+    expect(count(html, /<path class="map-canal"/g)).toBe(result.lines.filter((l) => l.kind === 'canal').length);
+    const widths = [...html.matchAll(/<path class="map-canal" stroke-width="([\d.]+)"[^>]*><title>([^<]*)<\/title>/g)].map((m) => ({
+      width: Number(m[1]),
+      perKm: Number(/([-\d.]+) m³\/d per km paired/.exec(m[2])?.[1] ?? 0),
+    }));
+    const sorted = [...widths].sort((a, b) => a.perKm - b.perKm);
+    for (let i = 1; i < sorted.length; i++) expect(sorted[i].width).toBeGreaterThanOrEqual(sorted[i - 1].width);
+    expect(sorted[sorted.length - 1].width).toBe(4.5);
+  });
+
+  it('has a scale bar of a round length and a grid north arrow', () => {
+    const scale = html.match(/<g class="map-scale" aria-label="scale bar ([^"]+)">/);
+    expect(scale?.[1]).toMatch(/^(1|2|5)(0*) (m|km)$/);
+    expect(html).toMatch(/<g class="map-north"[^>]*>.*>grid north<\/text>/);
+  });
+
+  it('keeps the drawing coarse enough to stay small: one decimal of a pixel', () => {
+    const paths = [...html.matchAll(/ d="([^"]*)"/g)].map((m) => m[1]).join(' ');
+    expect(paths).not.toMatch(/\d\.\d\d/);
+    expect(Buffer.byteLength(html)).toBeLessThan(200_000);
+  });
+
+  it('gives the same bytes for the same result', () => {
+    expect(renderReport(result, meta)).toBe(html);
+  });
+});
+
+describe('renderReport on hostile text', () => {
+  let html: string;
+  let result: ScreenResult;
+  beforeAll(async () => {
+    const copy = hostileDemoCopy();
+    const screened = await screenFiles(copy.canals, copy.aquifer);
+    result = screened.result;
+    html = renderReport(result, { ...screened.meta, commandLine: ['doab', 'screen', '--canals', `"><script>alert(2)</script>`] });
+  });
+
+  it('shows a line named <script> as text', () => {
+    expect(result.lines.some((line) => line.name === HOSTILE_NAME)).toBe(true);
+    expect(html).not.toMatch(/<script>alert/);
+    expect(html).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+    expect(html).toContain('&lt;script&gt;alert(2)&lt;/script&gt;');
+    expect(count(html, /<script\b/g)).toBe(1);
+  });
+
+  it('escapes an id with & " \' < > everywhere, attributes included', () => {
+    const escaped = 'C-01&amp;&quot;&#39;&lt;&gt;';
+    const strips = result.strips.filter((s) => s.canalA === HOSTILE_ID || s.canalB === HOSTILE_ID);
+    expect(strips.length).toBeGreaterThan(0);
+    expect(html).not.toContain(HOSTILE_ID);
+    expect(html).toContain(`data-strip-id="${escapeHtml(strips[0].stripId)}"`);
+    expect(html).toContain(`<td>${escaped}<td>`);
+    // every attribute still parses: quotes inside values never end one early
+    for (const m of html.matchAll(/<path class="strip-shape [^>]*>/g)) expect(m[0]).toMatch(/^<path class="[^"]*" data-strip-id="[^"]*" d="[^"]*"\/>$/);
+  });
+});
+
+describe('escapeHtml', () => {
+  it('escapes the five characters that matter in text and in quoted attributes', () => {
+    expect(escapeHtml(`a&b<c>d"e'f`)).toBe('a&amp;b&lt;c&gt;d&quot;e&#39;f');
+    expect(escapeHtml('&amp;')).toBe('&amp;amp;');
+    expect(escapeHtml(12.5)).toBe('12.5');
+    expect(escapeHtml(null)).toBe('null');
+  });
+});
