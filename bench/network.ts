@@ -3,7 +3,7 @@
 import type { LineGeometry } from '../src/geometry/index.js';
 
 /** Small seeded generator (mulberry32) so a network is the same on every run. */
-function random(seed: number): () => number {
+export function seededRandom(seed: number): () => number {
   let a = seed >>> 0;
   return () => {
     a = (a + 0x6d2b79f5) >>> 0;
@@ -16,7 +16,7 @@ function random(seed: number): () => number {
 
 /** `count` lines: about 9 in 10 run east-west in rows, the rest cross them at an angle. */
 export function syntheticNetwork(count: number, seed = 1): LineGeometry[] {
-  const rnd = random(seed);
+  const rnd = seededRandom(seed);
   const crossCount = Math.floor(count / 10);
   const parallelCount = count - crossCount;
   const cols = Math.max(1, Math.round(Math.sqrt(parallelCount / 4)));

@@ -3,12 +3,11 @@
 // code, the messages (file, feature, id, field), that nothing is written to --out and that the
 // inputs are left as they were.
 import { spawn } from 'node:child_process';
-import { createHash } from 'node:crypto';
-import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { freshDir, ROOT, type CliRun } from './run-cli.js';
+import { freshDir, hashTree, ROOT, type CliRun } from './run-cli.js';
 
 const BAD = join(ROOT, 'test/fixtures/bad');
 const ENTRY = join(ROOT, 'src/cli/entry.ts');
@@ -81,23 +80,13 @@ function patternOf(bad: BadCase, pattern: string): RegExp {
   return new RegExp(text, 'm');
 }
 
-/** SHA-256 of every file in the case folder, to show that doab never writes to its inputs. */
-function hashes(dir: string): Record<string, string> {
-  const found: Record<string, string> = {};
-  const walk = (path: string) => {
-    if (statSync(path).isDirectory()) for (const name of readdirSync(path)) walk(join(path, name));
-    else found[relative(dir, path)] = createHash('sha256').update(readFileSync(path)).digest('hex');
-  };
-  walk(dir);
-  return found;
-}
 
 function filesIn(dir: string): string[] {
   return existsSync(dir) ? readdirSync(dir, { recursive: true }).map(String) : [];
 }
 
 const cases = loadCases();
-const before = new Map(cases.map((bad) => [bad.name, hashes(join(ROOT, bad.dir))]));
+const before = new Map(cases.map((bad) => [bad.name, hashTree(join(ROOT, bad.dir))]));
 
 // each CLI run starts a Node process with tsx; a few at a time keep the whole corpus to a minute or less
 const limit = Math.max(2, Math.min(6, availableParallelism()));
@@ -141,7 +130,7 @@ function checkCase(bad: BadCase, run: CliRun): void {
   }
   // a failed run leaves no output, partial or whole
   expect(filesIn(bad.out), `${bad.name}: files left in --out`).toEqual([]);
-  expect(hashes(join(ROOT, bad.dir)), `${bad.name}: inputs changed`).toEqual(before.get(bad.name));
+  expect(hashTree(join(ROOT, bad.dir)), `${bad.name}: inputs changed`).toEqual(before.get(bad.name));
 }
 
 describe('the bad-input corpus', () => {

@@ -1,8 +1,9 @@
 // Runs the doab CLI as a child process, the way a user does, from the TypeScript sources.
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { mkdtempSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join, relative, resolve } from 'node:path';
 
 export const ROOT = resolve(import.meta.dirname, '../..');
 const ENTRY = join(ROOT, 'src/cli/entry.ts');
@@ -47,4 +48,15 @@ export function readCsv(path: string): Record<string, string>[] {
   };
   const header = split(lines[0]);
   return lines.slice(1).map((line) => Object.fromEntries(split(line).map((cell, i) => [header[i], cell])));
+}
+
+/** SHA-256 of every file under a folder, by relative path: to show that doab leaves its inputs alone. */
+export function hashTree(dir: string): Record<string, string> {
+  const found: Record<string, string> = {};
+  const walk = (path: string) => {
+    if (statSync(path).isDirectory()) for (const name of readdirSync(path)) walk(join(path, name));
+    else found[relative(dir, path)] = createHash('sha256').update(readFileSync(path)).digest('hex');
+  };
+  walk(dir);
+  return found;
 }

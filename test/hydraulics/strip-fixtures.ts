@@ -32,13 +32,4 @@ export function expectNear(got: number, want: number, tol: number, what: string)
 }
 
 /** Mulberry32, a small seeded generator, so random cases are the same on every run. */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { seededRandom } from '../../bench/network.js';

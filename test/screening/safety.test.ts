@@ -2,12 +2,12 @@
 // neutralised, attribute names cannot reach a prototype, only --out is written to, inputs are
 // never changed, and internal errors show no stack trace unless --debug asks for one.
 import { createHash } from 'node:crypto';
-import { mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
-import { join, relative } from 'node:path';
+import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
 import { main } from '../../src/cli/main.js';
 import { neutraliseCell } from '../../src/io/layers.js';
-import { freshDir, readCsv, readJson, ROOT, runCli } from '../cli/run-cli.js';
+import { freshDir, hashTree, readCsv, readJson, ROOT, runCli } from '../cli/run-cli.js';
 
 // lets one test make the screening stage fail as an internal bug would, and leaves it alone otherwise
 const fault = vi.hoisted(() => ({ on: false }));
@@ -28,16 +28,6 @@ const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');
 // formulas in a spreadsheet [published]
 const FORMULA_STARTS = ['=', '+', '-', '@', '\t', '\r'];
 
-/** SHA-256 of every file under a folder, by relative path. */
-function tree(dir: string): Record<string, string> {
-  const found: Record<string, string> = {};
-  const walk = (path: string) => {
-    if (statSync(path).isDirectory()) for (const name of readdirSync(path)) walk(join(path, name));
-    else found[relative(dir, path)] = createHash('sha256').update(readFileSync(path)).digest('hex');
-  };
-  walk(dir);
-  return found;
-}
 
 function capture() {
   let out = '', err = '';
@@ -81,7 +71,7 @@ describe('doab screen on lines whose ids look like formulas', () => {
     });
     writeFileSync(join(inputs, 'canals.geojson'), JSON.stringify({ type: 'FeatureCollection', features: lines }));
     writeFileSync(join(inputs, 'aquifer.geojson'), JSON.stringify({ type: 'FeatureCollection', features: zones }));
-    before = tree(dir);
+    before = hashTree(dir);
     run = runCli(['screen', '--canals', join(inputs, 'canals.geojson'), '--aquifer', join(inputs, 'aquifer.geojson'), '--out', out]);
     expect(run.status, run.stderr).toBe(0);
   });
@@ -108,9 +98,9 @@ describe('doab screen on lines whose ids look like formulas', () => {
   });
 
   it('writes only inside --out, every file complete, and leaves the inputs as they were', () => {
-    const after = tree(dir);
+    const after = hashTree(dir);
     const outputs = Object.keys(after).filter((path) => path.startsWith('out/'));
-    expect(outputs.sort()).toEqual(['out/canals.geojson', 'out/ranking.csv', 'out/run.json', 'out/strips.geojson']);
+    expect(outputs.sort()).toEqual(['out/canals.geojson', 'out/ranking.csv', 'out/report.html', 'out/run.json', 'out/strips.geojson']);
     const inputsAfter = Object.fromEntries(Object.entries(after).filter(([path]) => !path.startsWith('out/')));
     expect(inputsAfter).toEqual(before);
     expect(readJson(join(out, 'run.json')).inputs.canals.sha256).toBe(createHash('sha256').update(readFileSync(join(inputs, 'canals.geojson'))).digest('hex'));
