@@ -15,6 +15,9 @@ export interface StripSummary {
   canalB: string;
   /** Length along line a (m). */
   lengthM: number;
+  /** Chainage range on line a of a's stations, and on line b where a's transects land (m). */
+  chainageAM: [number, number];
+  chainageBM: [number, number];
   lengthBM: number;
   spacingMeanM: number;
   spacingMinM: number;
@@ -110,6 +113,8 @@ export function summariseStrip(
     canalA: lines[strip.lineA].id,
     canalB: lines[strip.lineB].id,
     lengthM: lengthA,
+    chainageAM: strip.chainageA,
+    chainageBM: strip.chainageB,
     lengthBM: lengthB,
     spacingMeanM: strip.spacingMeanM,
     spacingMinM: strip.spacingMinM,

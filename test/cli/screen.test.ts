@@ -88,6 +88,12 @@ describe('doab screen on two parallel canals', () => {
     expect(strip.spacing_m).toBeGreaterThan(400 * 0.999);
     expect(strip.spacing_m).toBeLessThan(400 * 1.001);
     expect(strip.risk).toBe('safe');
+    // the whole 2 km of both canals face each other
+    expect(strip.chainage_a_from_m).toBeCloseTo(0, 6);
+    expect(strip.chainage_a_to_m).toBeGreaterThan(2000 * 0.999);
+    expect(strip.chainage_a_to_m).toBeLessThan(2000 * 1.001);
+    expect(strip.chainage_b_from_m).toBeLessThan(100);
+    expect(strip.chainage_b_to_m).toBeGreaterThan(1900);
   });
 
   it('closes the mass balance on every transect', () => {
@@ -131,6 +137,17 @@ describe('doab screen on the demo district', () => {
     for (let i = 1; i < perKm.length; i++) expect(perKm[i]).toBeLessThanOrEqual(perKm[i - 1]);
     expect(new Set(layers.ranking.map((row) => row.risk)).size).toBeGreaterThanOrEqual(3);
     expect(layers.ranking.length).toBeGreaterThanOrEqual(8);
+  });
+
+  it('ranks by smallest depth with --rank-by risk, the same strips', () => {
+    const byRisk = screen(join(DEMO, 'canals.geojson'), join(DEMO, 'aquifer.geojson'), ['--rank-by', 'risk']);
+    expect(byRisk.run.status, byRisk.run.stderr).toBe(0);
+    const rows = readCsv(join(byRisk.out, 'ranking.csv'));
+    const depths = rows.map((row) => Number(row.min_depth_m));
+    for (let i = 1; i < depths.length; i++) expect(depths[i]).toBeGreaterThanOrEqual(depths[i - 1]);
+    expect(rows.map((row) => Number(row.rank))).toEqual(rows.map((_, i) => i + 1));
+    expect(rows.map((row) => row.strip_id).sort()).toEqual(layers.ranking.map((row) => row.strip_id).sort());
+    expect(rows[0].risk).toBe('ponded');
   });
 
   it('records inputs, settings and counts in run.json', () => {
