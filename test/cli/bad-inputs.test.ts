@@ -8,24 +8,10 @@ import { availableParallelism } from 'node:os';
 import { join, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { freshDir, hashTree, ROOT, type CliRun } from './run-cli.js';
+import type { Expectation } from '../fixtures/bad/expectation.js';
 
 const BAD = join(ROOT, 'test/fixtures/bad');
 const ENTRY = join(ROOT, 'src/cli/entry.ts');
-
-interface Expectation {
-  command: 'check' | 'screen';
-  canals?: string;
-  aquifer?: string;
-  config?: string;
-  args?: string[];
-  out?: boolean;
-  exit: number;
-  stdout?: string[];
-  stderr?: string[];
-  why: string;
-  knownBug?: string;
-  pending?: { stdout?: string[]; stderr?: string[]; report: string };
-}
 
 interface BadCase {
   name: string;
