@@ -1,6 +1,7 @@
 // A synthetic canal network in metres for the geometry bench and its partition test: rows of
 // roughly parallel wavy canals a few km long, digitised with jitter, and some cross canals.
 import type { LineGeometry } from '../src/geometry/index.js';
+import { chooseWorkCrs } from '../src/io/crs.js';
 
 /** Small seeded generator (mulberry32) so a network is the same on every run. */
 export function seededRandom(seed: number): () => number {
@@ -54,4 +55,46 @@ function reversePairs(pts: number[]): void {
     [pts[2 * i], pts[2 * j]] = [pts[2 * j], pts[2 * i]];
     [pts[2 * i + 1], pts[2 * j + 1]] = [pts[2 * j + 1], pts[2 * i + 1]];
   }
+}
+
+/**
+ * A synthetic district as GeoJSON features, as a user would give it: the network above in an
+ * invented plain of UTM zone 43N, every third line a drain a few metres lower (so strips lose and
+ * gain and the risk classes vary), and one aquifer zone 4 km beyond the lines.
+ */
+export function syntheticDistrict(count: number): { lineFeatures: object[]; zoneFeatures: object[]; crs: string } {
+  // an invented plain in UTM zone 43N; the network's metres are offsets from this corner
+  const CRS = 'EPSG:32643';
+  const ORIGIN_X = 300_000, ORIGIN_Y = 3_300_000;
+  const { crs } = chooseWorkCrs([74, 29, 76, 30], CRS);
+  const toLonLat = (x: number, y: number) => crs.inverse([ORIGIN_X + x, ORIGIN_Y + y]);
+
+  const network = syntheticNetwork(count, 1);
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  // the lines and the zone go through the validation stage as GeoJSON features, as a user's would
+  const lineFeatures = network.map((geometry, index) => {
+    const part = geometry.parts[0];
+    const positions: number[][] = [];
+    for (let i = 0; i < part.length; i += 2) {
+      positions.push(toLonLat(part[i], part[i + 1]));
+      minX = Math.min(minX, part[i]); maxX = Math.max(maxX, part[i]);
+      minY = Math.min(minY, part[i + 1]); maxY = Math.max(maxY, part[i + 1]);
+    }
+    // every third line a drain a few metres lower, so strips lose and gain and classes vary
+    const drain = index % 3 === 2;
+    const stageStartM = drain ? 173.5 + (index % 5) * 0.4 : 176.5 + (index % 7) * 0.35;
+    return {
+      type: 'Feature',
+      properties: { id: geometry.id, kind: drain ? 'drain' : 'canal', stage_start_m: stageStartM, stage_end_m: stageStartM - 0.6 },
+      geometry: { type: 'LineString', coordinates: positions },
+    };
+  });
+  const margin = 4000;
+  const ring = [
+    [minX - margin, minY - margin], [maxX + margin, minY - margin], [maxX + margin, maxY + margin], [minX - margin, maxY + margin], [minX - margin, minY - margin],
+  ].map(([x, y]) => toLonLat(x, y));
+  const zoneFeatures = [
+    { type: 'Feature', properties: { id: 'Z-1', k_m_d: 8, base_m: 150, ground_m: 180, recharge_mm_yr: 200 }, geometry: { type: 'Polygon', coordinates: [ring] } },
+  ];
+  return { lineFeatures, zoneFeatures, crs: CRS };
 }

@@ -3,52 +3,19 @@
 // checks them and runs the real screening pipeline, and prints the report's size and render time.
 import { writeFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
-import { chooseWorkCrs } from '../src/io/crs.js';
 import { renderDistrictMap } from '../src/report/map-svg.js';
 import { renderReport } from '../src/report/report.js';
 import { checkLines, checkZones } from '../src/screening/district-inputs.js';
 import { DEFAULT_RULES } from '../src/screening/input-rules.js';
 import { screenDistrict } from '../src/screening/screen.js';
 import { DEFAULT_SETTINGS, type ScreenSettings } from '../src/screening/settings.js';
-import { syntheticNetwork } from './network.js';
+import { syntheticDistrict } from './network.js';
 
 const count = Number(process.argv[2] ?? 5400);
 if (!Number.isInteger(count) || count < 2) throw new Error(`Unexpected lines value: ${process.argv[2]}.`);
 
-// an invented plain in UTM zone 43N; the network's metres are offsets from this corner
-const CRS = 'EPSG:32643';
-const ORIGIN_X = 300_000, ORIGIN_Y = 3_300_000;
-const { crs } = chooseWorkCrs([74, 29, 76, 30], CRS);
-const toLonLat = (x: number, y: number) => crs.inverse([ORIGIN_X + x, ORIGIN_Y + y]);
-
 const t0 = performance.now();
-const network = syntheticNetwork(count, 1);
-let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
-// the lines and the zone go through the validation stage as GeoJSON features, as a user's would
-const lineFeatures = network.map((geometry, index) => {
-  const part = geometry.parts[0];
-  const positions: number[][] = [];
-  for (let i = 0; i < part.length; i += 2) {
-    positions.push(toLonLat(part[i], part[i + 1]));
-    minX = Math.min(minX, part[i]); maxX = Math.max(maxX, part[i]);
-    minY = Math.min(minY, part[i + 1]); maxY = Math.max(maxY, part[i + 1]);
-  }
-  // every third line a drain a few metres lower, so strips lose and gain and classes vary
-  const drain = index % 3 === 2;
-  const stageStartM = drain ? 173.5 + (index % 5) * 0.4 : 176.5 + (index % 7) * 0.35;
-  return {
-    type: 'Feature',
-    properties: { id: geometry.id, kind: drain ? 'drain' : 'canal', stage_start_m: stageStartM, stage_end_m: stageStartM - 0.6 },
-    geometry: { type: 'LineString', coordinates: positions },
-  };
-});
-const margin = 4000;
-const ring = [
-  [minX - margin, minY - margin], [maxX + margin, minY - margin], [maxX + margin, maxY + margin], [minX - margin, maxY + margin], [minX - margin, minY - margin],
-].map(([x, y]) => toLonLat(x, y));
-const zoneFeatures = [
-  { type: 'Feature', properties: { id: 'Z-1', k_m_d: 8, base_m: 150, ground_m: 180, recharge_mm_yr: 200 }, geometry: { type: 'Polygon', coordinates: [ring] } },
-];
+const { lineFeatures, zoneFeatures, crs: CRS } = syntheticDistrict(count);
 const lineCheck = checkLines('bench lines', lineFeatures, DEFAULT_RULES);
 const zoneCheck = checkZones('bench zones', zoneFeatures, DEFAULT_RULES);
 const errors = [...lineCheck.problems, ...zoneCheck.problems].filter((p) => p.severity === 'error');

@@ -1,11 +1,12 @@
 // Writes a set of output files so that a failed run leaves none of them half-written: every file
 // goes to a temporary name in the output folder first, and all are renamed only when all are written.
-import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync, renameSync, rmSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 
 export interface OutputFile {
   name: string;
-  content: string;
+  /** The text, or its pieces in order: a layer of a large district is written piece by piece, never held whole. */
+  content: string | Iterable<string>;
 }
 
 export function writeAllOrNothing(outDir: string, files: OutputFile[]): string[] {
@@ -14,8 +15,14 @@ export function writeAllOrNothing(outDir: string, files: OutputFile[]): string[]
   try {
     for (const file of files) {
       const temporary = join(outDir, `.${file.name}.${process.pid}.tmp`);
-      writeFileSync(temporary, file.content, { flag: 'wx' });
+      const fd = openSync(temporary, 'wx');
       written.push(temporary);
+      try {
+        if (typeof file.content === 'string') writeSync(fd, file.content);
+        else for (const piece of file.content) writeSync(fd, piece);
+      } finally {
+        closeSync(fd);
+      }
     }
   } catch (error) {
     for (const temporary of written) rmSync(temporary, { force: true });

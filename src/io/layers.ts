@@ -46,10 +46,27 @@ export function ringToLonLat(crs: WorkCrs, ringM: Float64Array): [number, number
 /** A FeatureCollection (RFC 7946), or a GeoJSON text sequence (RFC 8142: each record led by RS, ended by LF). */
 export type LayerFormat = 'collection' | 'sequence';
 
-function featureCollection(features: object[], format: LayerFormat): string {
-  if (format === 'sequence') return features.map((f) => `\u001e${JSON.stringify(f)}\n`).join('');
-  if (features.length === 0) return '{"type":"FeatureCollection","features":[]}\n';
-  return `{"type":"FeatureCollection","features":[\n${features.map((f) => JSON.stringify(f)).join(',\n')}\n]}\n`;
+/** The layer's text in pieces of about a megabyte, one feature built at a time, so no layer is ever one string. */
+function* featureCollection(features: Iterable<object>, format: LayerFormat): Generator<string> {
+  let piece = format === 'sequence' ? '' : '{"type":"FeatureCollection","features":[';
+  let first = true;
+  for (const feature of features) {
+    piece += format === 'sequence' ? `\u001e${JSON.stringify(feature)}\n` : `${first ? '\n' : ',\n'}${JSON.stringify(feature)}`;
+    first = false;
+    if (piece.length > 1 << 20) {
+      yield piece;
+      piece = '';
+    }
+  }
+  if (format === 'collection') piece += first ? ']}\n' : '\n]}\n';
+  yield piece;
+}
+
+/** A whole layer as one string, for small layers and tests. */
+export function layerText(pieces: Iterable<string>): string {
+  let text = '';
+  for (const piece of pieces) text += piece;
+  return text;
 }
 
 export function stripProperties(strip: StripSummary): Record<string, unknown> {
@@ -79,7 +96,7 @@ export function stripProperties(strip: StripSummary): Record<string, unknown> {
   };
 }
 
-export function stripsLayer(result: ScreenResult, format: LayerFormat = 'collection'): string {
+export function stripsLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
   return featureCollection(
     result.strips.map((strip) => ({
       type: 'Feature',
@@ -96,7 +113,7 @@ function reasonsText(byReason: Record<string, number>): string {
     .join('; ');
 }
 
-export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): string {
+export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
   return featureCollection(
     result.lines.map((line, i) => {
       const summary = result.lineSummaries[i];
@@ -117,14 +134,18 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
   );
 }
 
-export function transectsLayer(result: ScreenResult, format: LayerFormat = 'collection'): string {
+export function transectsLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
+  return featureCollection(transectFeatures(result), format);
+}
+
+// one feature at a time: a district can have millions of transects
+function* transectFeatures(result: ScreenResult): Generator<object> {
   const { stations, facings, results, lines, crs } = result;
-  const features: object[] = [];
   for (let i = 0; i < facings.count; i++) {
     if (facings.partner[i] < 0) continue;
     const station = i >> 1;
     const status = results.status[i];
-    features.push({
+    yield {
       type: 'Feature',
       properties: {
         line: lines[stations.line[station]].id,
@@ -151,9 +172,8 @@ export function transectsLayer(result: ScreenResult, format: LayerFormat = 'coll
         type: 'LineString',
         coordinates: [toLonLat(crs, stations.x[station], stations.y[station]), toLonLat(crs, facings.endX[i], facings.endY[i])],
       },
-    });
+    };
   }
-  return featureCollection(features, format);
 }
 
 // OWASP, CSV Injection: a cell starting with =, +, -, @, tab or carriage return may run as a
