@@ -47,7 +47,7 @@ export function ringToLonLat(crs: WorkCrs, ringM: Float64Array): [number, number
 export type LayerFormat = 'collection' | 'sequence';
 
 /** The layer's text in pieces of about a megabyte, one feature built at a time, so no layer is ever one string. */
-function* featureCollection(features: Iterable<object>, format: LayerFormat): Generator<string> {
+export function* featureCollection(features: Iterable<object>, format: LayerFormat): Generator<string> {
   let piece = format === 'sequence' ? '' : '{"type":"FeatureCollection","features":[';
   let first = true;
   for (const feature of features) {
