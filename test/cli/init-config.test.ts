@@ -1,0 +1,72 @@
+// doab init-config: a starting config that matches the user's own attribute names, which check
+// and screen then accept, giving the same results as the same data under doab's names.
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { parseConfig } from '../../src/screening/config.js';
+import { freshDir, readJson, ROOT, runCli } from './run-cli.js';
+
+const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');
+
+/** The fixture with the attributes renamed as a district office might name them. */
+function renamedDistrict(dir: string): { canals: string; aquifer: string } {
+  const canals = readJson(join(PAIR, 'canals.geojson'));
+  for (const feature of canals.features) {
+    const p = feature.properties;
+    feature.properties = { CANAL_ID: p.id, TYPE: p.kind.toUpperCase(), WL: p.stage_m, NAME: p.name };
+  }
+  const aquifer = readJson(join(PAIR, 'aquifer.geojson'));
+  for (const feature of aquifer.features) {
+    const p = feature.properties;
+    feature.properties = { ZONE: p.id, KSAT: p.k_m_d, BOT: p.base_m, DEM: p.ground_m, RCH: p.recharge_mm_yr };
+  }
+  const paths = { canals: join(dir, 'canals.geojson'), aquifer: join(dir, 'aquifer.geojson') };
+  writeFileSync(paths.canals, JSON.stringify(canals));
+  writeFileSync(paths.aquifer, JSON.stringify(aquifer));
+  return paths;
+}
+
+describe('doab init-config', () => {
+  it('matches renamed attributes, and check and screen then accept the data', () => {
+    const dir = freshDir('init-config');
+    const { canals, aquifer } = renamedDistrict(dir);
+    const config = join(dir, 'doab.jsonc');
+    const made = runCli(['init-config', '--canals', canals, '--aquifer', aquifer, '--out', config]);
+    expect(made.status, made.stderr).toBe(0);
+    const text = readFileSync(config, 'utf8');
+    expect(text).toMatch(/^\/\/ doab config/);
+    // every attribute found is listed in a comment, with a sample value
+    for (const name of ['CANAL_ID', 'TYPE', 'WL', 'KSAT', 'BOT', 'DEM', 'RCH']) expect(text).toMatch(new RegExp(`//\\s+${name} \\(`));
+    const parsed = parseConfig(config, text);
+    expect(parsed.rules.fields.lines).toMatchObject({ id: 'CANAL_ID', kind: 'TYPE', stage: 'WL', name: 'NAME' });
+    expect(parsed.rules.fields.zones).toEqual({ id: 'ZONE', k: 'KSAT', base: 'BOT', ground: 'DEM', recharge: 'RCH' });
+    // no start and end stages in this file: said so, not guessed
+    expect(text).toMatch(/"stageStart": "stage_start_m", \/\/ .*NOT FOUND/);
+
+    // without the config the renamed file has no ids; with it, no problem at all
+    expect(runCli(['check', '--canals', canals, '--aquifer', aquifer]).status).toBe(1);
+    const checked = runCli(['check', '--canals', canals, '--aquifer', aquifer, '--config', config]);
+    expect(checked.status, checked.stdout).toBe(0);
+    expect(checked.stdout).toMatch(/0 errors, 0 warnings/);
+
+    const out = join(dir, 'out');
+    const screened = runCli(['screen', '--canals', canals, '--aquifer', aquifer, '--config', config, '--out', out, '--quiet']);
+    expect(screened.status, screened.stderr).toBe(0);
+    const reference = freshDir('init-config-ref');
+    expect(runCli(['screen', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', reference, '--quiet']).status).toBe(0);
+    expect(readFileSync(join(out, 'ranking.csv'), 'utf8')).toBe(readFileSync(join(reference, 'ranking.csv'), 'utf8'));
+  });
+
+  it('does not overwrite a file unless told to', () => {
+    const dir = freshDir('init-config-force');
+    const config = join(dir, 'doab.jsonc');
+    writeFileSync(config, '{}');
+    const args = ['init-config', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', config];
+    const refused = runCli(args);
+    expect(refused.status).toBe(1);
+    expect(refused.stderr).toMatch(/already exists.*--force/);
+    expect(readFileSync(config, 'utf8')).toBe('{}');
+    expect(runCli([...args, '--force']).status).toBe(0);
+    expect(existsSync(config) && readFileSync(config, 'utf8').startsWith('// doab config')).toBe(true);
+  });
+});
