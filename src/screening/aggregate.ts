@@ -53,12 +53,6 @@ export interface LineSummary {
   unpairedByReasonM: Record<string, number>;
 }
 
-export function facingOfPartner(facings: FacingTable, station: number, partner: number): number {
-  const left = 2 * station;
-  if (facings.partner[left] === partner && facings.reason[left] === FACING_PAIRED) return left;
-  return left + 1;
-}
-
 export function summariseStrip(
   strip: Strip,
   lines: LineRecord[],
@@ -68,7 +62,8 @@ export function summariseStrip(
   settings: ScreenSettings,
 ): StripSummary {
   const facingsA = Uint32Array.from(strip.stationsA, (s) => 2 * s + strip.sideA);
-  const facingsB = Uint32Array.from(strip.stationsB, (s) => facingOfPartner(facings, s, strip.lineA));
+  // every b station in a strip faces a from the same side of b, the side a's transects meet
+  const facingsB = Uint32Array.from(strip.stationsB, (s) => 2 * s + strip.sideB);
   let lengthA = 0, lengthB = 0, lossA = 0, lossB = 0, solvedLengthA = 0, solvedLengthB = 0;
   let peak = -Infinity, peakOffset = NaN, minDepth = Infinity, shallowAreaM2 = 0, ratioMin = Infinity;
   let flagBits = 0, unsolved = 0;
