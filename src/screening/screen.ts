@@ -1,6 +1,7 @@
 // The screening pipeline: validated inputs -> work CRS -> stations -> transects -> zones on each
 // transect -> solve -> strips and line totals -> ranking. Pure: it reads no file and writes none.
 import {
+  FACING_OUTSIDE_AQUIFER,
   FACING_REASON_NAMES,
   buildStrips,
   buildZoneIndex,
@@ -17,7 +18,8 @@ import { chooseWorkCrs, type WorkCrs } from '../io/crs.js';
 import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
 import { summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
-import { solveFacings, type FacingResults } from './solve-facings.js';
+import { NOT_PAIRED, solveFacings, type FacingResults } from './solve-facings.js';
+import { SOLVE_OK } from '../hydraulics/strip-solver.js';
 import { RISK_CLASSES, type RiskClass, type ScreenSettings } from './settings.js';
 
 export interface DistrictTotals {
@@ -97,6 +99,7 @@ export function screenDistrict(
     summariseStrip(strip, lines, stations, facings, results, settings),
   );
   rankStrips(strips, settings.rankBy);
+  warnings.push(...solveWarnings(facings, results));
   const lineSummaries = summariseLines(lines, lineLengthsM, stations, facings, results);
   onProgress('strips', 1, 1);
 
@@ -171,6 +174,21 @@ function districtTotals(summaries: LineSummary[], strips: StripSummary[]): Distr
     riskAreaHa: riskArea,
     stripsByRisk,
   };
+}
+
+/** What the solve stage left out or bridged, said once for the whole district. */
+function solveWarnings(facings: FacingTable, results: FacingResults): string[] {
+  const warnings: string[] = [];
+  let outside = 0, bridged = 0, bridgedMaxM = 0, unsolved = 0;
+  for (let i = 0; i < facings.count; i++) {
+    if (facings.reason[i] === FACING_OUTSIDE_AQUIFER) outside++;
+    if (results.uncoveredM[i] > 0) { bridged++; bridgedMaxM = Math.max(bridgedMaxM, results.uncoveredM[i]); }
+    if (results.status[i] !== SOLVE_OK && results.status[i] !== NOT_PAIRED) unsolved++;
+  }
+  if (outside > 0) warnings.push(`${outside} transect side${outside === 1 ? '' : 's'} leave the aquifer zones (a gap or the edge of the zones): their seepage is not computed`);
+  if (bridged > 0) warnings.push(`${bridged} transect side${bridged === 1 ? '' : 's'} cross small gaps between zones (up to ${bridgedMaxM.toFixed(1)} m), joined to the neighbouring zone`);
+  if (unsolved > 0) warnings.push(`${unsolved} paired transect side${unsolved === 1 ? '' : 's'} could not be solved (see the strips' unsolved flags): their seepage is not computed`);
+  return warnings;
 }
 
 function countReasons(facings: FacingTable): Record<string, number> {

@@ -18,8 +18,13 @@ export const FLAG_NARROW = 1;
 export const FLAG_UNEVEN_BASE = 2;
 export const FLAG_ZONE_OVERLAP = 4;
 
-/** The transect may leave the aquifer by this much (m) before it counts as outside: rounding at shared edges. */
-const UNCOVERED_TOLERANCE_M = 0.5;
+/**
+ * A transect may cross this much land outside every zone (m; the larger of the two) and still be
+ * solved, the gap joining its neighbour zone: digitising gaps and slivers between zones that
+ * share an edge, which no user means as a hole in the aquifer.
+ */
+const UNCOVERED_TOLERANCE_M = 2;
+const UNCOVERED_TOLERANCE_FRACTION = 0.01;
 
 export interface FacingResults {
   /** 0 = solved (SOLVE_OK); otherwise a solver status; 255 = not paired (see the facing's reason). */
@@ -41,6 +46,8 @@ export interface FacingResults {
   /** Length of the transect where the water table is shallower than the waterlogging depth (m). */
   shallowM: Float64Array;
   dupuitRatio: Float64Array;
+  /** Length of the transect outside every zone that was joined to a neighbour zone (m). */
+  uncoveredM: Float64Array;
 }
 
 export const NOT_PAIRED = 255;
@@ -70,6 +77,7 @@ export function solveFacings(
     minDepthM: new Float64Array(n).fill(NaN),
     shallowM: new Float64Array(n).fill(NaN),
     dupuitRatio: new Float64Array(n).fill(NaN),
+    uncoveredM: new Float64Array(n),
   };
   const solver = new TransectSolver(64);
   onProgress(0);
@@ -79,7 +87,7 @@ export function solveFacings(
     if (facings.reason[i] !== FACING_PAIRED) continue;
     const station = i >> 1;
     const cut = cutTransect(zoneIndex, stations.x[station], stations.y[station], facings.endX[i], facings.endY[i]);
-    if (cut.uncoveredM > UNCOVERED_TOLERANCE_M || cut.count === 0) {
+    if (cut.count === 0 || cut.uncoveredM > Math.max(UNCOVERED_TOLERANCE_M, UNCOVERED_TOLERANCE_FRACTION * facings.gapM[i])) {
       facings.reason[i] = FACING_OUTSIDE_AQUIFER;
       continue;
     }
@@ -124,6 +132,7 @@ export function solveFacings(
     results.stageBM[i] = stageBM;
     results.baseM[i] = baseM;
     if (cut.overlapM > UNCOVERED_TOLERANCE_M) results.flags[i] |= FLAG_ZONE_OVERLAP;
+    if (cut.uncoveredM > 0) results.uncoveredM[i] = cut.uncoveredM;
     const status = solver.solve(stageAM, stageBM, baseM, pieces);
     results.status[i] = status;
     if (status !== SOLVE_OK) continue;

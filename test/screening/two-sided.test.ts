@@ -1,29 +1,19 @@
 // A line that faces the same partner on both of its sides: a drain inside a U-shaped canal. Each
 // strip must take the drain's transects from its own side, and the drain's loss must add up.
 import { describe, expect, it } from 'vitest';
-import { chooseWorkCrs } from '../../src/io/crs.js';
-import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
-import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
-import { screenDistrict } from '../../src/screening/screen.js';
-import { DEFAULT_SETTINGS } from '../../src/screening/settings.js';
-
-const { crs } = chooseWorkCrs([30.4, 29.4, 30.6, 29.6], 'EPSG:32636');
-const E0 = 300_000, N0 = 3_265_000;
-const lonLat = (points: number[][]) => points.map(([x, y]) => crs.inverse([E0 + x, N0 + y]));
+import { box, line, screenLocal } from './local-district.js';
 
 const K = 10, BASE = 90, CANAL = 105, DRAIN = 101;
 
 function district() {
-  const lines = checkLines('u.geojson', [
-    // the U: a leg 500 m north of the drain, round the east end, back along a leg 800 m south
-    { type: 'Feature', properties: { id: 'A', kind: 'canal', stage_m: CANAL }, geometry: { type: 'LineString', coordinates: lonLat([[0, 500], [4000, 500], [4600, -150], [4000, -800], [0, -800]]) } },
-    { type: 'Feature', properties: { id: 'D', kind: 'drain', stage_m: DRAIN }, geometry: { type: 'LineString', coordinates: lonLat([[0, 0], [3500, 0]]) } },
-  ], DEFAULT_RULES);
-  const zones = checkZones('z.geojson', [
-    { type: 'Feature', properties: { id: 'Z', k_m_d: K, base_m: BASE, ground_m: 108 }, geometry: { type: 'Polygon', coordinates: [lonLat([[-5000, -5000], [10000, -5000], [10000, 5000], [-5000, 5000], [-5000, -5000]])] } },
-  ], DEFAULT_RULES);
-  expect([...lines.problems, ...zones.problems]).toEqual([]);
-  return screenDistrict(lines.records, zones.records, { ...DEFAULT_SETTINGS, crs: 'EPSG:32636' });
+  return screenLocal(
+    [
+      // the U: a leg 500 m north of the drain, round the east end, back along a leg 800 m south
+      line('A', { kind: 'canal', stage_m: CANAL }, [[0, 500], [4000, 500], [4600, -150], [4000, -800], [0, -800]]),
+      line('D', { kind: 'drain', stage_m: DRAIN }, [[0, 0], [3500, 0]]),
+    ],
+    [box('Z', { k_m_d: K, base_m: BASE, ground_m: 108 }, [-5000, -5000, 10000, 5000])],
+  );
 }
 
 describe('a line facing one partner on both sides', () => {
