@@ -78,7 +78,7 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     throw error;
   }
   for (const warning of result.warnings) log(`warning: ${warning}`);
-  log(`solved ${result.counts.facingsByReason.paired} paired transect sides into ${result.counts.strips} strips`);
+  log(`solved ${result.counts.solvedFacings} of ${result.counts.facingsByReason.paired} paired transect sides; ${result.counts.strips} strips`);
 
   const format: LayerFormat = options.seq ? 'sequence' : 'collection';
   const extension = options.seq ? 'geojsons' : 'geojson';

@@ -5,7 +5,7 @@ import { stringify } from 'csv-stringify/sync';
 import { FACING_REASON_NAMES } from '../geometry/index.js';
 import { SOLVE_STATUS_NAMES } from '../hydraulics/strip-solver.js';
 import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
-import type { StripSummary } from '../screening/aggregate.js';
+import { lossPerKm, type StripSummary } from '../screening/aggregate.js';
 import { NOT_PAIRED } from '../screening/solve-facings.js';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from './crs.js';
@@ -107,9 +107,14 @@ export function stripsLayer(result: ScreenResult, format: LayerFormat = 'collect
   );
 }
 
-function reasonsText(byReason: Record<string, number>): string {
-  return FACING_REASON_NAMES.filter((name) => byReason[name] > 0)
-    .map((name) => `${name} ${roundNumber(byReason[name])} m`)
+/** "left: no-partner 1200 m; right: not-parallel 300 m, outside-aquifer 100 m" */
+function reasonsText(bySide: [Record<string, number>, Record<string, number>]): string {
+  return (['left', 'right'] as const)
+    .map((side, i) => {
+      const reasons = FACING_REASON_NAMES.filter((name) => bySide[i][name] > 0).map((name) => `${name} ${roundNumber(bySide[i][name])} m`);
+      return reasons.length > 0 ? `${side}: ${reasons.join(', ')}` : '';
+    })
+    .filter((text) => text !== '')
     .join('; ');
 }
 
@@ -122,10 +127,11 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
       for (const key of Object.keys(line.properties)) properties[key] = line.properties[key];
       properties.length_m = roundNumber(summary.lengthM);
       properties.loss_m3_d = roundNumber(summary.lossM3PerDay);
-      properties.loss_m3_d_km = summary.pairedM > 0 ? roundNumber(summary.lossM3PerDay / (summary.pairedM / 1000)) : null;
+      properties.loss_m3_d_km = roundNumber(lossPerKm(summary));
       properties.paired_m = roundNumber(summary.pairedM);
       properties.unpaired_m = roundNumber(summary.unpairedM);
-      properties.unpaired_reasons = reasonsText(summary.unpairedByReasonM);
+      properties.solved_sides_m = roundNumber(summary.solvedSidesM);
+      properties.unpaired_reasons = reasonsText(summary.unpairedBySideM);
       const parts = line.partsLonLat.map((part) => part.map(([lon, lat]) => [roundDegrees(lon), roundDegrees(lat)]));
       const geometry = parts.length === 1 ? { type: 'LineString', coordinates: parts[0] } : { type: 'MultiLineString', coordinates: parts };
       return { type: 'Feature', properties, geometry };

@@ -62,6 +62,7 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
       zones: counts.zones,
       stations: counts.stations,
       transect_sides: counts.facingsByReason,
+      transect_sides_solved: counts.solvedFacings,
       strips: counts.strips,
       strips_by_risk: totals.stripsByRisk,
     },
@@ -70,8 +71,11 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
       loss_m3_yr: roundNumber(totals.lossM3PerYear),
       gain_m3_d: roundNumber(totals.gainM3PerDay),
       net_m3_d: roundNumber(totals.netM3PerDay),
+      strip_loss_m3_d: roundNumber(totals.stripLossM3PerDay),
       paired_m: roundNumber(totals.pairedM),
       unpaired_m: roundNumber(totals.unpairedM),
+      solved_sides_m: roundNumber(totals.solvedSidesM),
+      sides_m: roundNumber(totals.sidesM),
       risk_area_ha: roundNumber(totals.riskAreaHa),
     },
     outputs: meta.outputs,
@@ -93,12 +97,16 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
   lines.push(
-    `Seepage loss from losing lines: ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr); ` +
-      `gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d`,
+    `Seepage loss from losing lines: ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), net of what they take in on other sides; ` +
+      `gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d; the strips' losses add to ${formatFixed(totals.stripLossM3PerDay, 0)} m3/d`,
   );
   lines.push(
     `Paired ${formatFixed(totals.pairedM / 1000, 1)} km, unpaired ${formatFixed(totals.unpairedM / 1000, 1)} km; ` +
       `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatFixed(totals.riskAreaHa, 1)} ha`,
+  );
+  lines.push(
+    `Line sides solved: ${formatFixed(totals.solvedSidesM / 1000, 1)} km of ${formatFixed(totals.sidesM / 1000, 1)} km; ` +
+      'unpaired and unsolved sides are not counted, so these losses are a lower bound',
   );
   const byRisk = totals.stripsByRisk;
   lines.push(`Strips by risk: ponded ${byRisk.ponded}, waterlogged ${byRisk.waterlogged}, potential ${byRisk.potential}, safe ${byRisk.safe}, unsolved ${byRisk.unsolved}`);

@@ -8,6 +8,7 @@ import { escapeHtml } from './escape.js';
 import { formatFixed, formatGrouped, roundDown125 } from './format.js';
 import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES, patternId, stripPatternDefs, type StripClass } from './palette.js';
 import { fitView, pathData, type MapView } from './svg-path.js';
+import { lossPerKm } from '../screening/aggregate.js';
 
 export interface MapOptions {
   /** Drawing width in SVG units (about CSS pixels at 100% zoom); default 1000. */
@@ -49,8 +50,8 @@ function lineWidths(result: ScreenResult, view: MapView): LineWidths {
 
 /** Loss per km of paired length (m^3/d/km), as in canals.geojson; null without paired length. */
 export function lineLossPerKm(result: ScreenResult, line: number): number | null {
-  const summary = result.lineSummaries[line];
-  return summary.pairedM > 0 ? summary.lossM3PerDay / (summary.pairedM / 1000) : null;
+  const perKm = lossPerKm(result.lineSummaries[line]);
+  return Number.isFinite(perKm) ? perKm : null;
 }
 
 /** The loss per km drawn at the widest: the 95th percentile of the losing lines, so one short outlier does not make every other line hairline-thin. */

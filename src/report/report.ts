@@ -42,6 +42,8 @@ export const ASSUMPTIONS: readonly string[] = [
   'Lines fully penetrate the aquifer and meet it without entry resistance (no lining, no clogged bed); real losses through a silted bed can be much smaller.',
   'Zones are taken in series across each transect, each with one hydraulic conductivity, recharge and ground level.',
   'All elevations (stages, base, ground) are in one vertical datum.',
+  'Only paired, solved line sides are counted: a side with no partner, outside the aquifer or unsolved adds nothing, so the losses are a lower bound.',
+  'Where the water table reaches the ground, water that would seep out at the surface is not modelled: losses on such strips (ponded) are not reliable.',
 ];
 
 
@@ -64,6 +66,10 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
     totalCard(`${formatGrouped(totals.netM3PerDay)} m³/d`, 'net seepage of all lines, loss less gain'),
     totalCard(`${formatFixed(totals.pairedM / 1000, 1)} km`, 'line length with at least one side paired'),
     totalCard(`${formatFixed(totals.unpairedM / 1000, 1)} km`, 'line length with neither side paired'),
+    totalCard(
+      `${formatFixed(totals.solvedSidesM / 1000, 1)} of ${formatFixed(totals.sidesM / 1000, 1)} km`,
+      'line sides solved (each line has two); the rest add no loss',
+    ),
     totalCard(
       `${formatGrouped(totals.riskAreaHa, 1)} ha`,
       `area where the water table is less than ${escapeHtml(settings.risk.waterloggedDepthM)} m below ground`,

@@ -45,12 +45,15 @@ export interface StripSummary {
 
 export interface LineSummary {
   lengthM: number;
+  /** Net seepage of the line's solved sides (m^3/d); NaN when no side could be solved. */
   lossM3PerDay: number;
   /** Length where at least one side is paired with a partner (m). */
   pairedM: number;
   unpairedM: number;
-  /** Unpaired length of each side, summed by reason (m). */
-  unpairedByReasonM: Record<string, number>;
+  /** Length of line sides whose transect was solved, both sides counted (m). */
+  solvedSidesM: number;
+  /** Unpaired length of the left and of the right side, by reason (m). */
+  unpairedBySideM: [Record<string, number>, Record<string, number>];
 }
 
 export function summariseStrip(
@@ -100,7 +103,10 @@ export function summariseStrip(
   if (facingsB.length === 0) flags.push('one-sided');
   if (unsolved > 0) flags.push(`unsolved-${unsolved}:${[...unsolvedReasons].sort().join('+')}`);
   const solvedAny = solvedLengthA + solvedLengthB > 0;
-  const lossM3PerDay = Math.max(lossA, 0) + Math.max(lossB, 0);
+  // a side with no solved transect has no loss to report: null, never a zero that reads as "none"
+  if (solvedLengthA === 0) lossA = NaN;
+  if (solvedLengthB === 0) lossB = NaN;
+  const lossM3PerDay = solvedAny ? (lossA > 0 ? lossA : 0) + (lossB > 0 ? lossB : 0) : NaN;
   return {
     stripId: strip.id,
     lineA: strip.lineA,
@@ -145,7 +151,8 @@ export function summariseLines(
     lossM3PerDay: 0,
     pairedM: 0,
     unpairedM: 0,
-    unpairedByReasonM: Object.create(null) as Record<string, number>,
+    solvedSidesM: 0,
+    unpairedBySideM: [Object.create(null), Object.create(null)] as [Record<string, number>, Record<string, number>],
   }));
   for (let s = 0; s < stations.count; s++) {
     const summary = summaries[stations.line[s]];
@@ -155,14 +162,25 @@ export function summariseLines(
       const facing = 2 * s + side;
       if (facings.reason[facing] === FACING_PAIRED) {
         paired = true;
-        if (results.status[facing] === SOLVE_OK) summary.lossM3PerDay += results.seepageM2PerDay[facing] * length;
+        if (results.status[facing] === SOLVE_OK) {
+          summary.lossM3PerDay += results.seepageM2PerDay[facing] * length;
+          summary.solvedSidesM += length;
+        }
       } else {
         const reason = FACING_REASON_NAMES[facings.reason[facing]];
-        summary.unpairedByReasonM[reason] = (summary.unpairedByReasonM[reason] ?? 0) + length;
+        const bySide = summary.unpairedBySideM[side];
+        bySide[reason] = (bySide[reason] ?? 0) + length;
       }
     }
     if (paired) summary.pairedM += length;
     else summary.unpairedM += length;
   }
+  // a line with no solved side has an unknown loss, not none
+  for (const summary of summaries) if (summary.solvedSidesM === 0) summary.lossM3PerDay = NaN;
   return summaries;
+}
+
+/** A line's loss per km of paired length (m^3/d/km), as canals.geojson gives it; NaN without a solved side. */
+export function lossPerKm(summary: LineSummary): number {
+  return summary.pairedM > 0 && Number.isFinite(summary.lossM3PerDay) ? summary.lossM3PerDay / (summary.pairedM / 1000) : NaN;
 }

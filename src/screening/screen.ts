@@ -32,6 +32,11 @@ export interface DistrictTotals {
   netM3PerDay: number;
   pairedM: number;
   unpairedM: number;
+  /** Length of line sides solved, and of all line sides (twice the line length), m. */
+  solvedSidesM: number;
+  sidesM: number;
+  /** Sum over strips of the positive losses of both lines (ranking.csv's loss_m3_d), m^3/d. */
+  stripLossM3PerDay: number;
   riskAreaHa: number;
   stripsByRisk: Record<RiskClass | 'unsolved', number>;
 }
@@ -41,6 +46,8 @@ export interface ScreenCounts {
   zones: number;
   stations: number;
   facingsByReason: Record<string, number>;
+  /** Paired transect sides whose strip solution holds. */
+  solvedFacings: number;
   strips: number;
 }
 
@@ -122,6 +129,7 @@ export function screenDistrict(
       zones: zones.length,
       stations: stations.count,
       facingsByReason: countReasons(facings),
+      solvedFacings: results.status.reduce((count, status) => count + (status === SOLVE_OK ? 1 : 0), 0),
       strips: strips.length,
     },
   };
@@ -151,17 +159,21 @@ function descendingNaNLast(a: number, b: number): number {
 }
 
 function districtTotals(summaries: LineSummary[], strips: StripSummary[]): DistrictTotals {
-  let loss = 0, gain = 0, paired = 0, unpaired = 0, riskArea = 0;
+  let loss = 0, gain = 0, paired = 0, unpaired = 0, riskArea = 0, solvedSides = 0, sides = 0, stripLoss = 0;
   for (const summary of summaries) {
+    // a line with no solved side has no loss to add (NaN): neither loss nor gain
     if (summary.lossM3PerDay > 0) loss += summary.lossM3PerDay;
-    else gain -= summary.lossM3PerDay;
+    else if (summary.lossM3PerDay < 0) gain -= summary.lossM3PerDay;
     paired += summary.pairedM;
     unpaired += summary.unpairedM;
+    solvedSides += summary.solvedSidesM;
+    sides += 2 * summary.lengthM;
   }
   const stripsByRisk = { unsolved: 0 } as Record<RiskClass | 'unsolved', number>;
   for (const risk of RISK_CLASSES) stripsByRisk[risk] = 0;
   for (const strip of strips) {
     riskArea += strip.riskAreaHa;
+    if (strip.lossM3PerDay > 0) stripLoss += strip.lossM3PerDay;
     stripsByRisk[strip.risk ?? 'unsolved']++;
   }
   return {
@@ -171,6 +183,9 @@ function districtTotals(summaries: LineSummary[], strips: StripSummary[]): Distr
     netM3PerDay: loss - gain,
     pairedM: paired,
     unpairedM: unpaired,
+    solvedSidesM: solvedSides,
+    sidesM: sides,
+    stripLossM3PerDay: stripLoss,
     riskAreaHa: riskArea,
     stripsByRisk,
   };
