@@ -13,6 +13,8 @@ const LON_LAT_WGS84 = '+proj=longlat +datum=WGS84 +no_defs';
 const UTM_ZONE_WIDTH_DEG = 6;
 // UTM keeps its scale within 0.9996-1.0010 inside a zone; beyond 0.2% the CRS does not suit the data
 const SCALE_WARN = 0.002;
+// Beyond 1 % every spacing and loss is off by as much: a CRS for another part of the world
+const SCALE_REFUSE = 0.01;
 // WGS 84 defining semi-major axis and flattening, NIMA TR8350.2 (2000) [from memory]
 const WGS84_A_M = 6378137;
 const WGS84_F = 1 / 298.257223563;
@@ -51,6 +53,9 @@ function userProj4Crs(def: string, centre: [number, number]): WorkCrs {
   // proj4 happily parses strings it cannot use, so a trial transform is the real test
   if (/\+proj=(longlat|latlong|lonlat|latlon)\b/.test(def)) {
     throw new Error(`CRS "${def}" is geographic; doab needs a CRS in metres (${ACCEPTED}).`);
+  }
+  if (/\+proj=geocent\b/.test(def)) {
+    throw new Error(`CRS "${def}" is geocentric (X, Y, Z from the earth's centre), not a map projection; ${ACCEPTED}.`);
   }
   const units = /\+units=(\S+)/.exec(def);
   if (units && units[1] !== 'm') throw new Error(`CRS "${def}" is not in metres (+units=${units[1]}); ${ACCEPTED}.`);
@@ -120,6 +125,12 @@ export function chooseWorkCrs(
     throw new Error(`Unsupported CRS "${userCrs}"; ${ACCEPTED}.`);
   }
   const scale = scaleAt(crs, centre);
+  if (!(Math.abs(scale - 1) <= SCALE_REFUSE)) {
+    throw new Error(
+      `CRS "${userCrs ?? crs.name}" has a scale of ${scale.toFixed(4)} at the data centre: every distance would be off by ${(Math.abs(scale - 1) * 100).toFixed(1)}%; ` +
+        `choose a CRS made for the data's area, or leave --crs out for the UTM zone of the data centre.`,
+    );
+  }
   if (Math.abs(scale - 1) > SCALE_WARN) {
     warnings.push(`${crs.name} has a scale of ${scale.toFixed(4)} at the data centre; distances are off by ${(Math.abs(scale - 1) * 100).toFixed(2)}%.`);
   }

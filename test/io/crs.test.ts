@@ -46,8 +46,16 @@ describe('chooseWorkCrs', () => {
   it('warns when the data span more than one zone width or the CRS distorts distances', () => {
     expect(chooseWorkCrs([20, 10, 30, 12]).warnings.some((w) => w.includes('more than one UTM zone'))).toBe(true);
     expect(chooseWorkCrs([20, 10, 25, 12]).warnings).toEqual([]);
-    // zone 30 centred on 3 W used at 30.5 E
-    expect(chooseWorkCrs([30.4, 29.4, 30.6, 29.6], 'EPSG:32630').warnings.some((w) => w.includes('scale'))).toBe(true);
+    // zone 35 (central meridian 27 E) used at 32.9 E, just past the zone's edge: a scale a little
+    // over 1.003, worth a warning, not a refusal
+    const warned = chooseWorkCrs([32.8, 29.4, 33.0, 29.6], 'EPSG:32635').warnings.find((w) => w.includes('scale'));
+    expect(warned).toMatch(/scale of 1\.00[2-9]/);
+  });
+
+  it('refuses a CRS that would put every distance off by more than 1 %', () => {
+    // zone 30 (central meridian 3 W) at 30.5 E: a scale of about 1.14
+    expect(() => chooseWorkCrs([30.4, 29.4, 30.6, 29.6], 'EPSG:32630')).toThrow(/scale of 1\.1\d+ .*off by 1\d\.\d%/);
+    expect(() => chooseWorkCrs([30.4, 29.4, 30.6, 29.6], '+proj=geocent +datum=WGS84 +units=m')).toThrow(/geocentric/);
   });
 
   it('rejects what it cannot use, naming the value and what is accepted', () => {
