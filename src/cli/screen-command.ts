@@ -1,5 +1,6 @@
 // `doab screen`: read and check, screen, write all outputs or none, print the summary.
 import { existsSync, statSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
 import { writeAllOrNothing, type OutputFile } from '../io/atomic-write.js';
 import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from '../io/layers.js';
 import { runRecord, summaryText, CAUTION } from '../io/run-record.js';
@@ -34,6 +35,15 @@ export interface CliIo {
   err: (text: string) => void;
 }
 
+/** Fails before any work when --out cannot become a folder: it, or the nearest existing path above it, is a file. */
+export function checkOutputFolder(out: string): void {
+  let path = resolve(out);
+  while (!existsSync(path) && dirname(path) !== path) path = dirname(path);
+  if (existsSync(path) && !statSync(path).isDirectory()) {
+    throw new UsageError(`--out ${out}: ${path === resolve(out) ? 'is a file' : `${path} is a file`}, not a folder: name a folder for the outputs`);
+  }
+}
+
 /** The config file (if any) with the command line's options over it. */
 export function runConfig(options: Partial<ScreenOptions>): RunConfig {
   const config = options.config ? parseConfig(options.config, readTextFile(options.config)) : defaultConfig();
@@ -53,9 +63,7 @@ export function runConfig(options: Partial<ScreenOptions>): RunConfig {
 
 export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
-  if (existsSync(options.out) && !statSync(options.out).isDirectory()) {
-    throw new UsageError(`--out ${options.out} is a file, not a folder: name a folder for the outputs`);
-  }
+  checkOutputFolder(options.out);
   const config = runConfig(options);
   const settings = config.settings;
   const district = await loadDistrict(options.canals, options.aquifer, config);

@@ -2,6 +2,7 @@
 // goes to a temporary name in the output folder first, and all are renamed only when all are written.
 import { closeSync, mkdirSync, openSync, renameSync, rmSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
+import { DataError } from './data-error.js';
 
 export interface OutputFile {
   name: string;
@@ -10,7 +11,13 @@ export interface OutputFile {
 }
 
 export function writeAllOrNothing(outDir: string, files: OutputFile[]): string[] {
-  mkdirSync(outDir, { recursive: true });
+  try {
+    mkdirSync(outDir, { recursive: true });
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    const why = code === 'ENOTDIR' || code === 'EEXIST' ? 'a file stands where a folder is needed' : code === 'EACCES' || code === 'EPERM' ? 'no permission' : String(code ?? error);
+    throw new DataError({ file: outDir }, `cannot create the output folder (${why})`);
+  }
   const written: string[] = [];
   try {
     for (const file of files) {
@@ -26,6 +33,8 @@ export function writeAllOrNothing(outDir: string, files: OutputFile[]): string[]
     }
   } catch (error) {
     for (const temporary of written) rmSync(temporary, { force: true });
+    const code = (error as NodeJS.ErrnoException).code;
+    if (typeof code === 'string') throw new DataError({ file: outDir }, `cannot write the outputs (${code}); nothing was written`);
     throw error;
   }
   return files.map((file, i) => {
