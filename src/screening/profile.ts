@@ -3,6 +3,7 @@
 import { cutTransect } from '../geometry/index.js';
 import { SOLVE_OK, TransectSolver } from '../hydraulics/strip-solver.js';
 import type { StripSummary } from './aggregate.js';
+import { loadCut } from './solve-facings.js';
 import type { ScreenResult } from './screen.js';
 
 export interface ProfileZone {
@@ -53,25 +54,15 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
   if (facing < 0 || results.status[facing] !== SOLVE_OK) return null;
   const station = facing >> 1;
   const cut = cutTransect(result.zoneIndex, stations.x[station], stations.y[station], facings.endX[facing], facings.endY[facing]);
-  const solver = new TransectSolver(Math.max(1, cut.count));
+  const solver = new TransectSolver(64);
+  const zoneOfPiece = new Int32Array(64);
+  const n = loadCut(solver, cut, zones, new Float64Array(3), zoneOfPiece);
   const pieces: ProfileZone[] = [];
-  let x = 0, n = 0;
-  for (let p = 0; p < cut.count; p++) {
-    const length = cut.lengthM[p];
-    if (cut.zone[p] < 0) {
-      // a sliver outside every zone joins its neighbour, as in the screening solve
-      if (n > 0) { solver.lengthM[n - 1] += length; pieces[n - 1].toM += length; }
-      x += length;
-      continue;
-    }
-    const zone = zones[cut.zone[p]];
-    solver.lengthM[n] = length + (n === 0 ? x : 0);
-    solver.kMPerDay[n] = zone.kMPerDay;
-    solver.rechargeMPerDay[n] = zone.rechargeMPerDay;
-    solver.groundM[n] = zone.groundM;
-    pieces.push({ id: zone.id, fromM: n === 0 ? 0 : x, toM: x + length, groundM: zone.groundM, kMPerDay: zone.kMPerDay });
-    x += length;
-    n++;
+  let x = 0;
+  for (let p = 0; p < n; p++) {
+    const zone = zones[zoneOfPiece[p]];
+    pieces.push({ id: zone.id, fromM: x, toM: x + solver.lengthM[p], groundM: zone.groundM, kMPerDay: zone.kMPerDay });
+    x += solver.lengthM[p];
   }
   const status = solver.solve(results.stageAM[facing], results.stageBM[facing], results.baseM[facing], n);
   if (status !== SOLVE_OK) return null;

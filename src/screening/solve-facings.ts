@@ -8,6 +8,7 @@ import {
   cutTransect,
   type FacingTable,
   type StationTable,
+  type TransectCut,
   type ZoneIndex,
 } from '../geometry/index.js';
 import { SOLVE_OK, TransectSolver } from '../hydraulics/strip-solver.js';
@@ -80,6 +81,7 @@ export function solveFacings(
     uncoveredM: new Float64Array(n),
   };
   const solver = new TransectSolver(64);
+  const loaded = new Float64Array(3);
   onProgress(0);
   for (let i = 0; i < n; i++) {
     // a report every 2^16 facings keeps a progress bar moving at no measurable cost
@@ -91,39 +93,12 @@ export function solveFacings(
       facings.reason[i] = FACING_OUTSIDE_AQUIFER;
       continue;
     }
-    let pieces = 0, carryM = 0, baseSum = 0, lengthSum = 0, baseLow = Infinity, baseHigh = -Infinity;
-    for (let p = 0; p < cut.count; p++) {
-      const zoneNumber = cut.zone[p];
-      // a sliver outside every zone (rounding at shared edges) joins its neighbour
-      if (zoneNumber < 0) {
-        if (pieces > 0) solver.lengthM[pieces - 1] += cut.lengthM[p];
-        else carryM += cut.lengthM[p];
-        continue;
-      }
-      const zone = zones[zoneNumber];
-      const length = cut.lengthM[p] + carryM;
-      carryM = 0;
-      if (pieces === solver.maxZones) {
-        // more zones than the solver holds is absurd for one transect: lump the tail, do not fail
-        solver.lengthM[pieces - 1] += length;
-      } else {
-        solver.lengthM[pieces] = length;
-        solver.kMPerDay[pieces] = zone.kMPerDay;
-        solver.rechargeMPerDay[pieces] = zone.rechargeMPerDay;
-        solver.groundM[pieces] = zone.groundM;
-        pieces++;
-      }
-      baseSum += zone.baseM * length;
-      lengthSum += length;
-      if (zone.baseM < baseLow) baseLow = zone.baseM;
-      if (zone.baseM > baseHigh) baseHigh = zone.baseM;
-    }
+    const pieces = loadCut(solver, cut, zones, loaded);
     if (pieces === 0) {
       facings.reason[i] = FACING_OUTSIDE_AQUIFER;
       continue;
     }
-    // The strip solution stands on one horizontal base: the length-weighted mean of the zones crossed.
-    const baseM = baseSum / lengthSum;
+    const baseM = loaded[LOADED_BASE];
     const ownLine = stations.line[station];
     const partner = facings.partner[i];
     const stageAM = stageAtChainage(lines[ownLine], stations.chainageM[station], lineLengthsM[ownLine]);
@@ -148,8 +123,53 @@ export function solveFacings(
     results.shallowM[i] = solver.shallowLengthM(settings.risk.waterloggedDepthM, settings.bankWidthM);
     results.dupuitRatio[i] = solver.dupuitRatio;
     if (solver.dupuitRatio < settings.dupuitRatioMin) results.flags[i] |= FLAG_NARROW;
-    if (baseHigh - baseLow > settings.baseSpreadFraction * solver.meanThicknessM) results.flags[i] |= FLAG_UNEVEN_BASE;
+    if (loaded[LOADED_BASE_HIGH] - loaded[LOADED_BASE_LOW] > settings.baseSpreadFraction * solver.meanThicknessM) results.flags[i] |= FLAG_UNEVEN_BASE;
   }
   onProgress(n);
   return results;
+}
+
+export const LOADED_BASE = 0;
+export const LOADED_BASE_LOW = 1;
+export const LOADED_BASE_HIGH = 2;
+
+/**
+ * Fills the solver's zones from a transect's cut, in order from its start, and returns how many
+ * it filled (0 when the cut crosses no zone). A sliver outside every zone (rounding or a small
+ * gap at shared edges) joins its neighbour. Writes into `loaded` the base the strip solution stands
+ * on, the length-weighted mean of the zones crossed, and the lowest and highest base; `zoneOfPiece`,
+ * when given, gets each filled piece's zone index. Allocates nothing.
+ */
+export function loadCut(solver: TransectSolver, cut: TransectCut, zones: ZoneRecord[], loaded: Float64Array, zoneOfPiece?: Int32Array): number {
+  let pieces = 0, carryM = 0, baseSum = 0, lengthSum = 0, baseLow = Infinity, baseHigh = -Infinity;
+  for (let p = 0; p < cut.count; p++) {
+    const zoneNumber = cut.zone[p];
+    if (zoneNumber < 0) {
+      if (pieces > 0) solver.lengthM[pieces - 1] += cut.lengthM[p];
+      else carryM += cut.lengthM[p];
+      continue;
+    }
+    const zone = zones[zoneNumber];
+    const length = cut.lengthM[p] + carryM;
+    carryM = 0;
+    if (pieces === solver.maxZones) {
+      // more zones than the solver holds is absurd for one transect: lump the tail, do not fail
+      solver.lengthM[pieces - 1] += length;
+    } else {
+      solver.lengthM[pieces] = length;
+      solver.kMPerDay[pieces] = zone.kMPerDay;
+      solver.rechargeMPerDay[pieces] = zone.rechargeMPerDay;
+      solver.groundM[pieces] = zone.groundM;
+      if (zoneOfPiece) zoneOfPiece[pieces] = zoneNumber;
+      pieces++;
+    }
+    baseSum += zone.baseM * length;
+    lengthSum += length;
+    if (zone.baseM < baseLow) baseLow = zone.baseM;
+    if (zone.baseM > baseHigh) baseHigh = zone.baseM;
+  }
+  loaded[LOADED_BASE] = baseSum / lengthSum;
+  loaded[LOADED_BASE_LOW] = baseLow;
+  loaded[LOADED_BASE_HIGH] = baseHigh;
+  return pieces;
 }
