@@ -26,10 +26,10 @@ const ALIASES: Record<string, string[]> = {
   'lines.stageStart': ['stagestartm', 'stagestart', 'wlstart', 'wlup', 'fslstart', 'levelstart'],
   'lines.stageEnd': ['stageendm', 'stageend', 'wlend', 'wldown', 'fslend', 'levelend'],
   'zones.id': ['id', 'zoneid', 'zone', 'code', 'fid'],
-  'zones.k': ['kmd', 'k', 'ksat', 'hk', 'conductivity', 'hydcond'],
+  'zones.k': ['kmd', 'k', 'ksat', 'conductivity', 'hydcond'],
   'zones.base': ['basem', 'base', 'bottom', 'bot', 'aquiferbase'],
   'zones.ground': ['groundm', 'ground', 'gl', 'dem', 'surface', 'elevation', 'elev'],
-  'zones.recharge': ['rechargemmyr', 'recharge', 'rch', 'netrecharge'],
+  'zones.recharge': ['rechargemmyr', 'recharge', 'netrecharge'],
 };
 
 interface AttributeSummary {

@@ -1,4 +1,5 @@
-// A plain-object front to TransectSolver, for one-off solves (tests, profiles, reports).
+// A plain-object front to TransectSolver for one-off solves, with a sentence for each failure:
+// for library use and tests.
 // The district pipeline uses TransectSolver directly so that its inner loop allocates nothing.
 import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver, type SolveStatusName } from './strip-solver.js';
 

@@ -154,7 +154,7 @@ export class TransectSolver {
   // Peak, divide, driest point, smallest depth and mean thickness, zone by zone.
   private scanProfile(zoneCount: number): number {
     const { lengthM, kMPerDay, rechargeMPerDay, groundM, uEdgeM2, xEdgeM } = this;
-    let peakU = -Infinity, peakX = 0, minU = Infinity;
+    let peakU = -Infinity, peakX = 0;
     let thicknessIntegral = 0;
     this.divideOffsetM = NaN;
     for (let j = 0; j < zoneCount; j++) {
@@ -173,7 +173,6 @@ export class TransectSolver {
           this.divideOffsetM = xEdgeM[j] + tStar;
         }
       }
-      if (zoneMinU < minU) minU = zoneMinU;
       if (zoneMinU <= 0) { this.failedZone = j; this.seepageAM2PerDay = this.seepageBM2PerDay = NaN; return SOLVE_AQUIFER_DRIES; }
       if (zoneMaxU > peakU) { peakU = zoneMaxU; peakX = xEdgeM[j] + zoneMaxT; }
       this.integrateThickness(j);
@@ -184,9 +183,8 @@ export class TransectSolver {
     this.meanThicknessM = thicknessIntegral / this.widthM;
     this.dupuitRatio = this.widthM / this.meanThicknessM;
     this.scanDepth(0);
-    if (minU > 0) return SOLVE_OK;
-    this.seepageAM2PerDay = this.seepageBM2PerDay = NaN;
-    return SOLVE_AQUIFER_DRIES;
+    // every zone's lowest u was checked above, so the aquifer holds water throughout
+    return SOLVE_OK;
   }
 
   /**

@@ -13,6 +13,8 @@ import type { WorkCrs } from './crs.js';
 /** Six significant digits: more than any input carries, few enough to keep files stable. */
 export function roundNumber(value: number): number | null {
   if (!Number.isFinite(value)) return null;
+  // rounding noise of sums that cancel (a net of 1e-10 m^3/d, an offset of -5e-11 m) is zero
+  if (Math.abs(value) < 1e-9) return 0;
   const rounded = Number(value.toPrecision(6));
   return Object.is(rounded, -0) ? 0 : rounded;
 }
@@ -163,8 +165,8 @@ function* transectFeatures(result: ScreenResult): Generator<object> {
         reason: FACING_REASON_NAMES[facings.reason[i]],
         solve: status === NOT_PAIRED ? 'not-solved' : SOLVE_STATUS_NAMES[status],
         gap_m: roundNumber(facings.gapM[i]),
-        stage_a_m: roundNumber(results.stageAM[i]),
-        stage_b_m: roundNumber(results.stageBM[i]),
+        stage_m: roundNumber(results.stageAM[i]),
+        partner_stage_m: roundNumber(results.stageBM[i]),
         base_m: roundNumber(results.baseM[i]),
         seepage_m2_d: roundNumber(results.seepageM2PerDay[i]),
         partner_seepage_m2_d: roundNumber(results.partnerSeepageM2PerDay[i]),

@@ -98,7 +98,7 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
 
 function cautionSection(): string {
   return (
-    `<section id="cautions" class="caution-box"><p><b>Screening estimate, not a design.</b> ${escapeHtml(CAUTION)}</p>` +
+    `<section id="cautions" class="caution-box"><p><b>Not a design.</b> ${escapeHtml(CAUTION)}</p>` +
     `<p>The numbers rest on these assumptions:</p><ul class="plain">${ASSUMPTIONS.map((a) => `<li>${escapeHtml(a)}</li>`).join('')}</ul>` +
     `<p>Confirm every finding in the field (piezometers, seepage measurements) before acting on it, and defer to local codes, ` +
     `regulations and licensed professional practice for any design, lining or drainage decision.</p></section>`

@@ -203,6 +203,8 @@ function checkAll<T>(
     try {
       view = viewFeature(feature, index, idField);
       if (view.id === undefined) throw new FeatureProblem(idField, `missing id: every feature needs a unique text id in "${idField}"`);
+      // strip ids join two line ids with "|": one inside an id would make them ambiguous
+      if (view.id.includes('|')) throw new FeatureProblem(idField, `id "${view.id}" contains "|", which doab uses to join ids in strip ids; use another character`);
       const earlier = seen.get(view.id);
       if (earlier !== undefined) throw new FeatureProblem(idField, `duplicate id "${view.id}" (also feature ${earlier})`);
       seen.set(view.id, index);
@@ -242,7 +244,7 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
   const cutWarnings: Problem[] = [];
   const f = resolveCutNames(file, features, rules.fields.lines, cutWarnings);
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
-  const checked = checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view) => {
+  const checked = checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view, warn) => {
     const kindValue = view.properties[f.kind];
     let kind: LineKind = rules.defaults.kind;
     if (kindValue !== undefined && kindValue !== null && kindValue !== '') {
@@ -258,6 +260,7 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
     if (given(f.stage)) {
       stageStartM = stageEndM = toM(numberField(view, f.stage));
       stageField = f.stage;
+      if (given(f.stageStart) || given(f.stageEnd)) warn(f.stage, `both "${f.stage}" and "${f.stageStart}"/"${f.stageEnd}" are given: the constant "${f.stage}" is used`);
     } else if (given(f.stageStart) || given(f.stageEnd)) {
       stageStartM = toM(numberField(view, f.stageStart));
       stageEndM = toM(numberField(view, f.stageEnd));
@@ -266,6 +269,10 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       throw new FeatureProblem(f.stage, `missing water level: give "${f.stage}", or "${f.stageStart}" and "${f.stageEnd}"`);
     }
     const name = view.properties[f.name];
+    const partsLonLat = lineParts(view);
+    if (partsLonLat.every((part) => part.every(([lon, lat]) => lon === part[0][0] && lat === part[0][1]))) {
+      warn('geometry', 'the line has no length (all its positions are the same point): it gets no stations');
+    }
     return {
       index: view.index,
       id: view.id as string,
@@ -274,7 +281,7 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       stageStartM,
       stageEndM,
       stageField,
-      partsLonLat: lineParts(view),
+      partsLonLat,
       properties: view.properties,
     };
   });

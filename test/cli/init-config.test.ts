@@ -18,7 +18,7 @@ function renamedDistrict(dir: string): { canals: string; aquifer: string } {
   const aquifer = readJson(join(PAIR, 'aquifer.geojson'));
   for (const feature of aquifer.features) {
     const p = feature.properties;
-    feature.properties = { ZONE: p.id, KSAT: p.k_m_d, BOT: p.base_m, DEM: p.ground_m, RCH: p.recharge_mm_yr };
+    feature.properties = { ZONE: p.id, KSAT: p.k_m_d, BOT: p.base_m, DEM: p.ground_m, NET_RECHARGE: p.recharge_mm_yr };
   }
   const paths = { canals: join(dir, 'canals.geojson'), aquifer: join(dir, 'aquifer.geojson') };
   writeFileSync(paths.canals, JSON.stringify(canals));
@@ -36,10 +36,10 @@ describe('doab init-config', () => {
     const text = readFileSync(config, 'utf8');
     expect(text).toMatch(/^\/\/ doab config/);
     // every attribute found is listed in a comment, with a sample value
-    for (const name of ['CANAL_ID', 'TYPE', 'WL', 'KSAT', 'BOT', 'DEM', 'RCH']) expect(text).toMatch(new RegExp(`//\\s+${name} \\(`));
+    for (const name of ['CANAL_ID', 'TYPE', 'WL', 'KSAT', 'BOT', 'DEM', 'NET_RECHARGE']) expect(text).toMatch(new RegExp(`//\\s+${name} \\(`));
     const parsed = parseConfig(config, text);
     expect(parsed.rules.fields.lines).toMatchObject({ id: 'CANAL_ID', kind: 'TYPE', stage: 'WL', name: 'NAME' });
-    expect(parsed.rules.fields.zones).toEqual({ id: 'ZONE', k: 'KSAT', base: 'BOT', ground: 'DEM', recharge: 'RCH' });
+    expect(parsed.rules.fields.zones).toEqual({ id: 'ZONE', k: 'KSAT', base: 'BOT', ground: 'DEM', recharge: 'NET_RECHARGE' });
     // no start and end stages in this file: said so, not guessed
     expect(text).toMatch(/"stageStart": "stage_start_m", \/\/ .*NOT FOUND/);
 

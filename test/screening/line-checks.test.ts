@@ -1,0 +1,29 @@
+import { describe, expect, it } from 'vitest';
+import { checkLines } from '../../src/screening/district-inputs.js';
+import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
+
+function lineFeature(properties: Record<string, unknown>, coordinates: number[][] = [[30, 29], [30.01, 29]]) {
+  return { type: 'Feature', properties, geometry: { type: 'LineString', coordinates } };
+}
+
+describe('line checks', () => {
+  it('refuses an id with "|", which would make strip ids ambiguous', () => {
+    const checked = checkLines('l.geojson', [lineFeature({ id: 'A|B', stage_m: 100 })], DEFAULT_RULES);
+    expect(checked.records).toEqual([]);
+    expect(checked.problems[0]).toMatchObject({ severity: 'error', place: { featureIndex: 0, field: 'id' } });
+    expect(checked.problems[0].message).toMatch(/contains "\|"/);
+  });
+
+  it('warns when both a constant stage and start and end stages are given, and uses the constant', () => {
+    const checked = checkLines('l.geojson', [lineFeature({ id: 'A', stage_m: 100, stage_start_m: 101, stage_end_m: 99 })], DEFAULT_RULES);
+    expect(checked.records[0]).toMatchObject({ stageStartM: 100, stageEndM: 100, stageField: 'stage_m' });
+    expect(checked.problems).toHaveLength(1);
+    expect(checked.problems[0]).toMatchObject({ severity: 'warning', place: { field: 'stage_m' } });
+  });
+
+  it('warns of a line with no length', () => {
+    const checked = checkLines('l.geojson', [lineFeature({ id: 'A', stage_m: 100 }, [[30, 29], [30, 29], [30, 29]])], DEFAULT_RULES);
+    expect(checked.records).toHaveLength(1);
+    expect(checked.problems.map((p) => p.message)).toEqual([expect.stringMatching(/no length/)]);
+  });
+});
