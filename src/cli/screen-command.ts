@@ -1,6 +1,6 @@
 // `doab screen`: read and check, screen, write all outputs or none, print the summary.
-import { existsSync, statSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
+import { existsSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
 import { writeAllOrNothing, type OutputFile } from '../io/atomic-write.js';
 import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from '../io/layers.js';
 import { runRecord, summaryText, CAUTION } from '../io/run-record.js';
@@ -42,6 +42,25 @@ export function checkOutputFolder(out: string): void {
   if (existsSync(path) && !statSync(path).isDirectory()) {
     throw new UsageError(`--out ${out}: ${path === resolve(out) ? 'is a file' : `${path} is a file`}, not a folder: name a folder for the outputs`);
   }
+}
+
+const OUTPUT_NAMES = new Set(['strips', 'canals', 'transects'].flatMap((layer) => [`${layer}.geojson`, `${layer}.geojsons`]).concat(['ranking.csv', 'report.html', 'run.json']));
+
+/**
+ * Outputs of an earlier run in the same folder that this run does not write (a transects layer
+ * from a run with --transects, say), so that the folder never mixes two runs. Only names that the
+ * earlier run.json lists as doab's own outputs qualify: doab deletes nothing it did not write.
+ */
+function staleOutputs(outDir: string, outputs: string[]): string[] {
+  let previous: unknown;
+  try {
+    previous = JSON.parse(readFileSync(join(outDir, 'run.json'), 'utf8'));
+  } catch {
+    return [];
+  }
+  const record = previous as { tool?: unknown; outputs?: unknown };
+  if (record.tool !== 'doab' || !Array.isArray(record.outputs)) return [];
+  return record.outputs.filter((name): name is string => typeof name === 'string' && OUTPUT_NAMES.has(name) && !outputs.includes(name));
 }
 
 /** The config file (if any) with the command line's options over it. */
@@ -123,8 +142,10 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
       problems: district.problems,
     }),
   });
+  const stale = staleOutputs(options.out, outputs);
   writeAllOrNothing(options.out, files);
-  log(`wrote ${outputs.join(', ')} to ${options.out}`);
+  for (const name of stale) rmSync(join(options.out, name), { force: true });
+  log(`wrote ${outputs.join(', ')} to ${options.out}${stale.length > 0 ? `; removed ${stale.join(', ')} left by the previous run` : ''}`);
   if (!options.quiet) io.out(summaryText(result, 10, errors.length));
   else io.err(`${CAUTION}\n`);
   return 0;

@@ -1,6 +1,6 @@
 // Output as GeoJSON text sequences, and input in a projected CRS named on the command line.
 import { execFileSync, spawnSync } from 'node:child_process';
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { freshDir, readJson, ROOT, runCli } from './run-cli.js';
@@ -63,5 +63,18 @@ describe('--input-crs', () => {
     const q = (out: string) => readJson(join(out, 'strips.geojson')).features[0].properties.q_a_m2_d as number;
     expect(Math.abs(q(given.out) / q(reference.out) - 1)).toBeLessThan(1e-3);
     expect(readJson(join(given.out, 'run.json')).inputs.canals.source_crs).toBe('EPSG:32636');
+  });
+});
+
+describe('a second run into the same folder', () => {
+  it('removes the layers of the first run that it does not write, and nothing else', () => {
+    const out = freshDir('rerun');
+    const args = ['screen', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', out, '--quiet'];
+    expect(runCli([...args, '--transects']).status).toBe(0);
+    writeFileSync(join(out, 'notes.txt'), 'the engineer\'s own file');
+    const again = runCli(args);
+    expect(again.status, again.stderr).toBe(0);
+    expect(readdirSync(out).sort()).toEqual(['canals.geojson', 'notes.txt', 'ranking.csv', 'report.html', 'run.json', 'strips.geojson']);
+    expect(readFileSync(join(out, 'notes.txt'), 'utf8')).toBe('the engineer\'s own file');
   });
 });
