@@ -122,8 +122,12 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
   ]);
   const widths = header.map((title, c) => Math.max(title.length, ...rows.map((row) => row[c].length)));
   const format = (row: string[]) => row.map((cell, c) => (c >= 2 && c <= 4 ? cell.padStart(widths[c]) : cell.padEnd(widths[c]))).join('  ').trimEnd();
-  lines.push('', `Top ${rows.length} strips (ranked by ${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}):`);
-  lines.push(format(header), ...rows.map(format));
+  if (rows.length === 0) {
+    lines.push('', `No strips: no two lines face each other within ${result.settings.maxGapM} m and ${result.settings.maxAngleDeg} degrees of parallel; canals.geojson gives each line's unpaired reasons.`);
+  } else {
+    lines.push('', `Top ${rows.length} strips (ranked by ${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}):`);
+    lines.push(format(header), ...rows.map(format));
+  }
   for (const warning of result.warnings) lines.push(`warning: ${warning}`);
   if (skipped > 0) lines.push(`${skipped} invalid feature${skipped === 1 ? ' was' : 's were'} skipped (--skip-invalid); run.json lists them`);
   lines.push('', `CAUTION: ${CAUTION}`);
