@@ -101,7 +101,7 @@ describe('renderReport on the demo district', () => {
     expect(html).toContain('<th scope="row">risk.waterloggedDepthM</th><td>2</td>');
     expect(html).toContain(meta.inputs[0].sha256);
     expect(html).toContain('&#39;out dir&#39;');
-    expect(html).toMatch(/Not a design.</b> Screening estimate only/);
+    expect(html).toMatch(/Not a design\.<\/b> Screening estimate only/);
     expect(html).toMatch(/Dupuit-Forchheimer: flow is horizontal/);
     expect(html).toMatch(/Confirm every finding in the field/);
     expect(html).toMatch(/defer to local codes/);
