@@ -179,7 +179,10 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   const peakAnchor = peakX - x0 < 50 ? 'start' : xL - peakX < 50 ? 'end' : 'middle';
   const labelX = peakAnchor === 'start' ? peakX + 10 : peakAnchor === 'end' ? peakX - 10 : peakX;
   parts.push(`<circle cx="${r(peakX)}" cy="${r(peakY)}" r="3.5" fill="${OKABE_ITO.blue}" stroke="#ffffff" stroke-width="1"/>`);
-  parts.push(`<text x="${r(labelX)}" y="${r(peakY - 24)}" text-anchor="${peakAnchor}" font-size="10" fill="#333333">peak</text>`);
+  // at a line the highest water table is that line's stage, not a mound between the lines
+  const atLine = profile.peakOffsetM <= 1e-6 * widthM || profile.peakOffsetM >= widthM * (1 - 1e-6);
+  const peakWord = atLine ? 'highest, at the line' : 'peak';
+  parts.push(`<text x="${r(labelX)}" y="${r(peakY - 24)}" text-anchor="${peakAnchor}" font-size="10" fill="#333333">${peakWord}</text>`);
   parts.push(
     `<text class="peak-label" data-strip-id="${escapeHtml(profile.stripId)}" x="${r(labelX)}" y="${r(peakY - 12)}" text-anchor="${peakAnchor}" font-weight="bold">` +
       `${peakLabelText(profile.peakHeadM)}</text>`,

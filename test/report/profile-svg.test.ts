@@ -51,6 +51,15 @@ describe('renderProfileSvg', () => {
     expect(points[points.length - 1]).toEqual(stages[1]);
   });
 
+  it('says when the highest water table is a line\'s own stage, not a mound between the lines', () => {
+    // the demo's top strip has no recharge mound: its highest water table is line a's stage
+    expect(profile.peakOffsetM).toBe(0);
+    expect(svg).toContain('>highest, at the line</text>');
+    const mound = renderProfileSvg({ ...profile, peakOffsetM: profile.widthM / 2 });
+    expect(mound).toContain('>peak</text>');
+    expect(mound).not.toContain('highest, at the line');
+  });
+
   it('formats the peak label with two decimals and the unit', () => {
     expect(peakLabelText(179.999)).toBe('180.00 m');
     expect(peakLabelText(-0.001)).toBe('0.00 m');
