@@ -182,12 +182,15 @@ function polygonList(view: FeatureView): number[][][][] {
   });
 }
 
+/** Runs one part of a feature's check; a problem there is recorded and gives undefined. */
+type Attempt = <V>(check: () => V) => V | undefined;
+
 function checkAll<T>(
   file: string,
   features: unknown[],
   idField: string,
   what: string,
-  build: (view: FeatureView, warn: (field: string, message: string) => void) => T,
+  build: (view: FeatureView, warn: (field: string, message: string) => void, attempt: Attempt) => T,
 ): Checked<T> {
   const problems: Problem[] = [];
   const records: T[] = [];
@@ -200,6 +203,17 @@ function checkAll<T>(
     let view: FeatureView | undefined;
     const place = (field?: string): DataProblemPlace => ({ file, featureIndex: index, featureId: view?.id, field });
     const warnings: Problem[] = [];
+    const errors: Problem[] = [];
+    // each independent part of a feature is checked on its own, so one run lists all its problems
+    const attempt: Attempt = (check) => {
+      try {
+        return check();
+      } catch (error) {
+        if (!(error instanceof FeatureProblem)) throw error;
+        errors.push({ severity: 'error', place: place(error.field), message: error.message });
+        return undefined;
+      }
+    };
     try {
       view = viewFeature(feature, index, idField);
       if (view.id === undefined) throw new FeatureProblem(idField, `missing id: every feature needs a unique text id in "${idField}"`);
@@ -208,8 +222,9 @@ function checkAll<T>(
       const earlier = seen.get(view.id);
       if (earlier !== undefined) throw new FeatureProblem(idField, `duplicate id "${view.id}" (also feature ${earlier})`);
       seen.set(view.id, index);
-      records.push(build(view, (field, message) => warnings.push({ severity: 'warning', place: place(field), message })));
-      problems.push(...warnings);
+      const record = build(view, (field, message) => warnings.push({ severity: 'warning', place: place(field), message }), attempt);
+      if (errors.length === 0) records.push(record);
+      problems.push(...errors, ...warnings);
     } catch (error) {
       if (!(error instanceof FeatureProblem)) throw error;
       problems.push({ severity: 'error', place: place(error.field), message: error.message });
@@ -244,44 +259,45 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
   const cutWarnings: Problem[] = [];
   const f = resolveCutNames(file, features, rules.fields.lines, cutWarnings);
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
-  const checked = checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view, warn) => {
-    const kindValue = view.properties[f.kind];
-    let kind: LineKind = rules.defaults.kind;
-    if (kindValue !== undefined && kindValue !== null && kindValue !== '') {
+  const checked = checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view, warn, attempt) => {
+    const kind = attempt((): LineKind => {
+      const kindValue = view.properties[f.kind];
+      if (kindValue === undefined || kindValue === null || kindValue === '') return rules.defaults.kind;
       const word = typeof kindValue === 'string' || typeof kindValue === 'number' ? String(kindValue).trim().toLowerCase() : null;
-      if (word !== null && rules.kindWords.canal.some((w) => w.toLowerCase() === word)) kind = 'canal';
-      else if (word !== null && rules.kindWords.drain.some((w) => w.toLowerCase() === word)) kind = 'drain';
-      else {
-        throw new FeatureProblem(f.kind, `expected ${[...rules.kindWords.canal, ...rules.kindWords.drain].map((w) => `"${w}"`).join(' or ')}, found ${describeValue(kindValue)}`);
-      }
-    }
+      if (word !== null && rules.kindWords.canal.some((w) => w.toLowerCase() === word)) return 'canal';
+      if (word !== null && rules.kindWords.drain.some((w) => w.toLowerCase() === word)) return 'drain';
+      throw new FeatureProblem(f.kind, `expected ${[...rules.kindWords.canal, ...rules.kindWords.drain].map((w) => `"${w}"`).join(' or ')}, found ${describeValue(kindValue)}`);
+    });
     const given = (field: string) => view.properties[field] !== undefined && view.properties[field] !== null && view.properties[field] !== '';
-    let stageStartM: number, stageEndM: number, stageField: string;
-    if (given(f.stage)) {
-      stageStartM = stageEndM = toM(numberField(view, f.stage));
-      stageField = f.stage;
-      if (given(f.stageStart) || given(f.stageEnd)) warn(f.stage, `both "${f.stage}" and "${f.stageStart}"/"${f.stageEnd}" are given: the constant "${f.stage}" is used`);
-    } else if (given(f.stageStart) || given(f.stageEnd)) {
-      stageStartM = toM(numberField(view, f.stageStart));
-      stageEndM = toM(numberField(view, f.stageEnd));
-      stageField = `${f.stageStart}/${f.stageEnd}`;
-    } else {
+    const stage = attempt(() => {
+      if (given(f.stage)) {
+        if (given(f.stageStart) || given(f.stageEnd)) warn(f.stage, `both "${f.stage}" and "${f.stageStart}"/"${f.stageEnd}" are given: the constant "${f.stage}" is used`);
+        const constant = toM(numberField(view, f.stage));
+        return { start: constant, end: constant, field: f.stage };
+      }
+      if (given(f.stageStart) || given(f.stageEnd)) {
+        // both ends are checked, so that one run names both when both are wrong
+        const start = attempt(() => toM(numberField(view, f.stageStart)));
+        const end = toM(numberField(view, f.stageEnd));
+        return start === undefined ? undefined : { start, end, field: `${f.stageStart}/${f.stageEnd}` };
+      }
       throw new FeatureProblem(f.stage, `missing water level: give "${f.stage}", or "${f.stageStart}" and "${f.stageEnd}"`);
-    }
-    const name = view.properties[f.name];
-    const partsLonLat = lineParts(view);
-    if (partsLonLat.every((part) => part.every(([lon, lat]) => lon === part[0][0] && lat === part[0][1]))) {
+    });
+    const partsLonLat = attempt(() => lineParts(view));
+    if (partsLonLat && partsLonLat.every((part) => part.every(([lon, lat]) => lon === part[0][0] && lat === part[0][1]))) {
       warn('geometry', 'the line has no length (all its positions are the same point): it gets no stations');
     }
+    const name = view.properties[f.name];
+    // with any part undefined the feature has an error and checkAll leaves the record out
     return {
       index: view.index,
       id: view.id as string,
       name: typeof name === 'string' ? name : null,
-      kind,
-      stageStartM,
-      stageEndM,
-      stageField,
-      partsLonLat,
+      kind: kind as LineKind,
+      stageStartM: stage?.start as number,
+      stageEndM: stage?.end as number,
+      stageField: stage?.field as string,
+      partsLonLat: partsLonLat as number[][][],
       properties: view.properties,
     };
   });
@@ -302,31 +318,43 @@ export function checkZones(file: string, features: unknown[], rules: InputRules)
   const cutWarnings: Problem[] = [];
   const f = resolveCutNames(file, features, rules.fields.zones, cutWarnings);
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
-  const checked = checkAll(file, features, f.id, 'aquifer zones (Polygon or MultiPolygon)', (view, warn) => {
-    const kGiven = numberField(view, f.k);
-    const kMPerDay = kToMPerDay(kGiven, rules.units.k);
-    if (!(kMPerDay > 0)) throw new FeatureProblem(f.k, `hydraulic conductivity must be positive, found ${kGiven} ${rules.units.k}`);
-    if (kMPerDay < K_HANDBOOK_MIN_M_PER_DAY || kMPerDay > K_HANDBOOK_MAX_M_PER_DAY) {
-      warn(f.k, `hydraulic conductivity ${kMPerDay} m/d is outside the handbook range for aquifer materials, ${K_HANDBOOK_MIN_M_PER_DAY} to ${K_HANDBOOK_MAX_M_PER_DAY} m/d (H. Bouwer, Groundwater Hydrology, 1978); check the value and its unit (${rules.units.k})`);
+  const checked = checkAll(file, features, f.id, 'aquifer zones (Polygon or MultiPolygon)', (view, warn, attempt) => {
+    const kMPerDay = attempt(() => {
+      const kGiven = numberField(view, f.k);
+      const k = kToMPerDay(kGiven, rules.units.k);
+      if (!(k > 0)) throw new FeatureProblem(f.k, `hydraulic conductivity must be positive, found ${kGiven} ${rules.units.k}`);
+      if (k < K_HANDBOOK_MIN_M_PER_DAY || k > K_HANDBOOK_MAX_M_PER_DAY) {
+        warn(f.k, `hydraulic conductivity ${k} m/d is outside the handbook range for aquifer materials, ${K_HANDBOOK_MIN_M_PER_DAY} to ${K_HANDBOOK_MAX_M_PER_DAY} m/d (H. Bouwer, Groundwater Hydrology, 1978); check the value and its unit (${rules.units.k})`);
+      }
+      return k;
+    });
+    const baseM = attempt(() => toM(numberField(view, f.base)));
+    const groundM = attempt(() => toM(numberField(view, f.ground)));
+    if (baseM !== undefined && groundM !== undefined) {
+      attempt(() => {
+        if (!(groundM > baseM)) throw new FeatureProblem(f.ground, `ground ${groundM} m must lie above the aquifer base ${baseM} m`);
+      });
     }
-    const baseM = toM(numberField(view, f.base));
-    const groundM = toM(numberField(view, f.ground));
-    if (!(groundM > baseM)) throw new FeatureProblem(f.ground, `ground ${groundM} m must lie above the aquifer base ${baseM} m`);
-    const rechargeGiven = numberField(view, f.recharge, rules.defaults.recharge);
-    const rechargeMPerDay = rechargeToMPerDay(rechargeGiven, rules.units.recharge);
-    const mmPerYear = rechargeFromMPerDay(rechargeMPerDay, 'mm/yr');
-    if (Math.abs(mmPerYear) > RECHARGE_PLAUSIBLE_MM_PER_YEAR) {
-      throw new FeatureProblem(f.recharge, `recharge ${rechargeGiven} ${rules.units.recharge} is ${Math.round(mmPerYear)} mm/yr, not plausible for a year (limit +-${RECHARGE_PLAUSIBLE_MM_PER_YEAR} mm/yr); check the unit`);
-    }
+    const rechargeMPerDay = attempt(() => {
+      const rechargeGiven = numberField(view, f.recharge, rules.defaults.recharge);
+      const recharge = rechargeToMPerDay(rechargeGiven, rules.units.recharge);
+      const mmPerYear = rechargeFromMPerDay(recharge, 'mm/yr');
+      if (Math.abs(mmPerYear) > RECHARGE_PLAUSIBLE_MM_PER_YEAR) {
+        throw new FeatureProblem(f.recharge, `recharge ${rechargeGiven} ${rules.units.recharge} is ${Math.round(mmPerYear)} mm/yr, not plausible for a year (limit +-${RECHARGE_PLAUSIBLE_MM_PER_YEAR} mm/yr); check the unit`);
+      }
+      return recharge;
+    });
+    const polygonsLonLat = attempt(() => polygonList(view));
+    // with any part undefined the feature has an error and checkAll leaves the record out
     return {
       index: 0,
       featureIndex: view.index,
       id: view.id as string,
-      kMPerDay,
-      baseM,
-      groundM,
-      rechargeMPerDay,
-      polygonsLonLat: polygonList(view),
+      kMPerDay: kMPerDay as number,
+      baseM: baseM as number,
+      groundM: groundM as number,
+      rechargeMPerDay: rechargeMPerDay as number,
+      polygonsLonLat: polygonsLonLat as number[][][][],
     };
   });
   checked.records.forEach((zone, i) => (zone.index = i));

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkLines } from '../../src/screening/district-inputs.js';
+import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
 import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
 
 function lineFeature(properties: Record<string, unknown>, coordinates: number[][] = [[30, 29], [30.01, 29]]) {
@@ -25,5 +25,31 @@ describe('line checks', () => {
     const checked = checkLines('l.geojson', [lineFeature({ id: 'A', stage_m: 100 }, [[30, 29], [30, 29], [30, 29]])], DEFAULT_RULES);
     expect(checked.records).toHaveLength(1);
     expect(checked.problems.map((p) => p.message)).toEqual([expect.stringMatching(/no length/)]);
+  });
+});
+
+describe('every problem of a feature in one run', () => {
+  it('lists a line\'s bad kind, bad stages and bad geometry together', () => {
+    const feature = { type: 'Feature', properties: { id: 'A', kind: 'river', stage_start_m: '100,5', stage_end_m: 'high' }, geometry: { type: 'Point', coordinates: [30, 29] } };
+    const checked = checkLines('l.geojson', [feature], DEFAULT_RULES);
+    expect(checked.records).toEqual([]);
+    expect(checked.problems.map((p) => [p.severity, p.place.field])).toEqual([
+      ['error', 'kind'],
+      ['error', 'stage_start_m'],
+      ['error', 'stage_end_m'],
+      ['error', 'geometry'],
+    ]);
+    expect(checked.problems[1].message).toMatch(/decimal comma\? write 100\.5/);
+  });
+
+  it('lists a zone\'s missing conductivity, ground below base and implausible recharge together', () => {
+    const feature = {
+      type: 'Feature',
+      properties: { id: 'Z', base_m: 100, ground_m: 95, recharge_mm_yr: 9000 },
+      geometry: { type: 'Polygon', coordinates: [[[30, 29], [30.01, 29], [30.01, 29.01], [30, 29.01], [30, 29]]] },
+    };
+    const checked = checkZones('z.geojson', [feature], DEFAULT_RULES);
+    expect(checked.records).toEqual([]);
+    expect(checked.problems.map((p) => p.place.field)).toEqual(['k_m_d', 'ground_m', 'recharge_mm_yr']);
   });
 });
