@@ -2,7 +2,10 @@
 // still solved across the gap (joined to a neighbour zone) and the run says so; a real hole in
 // the aquifer leaves the transects unsolved, with a warning, not a silent zero.
 import { describe, expect, it } from 'vitest';
-import { box, line, screenLocal } from './local-district.js';
+import { checkZones } from '../../src/screening/district-inputs.js';
+import { crossCheck } from '../../src/screening/cross-checks.js';
+import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
+import { box, line, lonLat, screenLocal } from './local-district.js';
 
 const lines = [
   line('A', { kind: 'canal', stage_m: 105 }, [[0, 0], [2000, 0]]),
@@ -24,5 +27,31 @@ describe('gaps between zones', () => {
     expect(result.counts.facingsByReason['outside-aquifer']).toBeGreaterThan(0);
     expect(result.warnings.join('\n')).toMatch(/\d+ transect sides leave the aquifer zones/);
     expect(result.totals.lossM3PerDay).toBe(0);
+  });
+});
+
+describe('doab check on gaps between zones', () => {
+  it('warns of a hole the zones leave between them, with its area and place', () => {
+    // W and E carry the gap's corners on their inner edges, so neighbouring edges share vertices
+    const ring = (id: string, points: number[][]) => ({ type: 'Feature', properties: { id, ...zone }, geometry: { type: 'Polygon', coordinates: [lonLat([...points, points[0]])] } });
+    const zones = checkZones('zones.geojson', [
+      box('N', zone, [-3000, -199.5, 5000, 3000]),
+      box('S', zone, [-3000, -3000, 5000, -200.5]),
+      ring('W', [[-4000, -3000], [-3000, -3000], [-3000, -200.5], [-3000, -199.5], [-3000, 3000], [-4000, 3000]]),
+      ring('E', [[5000, -3000], [6000, -3000], [6000, 3000], [5000, 3000], [5000, -199.5], [5000, -200.5]]),
+    ], DEFAULT_RULES);
+    expect(zones.problems).toEqual([]);
+    const { problems } = crossCheck([], zones.records, { lines: 'lines.geojson', zones: 'zones.geojson' });
+    // the gap is 8000 m long and 1 m wide: 8000 m^2 (turf measures on the sphere, so within 1 %)
+    expect(problems).toHaveLength(1);
+    const area = Number(/gap of (\d+) m2/.exec(problems[0].message)?.[1]);
+    expect(area).toBeGreaterThan(7900);
+    expect(area).toBeLessThan(8100);
+    expect(problems[0]).toMatchObject({ severity: 'warning', place: { file: 'zones.geojson' } });
+  });
+
+  it('says nothing of zones that share their edges exactly', () => {
+    const zones = checkZones('zones.geojson', [box('N', zone, [-3000, -200, 5000, 3000]), box('S', zone, [-3000, -3000, 5000, -200])], DEFAULT_RULES);
+    expect(crossCheck([], zones.records, { lines: 'l', zones: 'z' }).problems).toEqual([]);
   });
 });
