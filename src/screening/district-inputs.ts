@@ -1,7 +1,7 @@
 // Validation stage: turns GeoJSON features (lon/lat) into typed records of lines and zones, and
 // lists every problem found with its file, feature and field. A feature with an error is left
 // out of the records; warnings keep it. Pure: no file access.
-import { booleanPointInPolygon, booleanValid, kinks, polygon as turfPolygon } from '@turf/turf';
+import { area, booleanPointInPolygon, booleanValid, kinks, polygon as turfPolygon } from '@turf/turf';
 import { kToMPerDay, lengthToM, rechargeFromMPerDay, rechargeToMPerDay } from '../hydraulics/units.js';
 import { describePlace, type DataProblemPlace } from '../io/data-error.js';
 import type { InputRules } from './input-rules.js';
@@ -169,6 +169,7 @@ function polygonList(view: FeatureView): number[][][][] {
       return positions;
     });
     const shape = turfPolygon(rings);
+    if (!(area(shape) > 0)) throw new FeatureProblem('geometry', `polygon ${p} has no area (its positions lie on one line or point)`);
     const crossings = kinks(shape).features;
     if (crossings.length > 0) {
       const at = crossings[0].geometry.coordinates.map((v) => Number(v.toFixed(6)));

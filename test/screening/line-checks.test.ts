@@ -53,3 +53,14 @@ describe('every problem of a feature in one run', () => {
     expect(checked.problems.map((p) => p.place.field)).toEqual(['k_m_d', 'ground_m', 'recharge_mm_yr']);
   });
 });
+
+describe('zone geometry', () => {
+  it('refuses a polygon with no area', () => {
+    const flat = { type: 'Feature', properties: { id: 'Z', k_m_d: 10, base_m: 90, ground_m: 100 }, geometry: { type: 'Polygon', coordinates: [[[30, 29], [30.01, 29], [30.02, 29], [30, 29]]] } };
+    const checked = checkZones('z.geojson', [flat], DEFAULT_RULES);
+    expect(checked.records).toEqual([]);
+    expect(checked.problems).toHaveLength(1);
+    expect(checked.problems[0]).toMatchObject({ severity: 'error', place: { field: 'geometry' } });
+    expect(checked.problems[0].message).toMatch(/no area/);
+  });
+});
