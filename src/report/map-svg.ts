@@ -77,21 +77,6 @@ function stripClass(strip: StripSummary): StripClass {
   return strip.risk ?? 'unsolved';
 }
 
-function projectLines(result: ScreenResult): Float64Array[][] {
-  const { crs } = result;
-  return result.lines.map((line) =>
-    line.partsLonLat.map((part) => {
-      const out = new Float64Array(part.length * 2);
-      for (let i = 0; i < part.length; i++) {
-        const [x, y] = crs.forward([part[i][0], part[i][1]]);
-        out[2 * i] = x;
-        out[2 * i + 1] = y;
-      }
-      return out;
-    }),
-  );
-}
-
 function boundsOf(linesM: Float64Array[][], strips: StripSummary[]): [number, number, number, number] {
   let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
   const add = (coords: Float64Array) => {
@@ -214,7 +199,7 @@ function mapKey(result: ScreenResult, lineWidth: LineWidths): string {
 export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}): DistrictMap {
   const widthPx = options.widthPx ?? 1000;
   const minStepPx = options.minStepPx ?? 1;
-  const linesM = projectLines(result);
+  const linesM = result.geometries.map((geometry) => geometry.parts);
   const view = fitView(boundsOf(linesM, result.strips), widthPx, PAD_PX, options.maxHeightPx ?? 1000, BAND_PX);
 
   const strips = result.strips

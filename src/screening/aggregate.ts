@@ -18,7 +18,6 @@ export interface StripSummary {
   /** Chainage range on line a of a's stations, and on line b where a's transects land (m). */
   chainageAM: [number, number];
   chainageBM: [number, number];
-  lengthBM: number;
   spacingMeanM: number;
   spacingMinM: number;
   spacingMaxM: number;
@@ -67,7 +66,7 @@ export function summariseStrip(
   const facingsA = Uint32Array.from(strip.stationsA, (s) => 2 * s + strip.sideA);
   // every b station in a strip faces a from the same side of b, the side a's transects meet
   const facingsB = Uint32Array.from(strip.stationsB, (s) => 2 * s + strip.sideB);
-  let lengthA = 0, lengthB = 0, lossA = 0, lossB = 0, solvedLengthA = 0, solvedLengthB = 0;
+  let lengthA = 0, lossA = 0, lossB = 0, solvedLengthA = 0, solvedLengthB = 0;
   let peak = -Infinity, peakOffset = NaN, minDepth = Infinity, shallowAreaM2 = 0, ratioMin = Infinity;
   let flagBits = 0, unsolved = 0;
   const unsolvedReasons = new Set<string>();
@@ -75,7 +74,6 @@ export function summariseStrip(
     const station = facing >> 1;
     const length = stations.lengthM[station];
     if (fromA) lengthA += length;
-    else lengthB += length;
     const status = results.status[facing];
     if (status !== SOLVE_OK) {
       unsolved++;
@@ -116,7 +114,6 @@ export function summariseStrip(
     lengthM: lengthA,
     chainageAM: strip.chainageA,
     chainageBM: strip.chainageB,
-    lengthBM: lengthB,
     spacingMeanM: strip.spacingMeanM,
     spacingMinM: strip.spacingMinM,
     spacingMaxM: strip.spacingMaxM,

@@ -57,6 +57,8 @@ export interface ScreenResult {
   warnings: string[];
   lines: LineRecord[];
   zones: ZoneRecord[];
+  /** The lines in the work CRS (metres), in the order of `lines`. */
+  geometries: LineGeometry[];
   lineLengthsM: Float64Array;
   zoneIndex: ZoneIndex;
   stations: StationTable;
@@ -116,6 +118,7 @@ export function screenDistrict(
     warnings,
     lines,
     zones,
+    geometries,
     lineLengthsM,
     zoneIndex,
     stations,
