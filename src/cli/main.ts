@@ -28,24 +28,27 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .exitOverride()
     .configureOutput({ writeOut: io.out, writeErr: io.err });
   let exitCode = 0;
-  program
-    .command('screen')
-    .description('pair parallel reaches, solve every strip between them, and write GIS layers, a ranked table and a run record')
-    .requiredOption('--canals <file>', 'canal and drain lines (GeoJSON, GeoJSON text sequence, .shp or zipped shapefile)')
-    .requiredOption('--aquifer <file>', 'aquifer zones (polygons; same formats)')
+  // the two inputs, with their CRS, as every command that reads a district takes them
+  const inputCommand = (name: string, description: string) =>
+    program
+      .command(name)
+      .description(description)
+      .requiredOption('--canals <file>', 'canal and drain lines (GeoJSON, GeoJSON text sequence, .shp or zipped shapefile)')
+      .requiredOption('--aquifer <file>', 'aquifer zones (polygons; same formats)')
+      .option('--input-crs <crs>', 'CRS of the input files (EPSG:<code>, proj4 or WKT); overrides .prj and "crs" members')
+      .option('--debug', 'show stack traces of internal errors');
+  inputCommand('screen', 'pair parallel reaches, solve every strip between them, and write GIS layers, a ranked table and a run record')
     .requiredOption('--out <dir>', 'output folder (created if missing)')
     .option('--config <file>', 'JSON config (comments allowed): settings, risk thresholds, field names and units')
     .option('--step <m>', 'station spacing along each line, m (default 100)', positiveNumber)
     .option('--max-gap <m>', 'longest transect, m (default 3000)', positiveNumber)
     .option('--max-angle <deg>', 'largest angle from parallel for a partner, degrees (default 20)', positiveNumber)
     .option('--crs <crs>', 'work CRS: EPSG:326xx/327xx or a +proj string (default: UTM zone of the data centre)')
-    .option('--input-crs <crs>', 'CRS of the input files (EPSG:<code>, proj4 or WKT); overrides .prj and "crs" members')
     .addOption(new Option('--rank-by <key>', 'rank strips by loss per km or by smallest depth (default loss)').choices(['loss', 'risk']))
     .option('--transects', 'also write the transects layer, every transect with its inputs and results')
     .option('--seq', 'write the layers as GeoJSON text sequences (RFC 8142, .geojsons) instead of FeatureCollections')
     .option('--skip-invalid', 'leave out invalid features instead of stopping; run.json lists them')
     .option('--quiet', 'print only errors and the caution line')
-    .option('--debug', 'show stack traces of internal errors')
     .action(async (options: ScreenOptions) => {
       const progress = progressReporter({ quiet: Boolean(options.quiet), stream: process.stderr });
       try {
@@ -54,26 +57,14 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
         progress.stop();
       }
     });
-  program
-    .command('check')
-    .description('check the inputs without computing: every problem with file, feature and field')
-    .requiredOption('--canals <file>', 'canal and drain lines')
-    .requiredOption('--aquifer <file>', 'aquifer zones')
+  inputCommand('check', 'check the inputs without computing: every problem with file, feature and field')
     .option('--config <file>', 'JSON config (field names, units, defaults)')
-    .option('--input-crs <crs>', 'CRS of the input files')
-    .option('--debug', 'show stack traces of internal errors')
     .action(async (options: CheckOptions) => {
       exitCode = await checkCommand(options, io);
     });
-  program
-    .command('init-config')
-    .description('write a commented starting config from the attributes found in your files')
-    .requiredOption('--canals <file>', 'canal and drain lines')
-    .requiredOption('--aquifer <file>', 'aquifer zones')
+  inputCommand('init-config', 'write a commented starting config from the attributes found in your files')
     .requiredOption('--out <file>', 'config file to write (not overwritten unless --force)')
-    .option('--input-crs <crs>', 'CRS of the input files')
     .option('--force', 'replace an existing config file')
-    .option('--debug', 'show stack traces of internal errors')
     .action(async (options: InitConfigOptions) => {
       exitCode = await initConfigCommand(options, io);
     });

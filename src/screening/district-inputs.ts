@@ -135,14 +135,20 @@ function checkPosition(position: unknown): number[] {
   return [lon, lat];
 }
 
-function lineParts(view: FeatureView): number[][][] {
+/** The parts of a single or multi geometry of the expected kind: [coordinates] or the list. */
+function geometryParts(view: FeatureView, single: string, multi: string, empty: string): unknown[] {
   const geometry = view.geometry;
   if (geometry === null) throw new FeatureProblem('geometry', 'has no geometry');
-  const raw = geometry.type === 'LineString' ? [geometry.coordinates] : geometry.type === 'MultiLineString' ? geometry.coordinates : null;
-  if (raw === null) throw new FeatureProblem('geometry', `expected LineString or MultiLineString, found ${JSON.stringify(geometry.type)}`);
+  const raw = geometry.type === single ? [geometry.coordinates] : geometry.type === multi ? geometry.coordinates : null;
+  if (raw === null) throw new FeatureProblem('geometry', `expected ${single} or ${multi}, found ${JSON.stringify(geometry.type)}`);
   if (!Array.isArray(raw) || raw.length === 0 || (raw.length === 1 && Array.isArray(raw[0]) && raw[0].length === 0)) {
-    throw new FeatureProblem('geometry', 'empty geometry: no positions');
+    throw new FeatureProblem('geometry', `empty geometry: ${empty}`);
   }
+  return raw;
+}
+
+function lineParts(view: FeatureView): number[][][] {
+  const raw = geometryParts(view, 'LineString', 'MultiLineString', 'no positions');
   return raw.map((part) => {
     if (!Array.isArray(part) || part.length < 2) throw new FeatureProblem('geometry', 'a line part has fewer than two positions');
     return part.map(checkPosition);
@@ -150,13 +156,7 @@ function lineParts(view: FeatureView): number[][][] {
 }
 
 function polygonList(view: FeatureView): number[][][][] {
-  const geometry = view.geometry;
-  if (geometry === null) throw new FeatureProblem('geometry', 'has no geometry');
-  const raw = geometry.type === 'Polygon' ? [geometry.coordinates] : geometry.type === 'MultiPolygon' ? geometry.coordinates : null;
-  if (raw === null) throw new FeatureProblem('geometry', `expected Polygon or MultiPolygon, found ${JSON.stringify(geometry.type)}`);
-  if (!Array.isArray(raw) || raw.length === 0 || (raw.length === 1 && Array.isArray(raw[0]) && raw[0].length === 0)) {
-    throw new FeatureProblem('geometry', 'empty geometry: no rings');
-  }
+  const raw = geometryParts(view, 'Polygon', 'MultiPolygon', 'no rings');
   return raw.map((polygon, p) => {
     if (!Array.isArray(polygon) || polygon.length === 0) throw new FeatureProblem('geometry', `polygon ${p} has no rings`);
     const rings = polygon.map((ring) => {
