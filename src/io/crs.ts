@@ -11,7 +11,7 @@ export interface WorkCrs {
 
 const LON_LAT_WGS84 = '+proj=longlat +datum=WGS84 +no_defs';
 const UTM_ZONE_WIDTH_DEG = 6;
-// UTM keeps its scale within 0.9996-1.0010 inside a zone; beyond 0.2% the CRS does not suit the data
+// UTM keeps its scale within 0.9996-1.0010 inside a zone [from memory]; beyond 0.2% the CRS does not suit the data
 const SCALE_WARN = 0.002;
 // Beyond 1 % every spacing and loss is off by as much: a CRS for another part of the world
 const SCALE_REFUSE = 0.01;
