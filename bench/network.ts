@@ -1,7 +1,7 @@
 // A synthetic canal network in metres for the geometry bench and its partition test: rows of
 // roughly parallel wavy canals a few km long, digitised with jitter, and some cross canals.
 import type { LineGeometry } from '../src/geometry/index.js';
-import { chooseWorkCrs } from '../src/io/crs.js';
+import { chooseWorkCrs } from '../src/geometry/work-crs.js';
 
 /** Small seeded generator (mulberry32) so a network is the same on every run. */
 export function seededRandom(seed: number): () => number {

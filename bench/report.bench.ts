@@ -6,9 +6,9 @@ import { performance } from 'node:perf_hooks';
 import { renderDistrictMap } from '../src/report/map-svg.js';
 import { renderReport } from '../src/report/report.js';
 import { checkLines, checkZones } from '../src/screening/district-inputs.js';
-import { DEFAULT_RULES } from '../src/screening/input-rules.js';
+import { DEFAULT_RULES } from '../src/shared/input-rules.js';
 import { screenDistrict } from '../src/screening/screen.js';
-import { DEFAULT_SETTINGS, type ScreenSettings } from '../src/screening/settings.js';
+import { DEFAULT_SETTINGS, type ScreenSettings } from '../src/shared/settings.js';
 import { syntheticDistrict } from './network.js';
 
 const count = Number(process.argv[2] ?? 5400);

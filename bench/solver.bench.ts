@@ -3,7 +3,7 @@
 import { PerformanceObserver } from 'node:perf_hooks';
 import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
-import { SOLVE_OK, TransectSolver } from '../src/hydraulics/strip-solver.js';
+import { SOLVE_OK, TransectSolver } from '../src/hydraulics/transect-solver.js';
 
 // tsx gives no way to pass --expose-gc, so turn it on here and fetch gc from a fresh context
 setFlagsFromString('--expose-gc');
@@ -25,7 +25,7 @@ function run(zoneCount: number, solves: number): number {
   let checksum = 0;
   for (let i = 0; i < solves; i++) {
     if (solver.solve(105 + (i & 1023) * 1e-4, 103, 90, zoneCount) !== SOLVE_OK) throw new Error(`Unexpected failure at solve ${i}.`);
-    checksum += solver.seepageAM2PerDay + solver.peakHeadM;
+    checksum += solver.ownSeepageM2PerDay + solver.peakWaterTableM;
   }
   return checksum;
 }

@@ -1,7 +1,7 @@
 // `doab check`: validate both inputs without computing; print every problem, errors first.
+import { errorsOf, loadDistrict, problemLines } from '../index.js';
+import type { CliIo } from './io.js';
 import { runConfig } from './screen-command.js';
-import type { CliIo } from './screen-command.js';
-import { errorsOf, loadDistrict, problemLines } from './load-district.js';
 
 export interface CheckOptions {
   canals: string;
@@ -12,7 +12,7 @@ export interface CheckOptions {
 }
 
 export async function checkCommand(options: CheckOptions, io: CliIo): Promise<number> {
-  const config = runConfig(options);
+  const config = runConfig(options as unknown as Record<string, unknown>);
   const district = await loadDistrict(options.canals, options.aquifer, config);
   const errors = errorsOf(district.problems);
   const warnings = district.problems.filter((problem) => problem.severity === 'warning');

@@ -2,12 +2,8 @@
 // found in the user's files where a name makes the match plain, and every attribute listed.
 import { existsSync } from 'node:fs';
 import { basename, dirname } from 'node:path';
-import { writeAllOrNothing } from '../io/atomic-write.js';
-import { DataError } from '../io/data-error.js';
-import { readFeatureFile } from '../io/read-features.js';
-import { DEFAULT_RULES } from '../screening/input-rules.js';
-import { DEFAULT_SETTINGS } from '../screening/settings.js';
-import type { CliIo } from './screen-command.js';
+import { DataError, DEFAULT_RULES, readFeatureFile, SETTINGS, SETTING_KEYS, writeAllOrNothing, type SettingKey } from '../index.js';
+import type { CliIo } from './io.js';
 
 export interface InitConfigOptions {
   canals: string;
@@ -67,6 +63,26 @@ function listing(attributes: AttributeSummary[]): string {
   return attributes.map((a) => `  //   ${a.name} (${[...a.types].join('/')}), e.g. ${JSON.stringify(a.sample)?.slice(0, 40)}\n`).join('');
 }
 
+/** One line per setting of the table (but the advanced ones and inputCrs, said above), with its default and doc. */
+function settingLines(): string {
+  const shown = SETTING_KEYS.filter((key) => !SETTINGS[key].advanced && key !== 'inputCrs');
+  const line = (name: string, key: SettingKey, indent: string) => {
+    const spec = SETTINGS[key];
+    return `${indent}${JSON.stringify(name)}: ${JSON.stringify(spec.default)}, // ${spec.doc}${spec.unit && spec.unit !== 'fraction' ? `, ${spec.unit}` : ''}`;
+  };
+  const top = shown.filter((key) => !key.includes('.')).map((key) => line(key, key, '  '));
+  const risk = shown.filter((key) => key.startsWith('risk.')).map((key) => line(key.slice(5), key, '    '));
+  // the risk defaults: Government of India, Ministry of Water Resources working group on waterlogging (1991)
+  return [
+    ...top,
+    '  // Risk classes from the smallest depth to the water table; defaults from the Government of India,',
+    '  // Ministry of Water Resources working group on waterlogging (1991).',
+    '  "risk": {',
+    risk.join('\n').replace(/,( \/\/[^\n]*)$/, '$1'),
+    '  }',
+  ].join('\n');
+}
+
 export async function initConfigCommand(options: InitConfigOptions, io: CliIo): Promise<number> {
   if (existsSync(options.out) && !options.force) {
     throw new DataError({ file: options.out }, 'already exists; give --force to replace it, or another --out');
@@ -83,7 +99,6 @@ export async function initConfigCommand(options: InitConfigOptions, io: CliIo): 
     return `      ${JSON.stringify(key)}: ${JSON.stringify(hit.name)}, // ${note}`;
   };
   const crsLine = canals.sourceCrs ?? aquifer.sourceCrs;
-  const s = DEFAULT_SETTINGS;
   const text = `// doab config, started by \`doab init-config\` from ${basename(options.canals)} and ${basename(options.aquifer)}.
 // JSON with comments. Every key is optional; delete what you do not need. Options given on the
 // command line win over this file. Check the result with: doab check --canals ... --aquifer ... --config ${basename(options.out)}
@@ -118,15 +133,7 @@ ${field('zones', 'recharge', 'areal recharge, in units.recharge')}
   // CRS of your files when they do not declare one (EPSG:<code>, a proj4 string, or null).
   "inputCrs": null, // ${crsLine ? `your files declare ${crsLine}` : 'your files declare no CRS: lon/lat (WGS 84) is assumed'}
   // Screening options.
-  "stepM": ${s.stepM}, // station spacing along each line, m
-  "maxGapM": ${s.maxGapM}, // longest transect, m
-  "maxAngleDeg": ${s.maxAngleDeg}, // largest angle from parallel for a partner, degrees
-  "crs": null, // work CRS (EPSG:326xx/327xx or +proj); null: UTM zone of the data centre
-  "rankBy": "${s.rankBy}", // "loss" (per km) or "risk" (smallest depth first)
-  "bankWidthM": ${s.bankWidthM}, // land beside each line left out of the depth check, m
-  // Risk classes from the smallest depth to the water table; defaults from the Government of India,
-  // Ministry of Water Resources working group on waterlogging (1991).
-  "risk": { "waterloggedDepthM": ${s.risk.waterloggedDepthM}, "potentialDepthM": ${s.risk.potentialDepthM} }
+${settingLines()}
 }
 `;
   writeAllOrNothing(dirname(options.out), [{ name: basename(options.out), content: text }]);

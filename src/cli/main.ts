@@ -1,20 +1,31 @@
 // Command-line wiring only: parse options, call the commands, map failures to exit codes
 // (0 done, 1 bad data, 2 bad usage, 3 internal error). Tests call main() or run it as a child process.
 import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
-import { DataError } from '../io/data-error.js';
+import { DataError, InputProblems, problemLines, SETTINGS, SETTING_KEYS, UsageError, VERSION, type SettingSpec } from '../index.js';
 import { checkCommand, type CheckOptions } from './check-command.js';
-import { UsageError, VERSION } from './common.js';
 import { initConfigCommand, type InitConfigOptions } from './init-config-command.js';
-import { InputProblems, problemLines } from './load-district.js';
+import type { CliIo } from './io.js';
 import { registerProfileCommand } from './profile-command.js';
 import { progressReporter } from './progress.js';
-import { screenCommand, type CliIo, type ScreenOptions } from './screen-command.js';
+import { screenCommand, type ScreenOptions } from './screen-command.js';
 
-function positiveNumber(value: string): number {
-  const number = Number(value);
-  if (value.trim() === '' || !Number.isFinite(number) || number <= 0) throw new InvalidArgumentError(`expected a positive number, got "${value}"`);
-  return number;
+function number(value: string): number {
+  const parsed = Number(value);
+  if (value.trim() === '' || !Number.isFinite(parsed)) throw new InvalidArgumentError(`expected a number, got "${value}"`);
+  return parsed;
 }
+
+/** A setting's option, from the settings table: its flag, doc, unit, default and parser. */
+function settingOption(spec: SettingSpec): Option {
+  const unit = spec.unit && spec.unit !== 'fraction' ? `, ${spec.unit}` : '';
+  const fallback = spec.type === 'boolean' ? '' : ` (default ${spec.default === null ? 'none' : spec.default})`;
+  const option = new Option(spec.flag as string, `${spec.doc}${unit}${fallback}`);
+  if (spec.type === 'number') option.argParser(number);
+  if (spec.choices) option.choices(spec.choices);
+  return option;
+}
+
+const flagged = (scope: (spec: SettingSpec) => boolean) => SETTING_KEYS.map((key) => SETTINGS[key]).filter((spec) => spec.flag !== undefined && scope(spec));
 
 const defaultIo: CliIo = {
   out: (text: string) => process.stdout.write(text),
@@ -35,17 +46,13 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
       .description(description)
       .requiredOption('--canals <file>', 'canal and drain lines (GeoJSON, GeoJSON text sequence, .shp or zipped shapefile)')
       .requiredOption('--aquifer <file>', 'aquifer zones (polygons; same formats)')
-      .option('--input-crs <crs>', 'CRS of the input files (EPSG:<code>, proj4 or WKT); overrides .prj and "crs" members')
+      .addOption(settingOption(SETTINGS.inputCrs))
       .option('--debug', 'show stack traces of internal errors');
-  inputCommand('screen', 'pair parallel reaches, solve every strip between them, and write GIS layers, a ranked table and a run record')
+  const screen = inputCommand('screen', 'pair parallel reaches, solve every strip between them, and write GIS layers, a ranked table and a run record')
     .requiredOption('--out <dir>', 'output folder (created if missing)')
-    .option('--config <file>', 'JSON config (comments allowed): settings, risk thresholds, field names and units')
-    .option('--step <m>', 'station spacing along each line, m (default 100)', positiveNumber)
-    .option('--max-gap <m>', 'longest transect, m (default 3000)', positiveNumber)
-    .option('--max-angle <deg>', 'largest angle from parallel for a partner, degrees (default 20)', positiveNumber)
-    .option('--crs <crs>', 'work CRS: EPSG:326xx/327xx or a +proj string (default: UTM zone of the data centre)')
-    .addOption(new Option('--rank-by <key>', 'rank strips by loss per km or by smallest depth (default loss)').choices(['loss', 'risk']))
-    .option('--transects', 'also write the transects layer, every transect with its inputs and results')
+    .option('--config <file>', 'JSON config (comments allowed): settings, risk thresholds, field names and units');
+  for (const spec of flagged((spec) => spec !== SETTINGS.inputCrs)) screen.addOption(settingOption(spec));
+  screen
     .option('--seq', 'write the layers as GeoJSON text sequences (RFC 8142, .geojsons) instead of FeatureCollections')
     .option('--skip-invalid', 'leave out invalid features instead of stopping; run.json lists them')
     .option('--quiet', 'print only errors and the caution line')

@@ -1,7 +1,7 @@
 // A progress bar on standard error while the screening stages run: the stage's name and its
 // count. Only a person at a terminal sees it; logs, pipes, CI and --quiet get nothing at all.
 import cliProgress from 'cli-progress';
-import type { ProgressListener } from '../screening/screen.js';
+import type { ProgressListener } from '../index.js';
 
 export interface ProgressReporter {
   onProgress: ProgressListener;

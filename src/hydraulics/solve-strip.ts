@@ -1,7 +1,7 @@
 // A plain-object front to TransectSolver for one-off solves, with a sentence for each failure:
 // for library use and tests.
 // The district pipeline uses TransectSolver directly so that its inner loop allocates nothing.
-import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver, type SolveStatusName } from './strip-solver.js';
+import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver, type SolveStatusName } from './transect-solver.js';
 
 export interface ZoneSpec {
   lengthM: number;
@@ -12,8 +12,8 @@ export interface ZoneSpec {
 }
 
 export interface StripProblem {
-  stageAM: number;
-  stageBM: number;
+  ownStageM: number;
+  partnerStageM: number;
   baseM: number;
   /** Zones in series from line a to line b. */
   zones: ZoneSpec[];
@@ -22,9 +22,9 @@ export interface StripProblem {
 export interface StripSolution {
   ok: true;
   widthM: number;
-  seepageAM2PerDay: number;
-  seepageBM2PerDay: number;
-  peakHeadM: number;
+  ownSeepageM2PerDay: number;
+  partnerSeepageM2PerDay: number;
+  peakWaterTableM: number;
   peakOffsetM: number;
   divideOffsetM: number;
   minDepthM: number;
@@ -54,7 +54,7 @@ export function solveStrip(problem: StripProblem): StripSolution | StripFailure 
     solver.rechargeMPerDay[j] = zone.rechargeMPerDay;
     solver.groundM[j] = zone.groundM;
   });
-  const status = solver.solve(problem.stageAM, problem.stageBM, problem.baseM, problem.zones.length);
+  const status = solver.solve(problem.ownStageM, problem.partnerStageM, problem.baseM, problem.zones.length);
   if (status !== SOLVE_OK) {
     const reason = SOLVE_STATUS_NAMES[status];
     return { ok: false, reason, detail: describeFailure(reason, problem, solver.failedZone) };
@@ -62,9 +62,9 @@ export function solveStrip(problem: StripProblem): StripSolution | StripFailure 
   return {
     ok: true,
     widthM: solver.widthM,
-    seepageAM2PerDay: solver.seepageAM2PerDay,
-    seepageBM2PerDay: solver.seepageBM2PerDay,
-    peakHeadM: solver.peakHeadM,
+    ownSeepageM2PerDay: solver.ownSeepageM2PerDay,
+    partnerSeepageM2PerDay: solver.partnerSeepageM2PerDay,
+    peakWaterTableM: solver.peakWaterTableM,
     peakOffsetM: solver.peakOffsetM,
     divideOffsetM: solver.divideOffsetM,
     minDepthM: solver.minDepthM,
@@ -90,7 +90,7 @@ export function describeFailure(reason: SolveStatusName, problem: StripProblem, 
     case 'non-positive-conductivity':
       return `hydraulic conductivity ${problem.zones[zone]?.kMPerDay} m/d is not positive${where}`;
     case 'stage-at-or-below-base':
-      return `a line's stage (a ${problem.stageAM} m, b ${problem.stageBM} m) is at or below the aquifer base ${problem.baseM} m`;
+      return `a line's stage (a ${problem.ownStageM} m, b ${problem.partnerStageM} m) is at or below the aquifer base ${problem.baseM} m`;
     case 'aquifer-dries':
       return `the water table would fall to the aquifer base${where}: the Dupuit-Forchheimer strip solution does not hold`;
     default:

@@ -5,7 +5,7 @@ import { FACING_PAIRED } from '../geometry/index.js';
 import type { StripSummary } from '../screening/aggregate.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { escapeHtml } from './escape.js';
-import { formatFixed, formatGrouped, roundDown125 } from './format.js';
+import { formatFixed, formatGrouped, roundDown125 } from '../output/format.js';
 import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES, patternId, stripPatternDefs, type StripClass } from './palette.js';
 import { fitView, pathData, type MapView } from './svg-path.js';
 import { lossPerKm } from '../screening/aggregate.js';
@@ -42,7 +42,7 @@ interface LineWidths {
  * spacing on the map, so that in a dense district the lines do not cover the strips.
  */
 function lineWidths(result: ScreenResult, view: MapView): LineWidths {
-  const spacings = result.strips.map((strip) => strip.spacingMeanM).filter(Number.isFinite).sort((a, b) => a - b);
+  const spacings = result.strips.map((strip) => strip.strip.spacingMeanM).filter(Number.isFinite).sort((a, b) => a - b);
   const spacingPx = spacings.length > 0 ? spacings[Math.floor(spacings.length / 2)] * view.pxPerM : Infinity;
   const maxPx = Math.min(4.5, Math.max(1, spacingPx / 4));
   return { minPx: Math.min(0.8, maxPx / 3), maxPx, top: widthScaleTop(result), unpairedPx: Math.min(7, Math.max(2, spacingPx / 2)) };
@@ -88,7 +88,7 @@ function boundsOf(linesM: Float64Array[][], strips: StripSummary[]): [number, nu
     }
   };
   for (const parts of linesM) for (const part of parts) add(part);
-  for (const strip of strips) add(strip.ringM);
+  for (const strip of strips) add(strip.strip.ringM);
   if (!Number.isFinite(minX)) return [0, 0, 1000, 1000];
   return [minX, minY, maxX, maxY];
 }
@@ -207,7 +207,7 @@ export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}
       (strip) =>
         // no <title> per strip: the page's script shows the strip's row of the table on hover,
         // which keeps a 10,000-strip map from carrying every figure twice
-        `<path class="strip-shape risk-${stripClass(strip)}" data-strip-id="${escapeHtml(strip.stripId)}" d="${pathData(view, strip.ringM, minStepPx, true)}"/>`,
+        `<path class="strip-shape risk-${stripClass(strip)}" data-strip-id="${escapeHtml(strip.stripId)}" d="${pathData(view, strip.strip.ringM, minStepPx, true)}"/>`,
     )
     .join('\n');
 

@@ -1,10 +1,10 @@
 // The report's own style sheet and its one small script (hover on the map, sorting the table).
 // Both are constants: no data is ever written into them, so nothing from the input can end a
 // <script> or <style> element early. The page loads nothing from anywhere.
-import { RANKING_COLUMNS } from '../io/layers.js';
+import { RANKING_COLUMNS } from '../output/layers.js';
 import { LINE_COLOURS, STRIP_CLASSES, patternId } from './palette.js';
 
-const TEXT_COLUMNS = new Set(['strip_id', 'canal_a', 'canal_b', 'flags']);
+const TEXT_COLUMNS = new Set(['strip_id', 'line_a', 'line_b', 'flags']);
 
 /** How the table sorts a column of ranking.csv: as numbers, as text, or by risk class. */
 export function columnKind(column: string): 'num' | 'text' | 'risk' {
@@ -129,7 +129,7 @@ export const PAGE_SCRIPT = `
 
   if (!map || !tip) return;
   var rowsById = null;
-  var shown = ['canal_a', 'canal_b', 'loss_m3_d', 'loss_m3_d_km', 'loss_m3_yr', 'min_depth_m', 'risk', 'risk_area_ha', 'flags'];
+  var shown = ['line_a', 'line_b', 'loss_m3_d', 'loss_m3_d_km', 'loss_m3_yr', 'min_depth_m', 'risk', 'risk_area_ha', 'flags'];
   var columns = heads.map(function (th) { return th.getAttribute('data-column'); });
   var idColumn = columns.indexOf('strip_id');
 

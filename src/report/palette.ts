@@ -2,7 +2,7 @@
 // K. Ito, "Color Universal Design", 2008), chosen to stay apart for the common kinds of colour
 // vision deficiency [from memory]; every risk class also has a pattern and a text label of its own,
 // so no reading depends on colour alone.
-import type { RiskClass } from '../screening/settings.js';
+import type { RiskClass } from '../shared/settings.js';
 
 export const OKABE_ITO = {
   black: '#000000',

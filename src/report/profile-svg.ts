@@ -4,7 +4,7 @@
 // and no element ids.
 import type { Profile } from '../screening/profile.js';
 import { escapeHtml } from './escape.js';
-import { formatFixed, formatGrouped, ticks } from './format.js';
+import { formatFixed, formatGrouped, ticks } from '../output/format.js';
 import { OKABE_ITO } from './palette.js';
 import { simplifyMarks } from './svg-path.js';
 
@@ -64,7 +64,7 @@ const BELOW_GAP_PX = 22;
 
 function verticalScale(profile: Profile, top: number, bottom: number): VerticalScale {
   const n = profile.xM.length;
-  let high = Math.max(profile.stageAM, profile.stageBM, profile.peakHeadM);
+  let high = Math.max(profile.stageAM, profile.stageBM, profile.peakWaterTableM);
   let low = Math.min(profile.stageAM, profile.stageBM);
   for (let i = 0; i < n; i++) {
     high = Math.max(high, profile.groundM[i], profile.waterTableM[i]);
@@ -175,7 +175,7 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   stage(profile.widthM, profile.stageBM, profile.lineB, 'end');
 
   // the peak, labelled with its elevation; at a line it is labelled on the strip's side
-  const peakX = px(profile.peakOffsetM), peakY = py(profile.peakHeadM);
+  const peakX = px(profile.peakOffsetM), peakY = py(profile.peakWaterTableM);
   const peakAnchor = peakX - x0 < 50 ? 'start' : xL - peakX < 50 ? 'end' : 'middle';
   const labelX = peakAnchor === 'start' ? peakX + 10 : peakAnchor === 'end' ? peakX - 10 : peakX;
   parts.push(`<circle cx="${r(peakX)}" cy="${r(peakY)}" r="3.5" fill="${OKABE_ITO.blue}" stroke="#ffffff" stroke-width="1"/>`);
@@ -185,7 +185,7 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   parts.push(`<text x="${r(labelX)}" y="${r(peakY - 24)}" text-anchor="${peakAnchor}" font-size="10" fill="#333333">${peakWord}</text>`);
   parts.push(
     `<text class="peak-label" data-strip-id="${escapeHtml(profile.stripId)}" x="${r(labelX)}" y="${r(peakY - 12)}" text-anchor="${peakAnchor}" font-weight="bold">` +
-      `${peakLabelText(profile.peakHeadM)}</text>`,
+      `${peakLabelText(profile.peakWaterTableM)}</text>`,
   );
 
   // axes

@@ -2,12 +2,12 @@
 // top strips, the ranked table, the run). Pure: same result and meta in, same bytes out. Inline
 // CSS, inline SVG and one small inline script; a Content-Security-Policy forbids every fetch.
 import { FACING_REASON_NAMES } from '../geometry/index.js';
-import { CAUTION } from '../io/run-record.js';
-import { RANKING_COLUMNS, rankingRow } from '../io/layers.js';
+import { CAUTION } from '../output/run-record.js';
+import { RANKING_COLUMNS, rankingRow } from '../output/layers.js';
 import { keyFacing, profileOfFacing } from '../screening/profile.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { escapeHtml } from './escape.js';
-import { formatFixed, formatGrouped } from './format.js';
+import { formatFixed, formatGrouped } from '../output/format.js';
 import { renderDistrictMap } from './map-svg.js';
 import { columnKind, PAGE_CSS, PAGE_SCRIPT } from './page-assets.js';
 import { STRIP_CLASSES, STRIP_STYLES, patternId } from './palette.js';
@@ -119,7 +119,7 @@ function profilesSection(result: ScreenResult, top: number): string {
   if (strips.length === 0) return `<section id="profiles"><h2>Cross-sections</h2><p>No strips.</p></section>`;
   const figures = strips.map((strip, i) => {
     const solved = profileOfFacing(result, strip, keyFacing(result, strip));
-    const profile = solved && orientFromLineA(solved, strip.canalA);
+    const profile = solved && orientFromLineA(solved, strip.lineAId);
     const caption =
       `#${i + 1} ${escapeHtml(strip.stripId)}: ${escapeHtml(STRIP_STYLES[strip.risk ?? 'unsolved'].label)}, ` +
       `loss ${formatFixed(strip.lossM3PerDayKm, 1)} m³/d per km, smallest depth ${formatFixed(strip.minDepthM, 2)} m` +

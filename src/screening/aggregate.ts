@@ -2,25 +2,20 @@
 // its own stations only, so nothing is counted twice: a strip's loss for line a sums a's
 // stations facing b, and its loss for line b sums b's stations facing a.
 import { FACING_PAIRED, FACING_REASON_NAMES, type FacingTable, type StationTable, type Strip } from '../geometry/index.js';
-import { SOLVE_OK, SOLVE_STATUS_NAMES } from '../hydraulics/strip-solver.js';
+import { SOLVE_OK, SOLVE_STATUS_NAMES } from '../hydraulics/transect-solver.js';
 import type { LineRecord } from './district-inputs.js';
 import { FLAG_NARROW, FLAG_UNEVEN_BASE, FLAG_ZONE_OVERLAP, NOT_PAIRED, type FacingResults } from './solve-facings.js';
-import { riskClass, type RiskClass, type ScreenSettings } from './settings.js';
+import { riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 
 export interface StripSummary {
+  /** The strip as the geometry stage built it: its lines (indices), stations, chainages, spacing and ring. */
+  strip: Strip;
   stripId: string;
-  lineA: number;
-  lineB: number;
-  canalA: string;
-  canalB: string;
+  /** Ids of the strip's lines a and b. */
+  lineAId: string;
+  lineBId: string;
   /** Length along line a (m). */
   lengthM: number;
-  /** Chainage range on line a of a's stations, and on line b where a's transects land (m). */
-  chainageAM: [number, number];
-  chainageBM: [number, number];
-  spacingMeanM: number;
-  spacingMinM: number;
-  spacingMaxM: number;
   /** Mean seepage per metre of each line (m^2/d); positive when the line loses water. */
   qAM2PerDay: number;
   qBM2PerDay: number;
@@ -29,14 +24,13 @@ export interface StripSummary {
   /** Positive losses of both lines in the strip (m^3/d), and per km of strip along line a. */
   lossM3PerDay: number;
   lossM3PerDayKm: number;
-  peakWtM: number;
+  peakWaterTableM: number;
   peakOffsetM: number;
   minDepthM: number;
   risk: RiskClass | null;
   riskAreaHa: number;
   dupuitRatioMin: number;
   flags: string[];
-  ringM: Float64Array;
   /** Facing indices of a's and b's transects in this strip. */
   facingsA: Uint32Array;
   facingsB: Uint32Array;
@@ -80,12 +74,12 @@ export function summariseStrip(
       unsolvedReasons.add(status === NOT_PAIRED ? FACING_REASON_NAMES[facings.reason[facing]] : SOLVE_STATUS_NAMES[status]);
       return;
     }
-    const loss = results.seepageM2PerDay[facing] * length;
+    const loss = results.ownSeepageM2PerDay[facing] * length;
     if (fromA) { lossA += loss; solvedLengthA += length; shallowAreaM2 += results.shallowM[facing] * length; }
     else { lossB += loss; solvedLengthB += length; }
     flagBits |= results.flags[facing];
-    if (results.peakHeadM[facing] > peak) {
-      peak = results.peakHeadM[facing];
+    if (results.peakWaterTableM[facing] > peak) {
+      peak = results.peakWaterTableM[facing];
       peakOffset = fromA ? results.peakOffsetM[facing] : facings.gapM[facing] - results.peakOffsetM[facing];
     }
     if (results.minDepthM[facing] < minDepth) minDepth = results.minDepthM[facing];
@@ -106,31 +100,24 @@ export function summariseStrip(
   if (solvedLengthB === 0) lossB = NaN;
   const lossM3PerDay = solvedAny ? (lossA > 0 ? lossA : 0) + (lossB > 0 ? lossB : 0) : NaN;
   return {
+    strip,
     stripId: strip.id,
-    lineA: strip.lineA,
-    lineB: strip.lineB,
-    canalA: lines[strip.lineA].id,
-    canalB: lines[strip.lineB].id,
+    lineAId: lines[strip.lineA].id,
+    lineBId: lines[strip.lineB].id,
     lengthM: lengthA,
-    chainageAM: strip.chainageA,
-    chainageBM: strip.chainageB,
-    spacingMeanM: strip.spacingMeanM,
-    spacingMinM: strip.spacingMinM,
-    spacingMaxM: strip.spacingMaxM,
     qAM2PerDay: solvedLengthA > 0 ? lossA / solvedLengthA : NaN,
     qBM2PerDay: solvedLengthB > 0 ? lossB / solvedLengthB : NaN,
     lossAM3PerDay: lossA,
     lossBM3PerDay: lossB,
     lossM3PerDay,
     lossM3PerDayKm: lengthA > 0 ? lossM3PerDay / (lengthA / 1000) : NaN,
-    peakWtM: solvedAny ? peak : NaN,
+    peakWaterTableM: solvedAny ? peak : NaN,
     peakOffsetM: solvedAny ? peakOffset : NaN,
     minDepthM: solvedAny ? minDepth : NaN,
     risk: solvedAny ? riskClass(minDepth, settings.risk) : null,
     riskAreaHa: shallowAreaM2 / 10_000,
     dupuitRatioMin: solvedAny ? ratioMin : NaN,
     flags,
-    ringM: strip.ringM,
     facingsA,
     facingsB,
   };
@@ -160,7 +147,7 @@ export function summariseLines(
       if (facings.reason[facing] === FACING_PAIRED) {
         paired = true;
         if (results.status[facing] === SOLVE_OK) {
-          summary.lossM3PerDay += results.seepageM2PerDay[facing] * length;
+          summary.lossM3PerDay += results.ownSeepageM2PerDay[facing] * length;
           summary.solvedSidesM += length;
         }
       } else {

@@ -2,9 +2,17 @@
 // below the aquifer base under it (an error: the strip solution cannot hold), a stage far above
 // ground, and zones that overlap. Runs on valid records, in lon/lat, before projection.
 import Flatbush from 'flatbush';
-import { area, bbox, booleanPointInPolygon, centroid, distance, intersect, featureCollection, multiPolygon, polygon, union } from '@turf/turf';
+import { area } from '@turf/area';
+import { bbox } from '@turf/bbox';
+import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
+import { centroid } from '@turf/centroid';
+import { distance } from '@turf/distance';
+import { featureCollection, multiPolygon, polygon } from '@turf/helpers';
+import { intersect } from '@turf/intersect';
+import { union } from '@turf/union';
 import type { Feature, MultiPolygon } from 'geojson';
-import { stageAtChainage, type LineRecord, type Problem, type ZoneRecord } from './district-inputs.js';
+import type { Problem } from '../shared/errors.js';
+import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
 
 // An embankment canal stands a few metres above the land at most; more is most often a datum
 // or unit mix-up (common practice).

@@ -1,10 +1,14 @@
 // Validation stage: turns GeoJSON features (lon/lat) into typed records of lines and zones, and
 // lists every problem found with its file, feature and field. A feature with an error is left
 // out of the records; warnings keep it. Pure: no file access.
-import { area, booleanPointInPolygon, booleanValid, kinks, polygon as turfPolygon } from '@turf/turf';
-import { kToMPerDay, lengthToM, rechargeFromMPerDay, rechargeToMPerDay } from '../hydraulics/units.js';
-import { describePlace, type DataProblemPlace } from '../io/data-error.js';
-import type { InputRules } from './input-rules.js';
+import { area } from '@turf/area';
+import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
+import { booleanValid } from '@turf/boolean-valid';
+import { polygon as turfPolygon } from '@turf/helpers';
+import { kinks } from '@turf/kinks';
+import { kToMPerDay, lengthToM, rechargeFromMPerDay, rechargeToMPerDay } from '../shared/units.js';
+import { describePlace, type DataProblemPlace, type Problem } from '../shared/errors.js';
+import type { InputRules } from '../shared/input-rules.js';
 
 export type LineKind = 'canal' | 'drain';
 
@@ -39,19 +43,9 @@ export interface ZoneRecord {
   polygonsLonLat: number[][][][];
 }
 
-export interface Problem {
-  severity: 'error' | 'warning';
-  place: DataProblemPlace;
-  message: string;
-}
-
 export interface Checked<T> {
   records: T[];
   problems: Problem[];
-}
-
-export function formatProblem(problem: Problem): string {
-  return `${problem.severity}: ${describePlace(problem.place)}: ${problem.message}`;
 }
 
 // Thrown inside one feature's check; caught per feature so that every feature gets checked.

@@ -1,7 +1,7 @@
 // Cross-section of one transect: the water table from line to line over ground and base, for
 // the report and for `doab profile`. It solves the transect again from the same inputs.
 import { cutTransect } from '../geometry/index.js';
-import { SOLVE_OK, TransectSolver } from '../hydraulics/strip-solver.js';
+import { SOLVE_OK, TransectSolver } from '../hydraulics/transect-solver.js';
 import type { StripSummary } from './aggregate.js';
 import { loadCut } from './solve-facings.js';
 import type { ScreenResult } from './screen.js';
@@ -27,7 +27,7 @@ export interface Profile {
   xM: Float64Array;
   waterTableM: Float64Array;
   groundM: Float64Array;
-  peakHeadM: number;
+  peakWaterTableM: number;
   peakOffsetM: number;
   minDepthM: number;
   seepageAM2PerDay: number;
@@ -36,12 +36,12 @@ export interface Profile {
   potentialDepthM: number;
 }
 
-/** The strip's key transect: the one holding its peak water table (peak_wt_m), first found on ties. */
+/** The strip's key transect: the one holding its peak water table (peak_water_table_m), first found on ties. */
 export function keyFacing(result: ScreenResult, strip: StripSummary): number {
   let best = -1, bestPeak = -Infinity;
   for (const list of [strip.facingsA, strip.facingsB]) {
     for (const facing of list) {
-      const peak = result.results.peakHeadM[facing];
+      const peak = result.results.peakWaterTableM[facing];
       if (peak > bestPeak) { bestPeak = peak; best = facing; }
     }
   }
@@ -64,7 +64,7 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
     pieces.push({ id: zone.id, fromM: x, toM: x + solver.lengthM[p], groundM: zone.groundM, kMPerDay: zone.kMPerDay });
     x += solver.lengthM[p];
   }
-  const status = solver.solve(results.stageAM[facing], results.stageBM[facing], results.baseM[facing], n);
+  const status = solver.solve(results.ownStageM[facing], results.partnerStageM[facing], results.baseM[facing], n);
   if (status !== SOLVE_OK) return null;
   solver.scanDepth(result.settings.bankWidthM);
   const width = solver.widthM;
@@ -80,18 +80,18 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
     lineA: ownLine,
     lineB: partner,
     widthM: width,
-    stageAM: results.stageAM[facing],
-    stageBM: results.stageBM[facing],
+    stageAM: results.ownStageM[facing],
+    stageBM: results.partnerStageM[facing],
     baseM: results.baseM[facing],
     zones: pieces,
     xM,
     waterTableM: xM.map((v) => solver.headAt(v)),
     groundM: xM.map((v) => solver.groundAt(v)),
-    peakHeadM: solver.peakHeadM,
+    peakWaterTableM: solver.peakWaterTableM,
     peakOffsetM: solver.peakOffsetM,
     minDepthM: solver.minDepthM,
-    seepageAM2PerDay: solver.seepageAM2PerDay,
-    seepageBM2PerDay: solver.seepageBM2PerDay,
+    seepageAM2PerDay: solver.ownSeepageM2PerDay,
+    seepageBM2PerDay: solver.partnerSeepageM2PerDay,
     waterloggedDepthM: result.settings.risk.waterloggedDepthM,
     potentialDepthM: result.settings.risk.potentialDepthM,
   };

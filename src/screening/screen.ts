@@ -14,13 +14,13 @@ import {
   type StationTable,
   type ZoneIndex,
 } from '../geometry/index.js';
-import { chooseWorkCrs, type WorkCrs } from '../io/crs.js';
-import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
+import { chooseWorkCrs, type WorkCrs } from '../geometry/work-crs.js';
+import { m3PerDayToM3PerYear } from '../shared/units.js';
 import { summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { NOT_PAIRED, solveFacings, type FacingResults } from './solve-facings.js';
-import { SOLVE_OK } from '../hydraulics/strip-solver.js';
-import { RISK_CLASSES, type RiskClass, type ScreenSettings } from './settings.js';
+import { SOLVE_OK } from '../hydraulics/transect-solver.js';
+import { RISK_CLASSES, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 
 export interface DistrictTotals {
   /** What the lines that lose water lose to the ground, summed over those lines (m^3/d). */

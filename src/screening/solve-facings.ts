@@ -11,9 +11,9 @@ import {
   type TransectCut,
   type ZoneIndex,
 } from '../geometry/index.js';
-import { SOLVE_OK, TransectSolver } from '../hydraulics/strip-solver.js';
+import { SOLVE_OK, TransectSolver } from '../hydraulics/transect-solver.js';
 import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
-import type { ScreenSettings } from './settings.js';
+import type { ScreenSettings } from '../shared/settings.js';
 
 export const FLAG_NARROW = 1;
 export const FLAG_UNEVEN_BASE = 2;
@@ -31,16 +31,16 @@ export interface FacingResults {
   /** 0 = solved (SOLVE_OK); otherwise a solver status; 255 = not paired (see the facing's reason). */
   status: Uint8Array;
   flags: Uint8Array;
-  stageAM: Float64Array;
-  stageBM: Float64Array;
+  ownStageM: Float64Array;
+  partnerStageM: Float64Array;
   baseM: Float64Array;
   /** Seepage from the station's own line into this side's strip (m^2/d). */
-  seepageM2PerDay: Float64Array;
+  ownSeepageM2PerDay: Float64Array;
   /** Seepage from the partner line at the transect's far end (m^2/d), for the mass balance. */
   partnerSeepageM2PerDay: Float64Array;
   /** Recharge over the whole transect, sum of N l (m^2/d). */
   rechargeM2PerDay: Float64Array;
-  peakHeadM: Float64Array;
+  peakWaterTableM: Float64Array;
   /** Distance of the peak from the station's own line (m). */
   peakOffsetM: Float64Array;
   minDepthM: Float64Array;
@@ -67,13 +67,13 @@ export function solveFacings(
   const results: FacingResults = {
     status: new Uint8Array(n).fill(NOT_PAIRED),
     flags: new Uint8Array(n),
-    stageAM: new Float64Array(n).fill(NaN),
-    stageBM: new Float64Array(n).fill(NaN),
+    ownStageM: new Float64Array(n).fill(NaN),
+    partnerStageM: new Float64Array(n).fill(NaN),
     baseM: new Float64Array(n).fill(NaN),
-    seepageM2PerDay: new Float64Array(n).fill(NaN),
+    ownSeepageM2PerDay: new Float64Array(n).fill(NaN),
     partnerSeepageM2PerDay: new Float64Array(n).fill(NaN),
     rechargeM2PerDay: new Float64Array(n).fill(NaN),
-    peakHeadM: new Float64Array(n).fill(NaN),
+    peakWaterTableM: new Float64Array(n).fill(NaN),
     peakOffsetM: new Float64Array(n).fill(NaN),
     minDepthM: new Float64Array(n).fill(NaN),
     shallowM: new Float64Array(n).fill(NaN),
@@ -101,22 +101,22 @@ export function solveFacings(
     const baseM = loaded[LOADED_BASE];
     const ownLine = stations.line[station];
     const partner = facings.partner[i];
-    const stageAM = stageAtChainage(lines[ownLine], stations.chainageM[station], lineLengthsM[ownLine]);
-    const stageBM = stageAtChainage(lines[partner], facings.partnerChainageM[i], lineLengthsM[partner]);
-    results.stageAM[i] = stageAM;
-    results.stageBM[i] = stageBM;
+    const ownStageM = stageAtChainage(lines[ownLine], stations.chainageM[station], lineLengthsM[ownLine]);
+    const partnerStageM = stageAtChainage(lines[partner], facings.partnerChainageM[i], lineLengthsM[partner]);
+    results.ownStageM[i] = ownStageM;
+    results.partnerStageM[i] = partnerStageM;
     results.baseM[i] = baseM;
     if (cut.overlapM > UNCOVERED_TOLERANCE_M) results.flags[i] |= FLAG_ZONE_OVERLAP;
     if (cut.uncoveredM > 0) results.uncoveredM[i] = cut.uncoveredM;
-    const status = solver.solve(stageAM, stageBM, baseM, pieces);
+    const status = solver.solve(ownStageM, partnerStageM, baseM, pieces);
     results.status[i] = status;
     if (status !== SOLVE_OK) continue;
-    results.seepageM2PerDay[i] = solver.seepageAM2PerDay;
-    results.partnerSeepageM2PerDay[i] = solver.seepageBM2PerDay;
+    results.ownSeepageM2PerDay[i] = solver.ownSeepageM2PerDay;
+    results.partnerSeepageM2PerDay[i] = solver.partnerSeepageM2PerDay;
     let recharge = 0;
     for (let p = 0; p < pieces; p++) recharge += solver.rechargeMPerDay[p] * solver.lengthM[p];
     results.rechargeM2PerDay[i] = recharge;
-    results.peakHeadM[i] = solver.peakHeadM;
+    results.peakWaterTableM[i] = solver.peakWaterTableM;
     results.peakOffsetM[i] = solver.peakOffsetM;
     solver.scanDepth(settings.bankWidthM);
     results.minDepthM[i] = solver.minDepthM;

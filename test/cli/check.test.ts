@@ -180,7 +180,7 @@ describe('doab screen --skip-invalid', () => {
     // the good pair is screened as if the bad lines were not there: one strip between a and b
     const strips = readJson(join(out, 'strips.geojson'));
     expect(strips.features).toHaveLength(1);
-    expect(strips.features[0].properties.canal_a).toBe('a-upper');
+    expect(strips.features[0].properties.line_a).toBe('a-upper');
   });
 
   it('still stops on a problem with a whole file, since no feature can be skipped to fix it', () => {

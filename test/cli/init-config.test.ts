@@ -3,7 +3,7 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { parseConfig } from '../../src/screening/config.js';
+import { parseConfig } from '../../src/input/config.js';
 import { freshDir, readJson, ROOT, runCli } from './run-cli.js';
 
 const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');

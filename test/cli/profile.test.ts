@@ -1,8 +1,9 @@
 import { appendFileSync, copyFileSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { profileCommand, safeId } from '../../src/cli/profile-command.js';
-import { DataError } from '../../src/io/data-error.js';
+import { profileCommand } from '../../src/cli/profile-command.js';
+import { safeId } from '../../src/output/profile-table.js';
+import { DataError } from '../../src/shared/errors.js';
 import { freshDir, readCsv, readJson, ROOT, runCli } from './run-cli.js';
 
 const DEMO = join(ROOT, 'data-demo');
@@ -42,7 +43,7 @@ describe('profileCommand', () => {
     expect(svg.startsWith('<svg xmlns="http://www.w3.org/2000/svg"')).toBe(true);
     const label = svg.match(/<text class="peak-label" data-strip-id="([^"]*)"[^>]*>([^<]*)<\/text>/);
     expect(label?.[1]).toBe('C-11|D-09|0');
-    expect(label?.[2]).toBe(`${strip.peak_wt_m.toFixed(2)} m`);
+    expect(label?.[2]).toBe(`${strip.peak_water_table_m.toFixed(2)} m`);
 
     const text = readFileSync(join(run, 'profile-C-11_D-09_0.csv'), 'utf8');
     expect(text.split('\n')[0]).toBe('x_m,water_table_m,ground_m,base_m');
@@ -54,7 +55,7 @@ describe('profileCommand', () => {
     expect(new Set(rows.map((row) => row.base_m))).toEqual(new Set([150]));
     expect(new Set(rows.map((row) => row.ground_m))).toEqual(new Set([184]));
     // the highest sample is the peak, which the profile samples exactly
-    expect(Math.max(...rows.map((row) => row.water_table_m))).toBeCloseTo(strip.peak_wt_m, 3);
+    expect(Math.max(...rows.map((row) => row.water_table_m))).toBeCloseTo(strip.peak_water_table_m, 3);
     // away from the banks (10 m beside each line), the water table is nowhere shallower than the strip's smallest depth
     const width = rows[rows.length - 1].x_m;
     const inland = rows.filter((row) => row.x_m >= 10 && row.x_m <= width - 10);
@@ -73,7 +74,7 @@ describe('profileCommand', () => {
     expect(existsSync(join(out, `${name}.svg`))).toBe(true);
     expect(existsSync(join(out, `${name}.csv`))).toBe(true);
     const svg = readFileSync(join(out, `${name}.svg`), 'utf8');
-    expect(svg).toContain(`${strip.peak_wt_m.toFixed(2)} m</text>`);
+    expect(svg).toContain(`${strip.peak_water_table_m.toFixed(2)} m</text>`);
   });
 
   it("measures x from the strip's line a, as peak_offset_m is, whichever side the key transect came from", async () => {
@@ -83,10 +84,10 @@ describe('profileCommand', () => {
     const rows = readCsv(join(out, 'profile-C-05_D-06_0.csv')).map((row) => Object.fromEntries(Object.entries(row).map(([k, v]) => [k, Number(v)])));
     const highest = rows.reduce((best, row) => (row.water_table_m > best.water_table_m ? row : best));
     expect(highest.x_m).toBeCloseTo(strip.peak_offset_m, 2);
-    expect(highest.water_table_m).toBeCloseTo(strip.peak_wt_m, 3);
+    expect(highest.water_table_m).toBeCloseTo(strip.peak_water_table_m, 3);
     // C-05 loses water into this strip, so its end of the water table is the peak
     expect(rows[0].x_m).toBe(0);
-    expect(rows[0].water_table_m).toBeCloseTo(strip.peak_wt_m, 3);
+    expect(rows[0].water_table_m).toBeCloseTo(strip.peak_water_table_m, 3);
   });
 
   it('names a few valid ids when the strip is unknown', async () => {
@@ -106,20 +107,20 @@ describe('profileCommand', () => {
     );
   });
 
-  it('refuses a folder without run.json, and a record with a setting it does not know', async () => {
+  it('refuses a folder without run.json, and a record with a setting it does not know, naming the key as run.json writes it', async () => {
     const empty = freshDir('profile-empty');
     await expect(profileCommand({ run: empty, strip: 'C-11|D-09|0' }, capture().io)).rejects.toThrow(/run\.json: not found: is .* an output folder of doab screen\?/);
 
     const edited = freshDir('profile-edited');
     const record = readJson(join(run, 'run.json'));
-    record.settings.new_setting_m = 5;
+    record.settings.newSettingM = 5;
     writeFileSync(join(edited, 'run.json'), JSON.stringify(record));
-    await expect(profileCommand({ run: edited, strip: 'C-11|D-09|0' }, capture().io)).rejects.toThrow(/field "settings\.new_setting_m": a setting this version of doab profile does not know/);
+    await expect(profileCommand({ run: edited, strip: 'C-11|D-09|0' }, capture().io)).rejects.toThrow(/run\.json: unknown key "settings\.newSettingM"/);
 
-    delete record.settings.new_setting_m;
-    record.settings.step_m = -1;
+    delete record.settings.newSettingM;
+    record.settings.stepM = -1;
     writeFileSync(join(edited, 'run.json'), JSON.stringify(record));
-    await expect(profileCommand({ run: edited, strip: 'C-11|D-09|0' }, capture().io)).rejects.toThrow(/"stepM" must be a positive number/);
+    await expect(profileCommand({ run: edited, strip: 'C-11|D-09|0' }, capture().io)).rejects.toThrow(/"settings\.stepM" must be a positive number/);
   });
 
   it('re-runs with the recorded settings, not the defaults', async () => {
@@ -132,7 +133,7 @@ describe('profileCommand', () => {
     expect(onlyCoarse).toBeDefined();
     const { io, out } = capture();
     expect(await profileCommand({ run: coarse, strip: onlyCoarse.strip_id }, io)).toBe(0);
-    expect(out.join('')).toContain(`peak water table ${onlyCoarse.peak_wt_m.toFixed(2)} m`);
+    expect(out.join('')).toContain(`peak water table ${onlyCoarse.peak_water_table_m.toFixed(2)} m`);
   });
 
   it('makes a file name of any id', () => {

@@ -4,6 +4,7 @@ import { createHash } from 'node:crypto';
 import { mkdtempSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, relative, resolve } from 'node:path';
+import { main } from '../../src/cli/main.js';
 
 export const ROOT = resolve(import.meta.dirname, '../..');
 const ENTRY = join(ROOT, 'src/cli/entry.ts');
@@ -17,6 +18,13 @@ export interface CliRun {
 export function runCli(args: string[]): CliRun {
   const run = spawnSync(process.execPath, ['--import', 'tsx', ENTRY, ...args], { cwd: ROOT, encoding: 'utf8', timeout: 120_000 });
   return { status: run.status, stdout: run.stdout, stderr: run.stderr };
+}
+
+/** The CLI's main() in this process, with its output captured: the same code path as bin/doab.js, without starting Node. */
+export async function runCliInProcess(args: string[]): Promise<CliRun> {
+  let stdout = '', stderr = '';
+  const status = await main(args, { out: (text) => (stdout += text), err: (text) => (stderr += text) });
+  return { status, stdout, stderr };
 }
 
 export function freshDir(prefix: string): string {

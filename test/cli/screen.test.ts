@@ -9,15 +9,15 @@ const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');
 const DEMO = join(ROOT, 'data-demo');
 
 const STRIP_FIELDS = [
-  'strip_id', 'canal_a', 'canal_b', 'length_m', 'spacing_m', 'spacing_min_m', 'spacing_max_m', 'q_a_m2_d', 'q_b_m2_d',
-  'loss_a_m3_d', 'loss_b_m3_d', 'peak_wt_m', 'peak_offset_m', 'min_depth_m', 'risk', 'risk_area_ha', 'dupuit_ratio_min', 'flags',
+  'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'spacing_min_m', 'spacing_max_m', 'q_a_m2_d', 'q_b_m2_d',
+  'loss_a_m3_d', 'loss_b_m3_d', 'peak_water_table_m', 'peak_offset_m', 'min_depth_m', 'risk', 'risk_area_ha', 'dupuit_ratio_min', 'flags',
 ];
 const LINE_FIELDS = ['loss_m3_d', 'loss_m3_d_km', 'paired_m', 'unpaired_m', 'unpaired_reasons'];
 const RANKING_FIELDS = [
-  'rank', 'strip_id', 'canal_a', 'canal_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km', 'loss_m3_yr',
+  'rank', 'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km', 'loss_m3_yr',
   'min_depth_m', 'risk', 'risk_area_ha', 'flags',
 ];
-const TEXT_FIELDS = new Set(['strip_id', 'canal_a', 'canal_b', 'risk', 'flags']);
+const TEXT_FIELDS = new Set(['strip_id', 'line_a', 'line_b', 'risk', 'flags']);
 
 function screen(canals: string, aquifer: string, extra: string[] = []) {
   const out = freshDir('screen');
@@ -77,7 +77,7 @@ describe('doab screen on two parallel canals', () => {
     // W.W. Woessner and E.P. Poeter (2020), section 7.3 [published]): K 10, h0 15, hL 13, L 400 -> 0.700 m^2/d.
     expect(layers.strips.features).toHaveLength(1);
     const strip = layers.strips.features[0].properties;
-    expect(strip.canal_a).toBe('a-upper');
+    expect(strip.line_a).toBe('a-upper');
     expect(strip.q_a_m2_d).toBeGreaterThan(0.7 * 0.99);
     expect(strip.q_a_m2_d).toBeLessThan(0.7 * 1.01);
     expect(strip.loss_a_m3_d).toBeGreaterThan(1400 * 0.98);
@@ -153,7 +153,8 @@ describe('doab screen on the demo district', () => {
   it('records inputs, settings and counts in run.json', () => {
     const record = layers.record;
     expect(record.inputs.canals.sha256).toMatch(/^[0-9a-f]{64}$/);
-    expect(record.settings.step_m).toBe(100);
+    expect(record.settings.stepM).toBe(100);
+    expect(record.settings.risk.waterloggedDepthM).toBe(2);
     expect(record.work_crs.epsg).toBeGreaterThan(32600);
     expect(record.counts.strips).toBe(layers.strips.features.length);
   });

@@ -7,7 +7,7 @@ import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { zipSync } from 'fflate';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { readFeatureFile, type InputFile } from '../../src/io/read-features.js';
+import { readFeatureFile, type InputFile } from '../../src/input/read-features.js';
 import { freshDir, readJson, ROOT, runCli } from './run-cli.js';
 
 const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');
@@ -135,7 +135,7 @@ describe.skipIf(!hasOgr)('round trip through GDAL', () => {
       expect(fromShapefile).toHaveLength(fromGeoJson.length);
       expect(fromGeoJson.length).toBeGreaterThan(0);
       fromGeoJson.forEach((strip: Record<string, number>, i: number) => {
-        expect(fromShapefile[i].canal_a).toBe(strip.canal_a);
+        expect(fromShapefile[i].line_a).toBe(strip.line_a);
         expect(Math.abs(fromShapefile[i].q_a_m2_d / strip.q_a_m2_d - 1)).toBeLessThan(0.001);
         expect(Math.abs(fromShapefile[i].loss_a_m3_d / strip.loss_a_m3_d - 1)).toBeLessThan(0.001);
       });

@@ -1,5 +1,7 @@
 // Invariants every geometry run must keep, shared by the fixture and property tests.
-import { booleanValid, kinks, polygon } from '@turf/turf';
+import { booleanValid } from '@turf/boolean-valid';
+import { polygon } from '@turf/helpers';
+import { kinks } from '@turf/kinks';
 import { expect } from 'vitest';
 import { FACING_PAIRED, type FacingTable, type StationTable, type Strip } from '../../src/geometry/index.js';
 

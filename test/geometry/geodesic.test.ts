@@ -1,7 +1,7 @@
 import GeographicLib from 'geographiclib-geodesic';
 import { describe, expect, it } from 'vitest';
 import { buildStrips, castTransects, placeStations, type LineGeometry } from '../../src/geometry/index.js';
-import { chooseWorkCrs, scaleAt, utmZone } from '../../src/io/crs.js';
+import { chooseWorkCrs, scaleAt, utmZone } from '../../src/geometry/work-crs.js';
 
 // Two lines defined in lon/lat, densified every 0.002 degrees so they follow the parallel or
 // meridian closely once projected.

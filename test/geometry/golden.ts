@@ -14,7 +14,7 @@ import {
   type StationTable,
   type Strip,
 } from '../../src/geometry/index.js';
-import { chooseWorkCrs, type WorkCrs } from '../../src/io/crs.js';
+import { chooseWorkCrs, type WorkCrs } from '../../src/geometry/work-crs.js';
 
 const FIXTURES = join(dirname(fileURLToPath(import.meta.url)), '..', 'fixtures', 'geometry');
 

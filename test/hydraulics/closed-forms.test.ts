@@ -1,10 +1,10 @@
 // The strip solver against the closed forms of steady Dupuit-Forchheimer flow between two fully
 // penetrating canals on a horizontal base (x from line a at 0 to line b at L, q towards +x).
-// Sign convention of the solver: seepageAM2PerDay = q(0) (positive when line a loses),
-// seepageBM2PerDay = -q(L) (positive when line b loses).
+// Sign convention of the solver: ownSeepageM2PerDay = q(0) (positive when line a loses),
+// partnerSeepageM2PerDay = -q(L) (positive when line b loses).
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { TransectSolver } from '../../src/hydraulics/strip-solver.js';
+import { TransectSolver } from '../../src/hydraulics/transect-solver.js';
 import type { StripProblem } from '../../src/hydraulics/solve-strip.js';
 import { expectNear, oneZone, solveOk } from './strip-fixtures.js';
 
@@ -34,56 +34,56 @@ function uMaxClosed(h0: number, hL: number, lengthM: number, k: number, n: numbe
 interface Case {
   name: string;
   baseM: number;
-  stageAM: number;
-  stageBM: number;
+  ownStageM: number;
+  partnerStageM: number;
   lengthM: number;
   kMPerDay: number;
   rechargeMPerDay: number;
 }
 
 function problemOf(c: Case): StripProblem {
-  return oneZone(c.stageAM, c.stageBM, c.baseM, {
+  return oneZone(c.ownStageM, c.partnerStageM, c.baseM, {
     lengthM: c.lengthM,
     kMPerDay: c.kMPerDay,
     rechargeMPerDay: c.rechargeMPerDay,
-    groundM: c.stageAM + 50,
+    groundM: c.ownStageM + 50,
   });
 }
 
 // Handpicked to cover: no recharge, a divide inside, a divide outside, net evaporation, thin and
 // thick aquifers, line b higher than line a, equal stages.
 const cases: Case[] = [
-  { name: 'REFERENCES canal example', baseM: 90, stageAM: 105, stageBM: 103, lengthM: 400, kMPerDay: 10, rechargeMPerDay: 0 },
-  { name: 'two rivers with recharge', baseM: 0, stageAM: 20, stageBM: 18, lengthM: 1000, kMPerDay: 0.5, rechargeMPerDay: 0.05 / 365 },
-  { name: 'equal stages, mound', baseM: 50, stageAM: 62, stageBM: 62, lengthM: 800, kMPerDay: 5, rechargeMPerDay: 1e-3 },
-  { name: 'divide outside the strip', baseM: 0, stageAM: 30, stageBM: 10, lengthM: 500, kMPerDay: 20, rechargeMPerDay: 2e-4 },
-  { name: 'net evaporation', baseM: 0, stageAM: 15, stageBM: 14, lengthM: 600, kMPerDay: 8, rechargeMPerDay: -1e-4 },
-  { name: 'thin, permeable', baseM: 10, stageAM: 14, stageBM: 12.5, lengthM: 250, kMPerDay: 80, rechargeMPerDay: 5e-4 },
-  { name: 'line b higher', baseM: -20, stageAM: -12, stageBM: -8, lengthM: 1500, kMPerDay: 2, rechargeMPerDay: 4e-4 },
-  { name: 'wide, tight', baseM: 200, stageAM: 235, stageBM: 215, lengthM: 3000, kMPerDay: 0.3, rechargeMPerDay: 3e-5 },
+  { name: 'REFERENCES canal example', baseM: 90, ownStageM: 105, partnerStageM: 103, lengthM: 400, kMPerDay: 10, rechargeMPerDay: 0 },
+  { name: 'two rivers with recharge', baseM: 0, ownStageM: 20, partnerStageM: 18, lengthM: 1000, kMPerDay: 0.5, rechargeMPerDay: 0.05 / 365 },
+  { name: 'equal stages, mound', baseM: 50, ownStageM: 62, partnerStageM: 62, lengthM: 800, kMPerDay: 5, rechargeMPerDay: 1e-3 },
+  { name: 'divide outside the strip', baseM: 0, ownStageM: 30, partnerStageM: 10, lengthM: 500, kMPerDay: 20, rechargeMPerDay: 2e-4 },
+  { name: 'net evaporation', baseM: 0, ownStageM: 15, partnerStageM: 14, lengthM: 600, kMPerDay: 8, rechargeMPerDay: -1e-4 },
+  { name: 'thin, permeable', baseM: 10, ownStageM: 14, partnerStageM: 12.5, lengthM: 250, kMPerDay: 80, rechargeMPerDay: 5e-4 },
+  { name: 'line b higher', baseM: -20, ownStageM: -12, partnerStageM: -8, lengthM: 1500, kMPerDay: 2, rechargeMPerDay: 4e-4 },
+  { name: 'wide, tight', baseM: 200, ownStageM: 235, partnerStageM: 215, lengthM: 3000, kMPerDay: 0.3, rechargeMPerDay: 3e-5 },
 ];
 
 describe('one zone without recharge (Fetter [from memory]; Woessner and Poeter 2020, 7.3 [published])', () => {
   it('canals 400 m apart at 105 m and 103 m, base 90 m, K 10 m/d: a loses 0.700 m^2/d, b gains it', () => {
     const s = solveOk(new TransectSolver(1), problemOf(cases[0]));
     // q = K (h0^2 - hL^2)/(2L) = 10 (15^2 - 13^2)/800 = 10 * 56/800 = 0.7 m^2/d [derived]
-    expectNear(s.seepageAM2PerDay, 0.7, 1e-12, 'seepage a');
-    expectNear(s.seepageBM2PerDay, -0.7, 1e-12, 'seepage b');
+    expectNear(s.ownSeepageM2PerDay, 0.7, 1e-12, 'seepage a');
+    expectNear(s.partnerSeepageM2PerDay, -0.7, 1e-12, 'seepage b');
     expect(s.divideOffsetM).toBeNaN();
-    expectNear(s.peakHeadM, 105, 1e-12, 'peak head');
+    expectNear(s.peakWaterTableM, 105, 1e-12, 'peak head');
     expectNear(s.peakOffsetM, 0, 0, 'peak offset');
   });
 
   it.each(cases.filter((c) => c.rechargeMPerDay === 0).concat([
-    { name: 'b higher, no recharge', baseM: 0, stageAM: 7, stageBM: 19, lengthM: 900, kMPerDay: 35, rechargeMPerDay: 0 },
-    { name: 'small difference', baseM: 3, stageAM: 33.01, stageBM: 33, lengthM: 2000, kMPerDay: 1.5, rechargeMPerDay: 0 },
+    { name: 'b higher, no recharge', baseM: 0, ownStageM: 7, partnerStageM: 19, lengthM: 900, kMPerDay: 35, rechargeMPerDay: 0 },
+    { name: 'small difference', baseM: 3, ownStageM: 33.01, partnerStageM: 33, lengthM: 2000, kMPerDay: 1.5, rechargeMPerDay: 0 },
   ]))('$name: q = K (h0^2 - hL^2)/(2L) and h(x)^2 = h0^2 - (h0^2 - hL^2) x/L', (c) => {
     const s = solveOk(new TransectSolver(1), problemOf(c));
-    const h0 = c.stageAM - c.baseM, hL = c.stageBM - c.baseM;
+    const h0 = c.ownStageM - c.baseM, hL = c.partnerStageM - c.baseM;
     const q = (c.kMPerDay * (h0 * h0 - hL * hL)) / (2 * c.lengthM);
     const qTol = 1e-12 * (c.kMPerDay * (h0 * h0 + hL * hL)) / (2 * c.lengthM);
-    expectNear(s.seepageAM2PerDay, q, qTol, 'seepage a');
-    expectNear(s.seepageBM2PerDay, -q, qTol, 'seepage b');
+    expectNear(s.ownSeepageM2PerDay, q, qTol, 'seepage a');
+    expectNear(s.partnerSeepageM2PerDay, -q, qTol, 'seepage b');
     for (const f of [0, 0.1, 0.25, 0.5, 0.75, 0.9, 1]) {
       const x = f * c.lengthM;
       const h = Math.sqrt(h0 * h0 - ((h0 * h0 - hL * hL) * x) / c.lengthM);
@@ -97,12 +97,12 @@ describe('one zone with uniform recharge (Fetter [from memory]; Woessner and Poe
   it.each(cases)('$name: u(x), q(x), divide and maximum height', (c) => {
     const s = solveOk(new TransectSolver(1), problemOf(c));
     const { lengthM: len, kMPerDay: k, rechargeMPerDay: n } = c;
-    const h0 = c.stageAM - c.baseM, hL = c.stageBM - c.baseM;
+    const h0 = c.ownStageM - c.baseM, hL = c.partnerStageM - c.baseM;
     const qScale = Math.max((k * (h0 * h0 + hL * hL)) / (2 * len), Math.abs(n) * len);
-    expectNear(s.seepageAM2PerDay, qClosed(h0, hL, len, k, n, 0), 1e-12 * qScale, 'seepage a = q(0)');
-    expectNear(s.seepageBM2PerDay, -qClosed(h0, hL, len, k, n, len), 1e-12 * qScale, 'seepage b = -q(L)');
+    expectNear(s.ownSeepageM2PerDay, qClosed(h0, hL, len, k, n, 0), 1e-12 * qScale, 'seepage a = q(0)');
+    expectNear(s.partnerSeepageM2PerDay, -qClosed(h0, hL, len, k, n, len), 1e-12 * qScale, 'seepage b = -q(L)');
     // q(L) - q(0) = N L: the recharge leaves through the two lines
-    expectNear(s.seepageAM2PerDay + s.seepageBM2PerDay, -n * len, 1e-12 * qScale, 'mass balance');
+    expectNear(s.ownSeepageM2PerDay + s.partnerSeepageM2PerDay, -n * len, 1e-12 * qScale, 'mass balance');
     for (const f of [0, 1 / 7, 1 / 3, 0.5, 0.8, 1]) {
       const x = f * len;
       const u = uClosed(h0, hL, len, k, n, x);
@@ -117,18 +117,18 @@ describe('one zone with uniform recharge (Fetter [from memory]; Woessner and Poe
       expectNear(s.divideOffsetM, xd, 1e-9 * len, 'divide');
       expectNear(s.peakOffsetM, xd, 1e-9 * len, 'peak offset');
       const uMax = uMaxClosed(h0, hL, len, k, n);
-      expectNear(s.peakHeadM, c.baseM + Math.sqrt(uMax), 1e-10 * Math.sqrt(uMax), 'peak head');
+      expectNear(s.peakWaterTableM, c.baseM + Math.sqrt(uMax), 1e-10 * Math.sqrt(uMax), 'peak head');
       expectNear(uClosed(h0, hL, len, k, n, xd), uMax, 1e-10 * uMax, 'u(x_d) = u_max');
     } else {
       expect(s.divideOffsetM).toBeNaN();
-      expectNear(s.peakHeadM, Math.max(c.stageAM, c.stageBM), 0, 'peak head at the higher line');
-      expectNear(s.peakOffsetM, c.stageAM >= c.stageBM ? 0 : len, 0, 'peak offset at the higher line');
+      expectNear(s.peakWaterTableM, Math.max(c.ownStageM, c.partnerStageM), 0, 'peak head at the higher line');
+      expectNear(s.peakOffsetM, c.ownStageM >= c.partnerStageM ? 0 : len, 0, 'peak offset at the higher line');
     }
   });
 
   it('the handpicked cases include divides inside and outside the strip', () => {
     const inside = cases.filter((c) => {
-      const h0 = c.stageAM - c.baseM, hL = c.stageBM - c.baseM;
+      const h0 = c.ownStageM - c.baseM, hL = c.partnerStageM - c.baseM;
       return c.rechargeMPerDay > 0 && (c.rechargeMPerDay * c.lengthM ** 2) / c.kMPerDay > Math.abs(h0 * h0 - hL * hL);
     });
     expect(inside.length).toBeGreaterThanOrEqual(3);
@@ -147,8 +147,8 @@ describe('one zone with uniform recharge (Fetter [from memory]; Woessner and Poe
         (h0, hL, len, k, n) => {
           solveOk(solver, oneZone(100 + h0, 100 + hL, 100, { lengthM: len, kMPerDay: k, rechargeMPerDay: n, groundM: 300 }));
           const qScale = Math.max((k * (h0 * h0 + hL * hL)) / (2 * len), n * len);
-          expectNear(solver.seepageAM2PerDay, qClosed(h0, hL, len, k, n, 0), 1e-11 * qScale, 'seepage a');
-          expectNear(solver.seepageBM2PerDay, -qClosed(h0, hL, len, k, n, len), 1e-11 * qScale, 'seepage b');
+          expectNear(solver.ownSeepageM2PerDay, qClosed(h0, hL, len, k, n, 0), 1e-11 * qScale, 'seepage a');
+          expectNear(solver.partnerSeepageM2PerDay, -qClosed(h0, hL, len, k, n, len), 1e-11 * qScale, 'seepage b');
           for (const f of [0.2, 0.5, 0.7]) {
             expectNear(solver.fluxAt(f * len), qClosed(h0, hL, len, k, n, f * len), 1e-11 * qScale, 'flux');
           }
@@ -156,7 +156,7 @@ describe('one zone with uniform recharge (Fetter [from memory]; Woessner and Poe
           if (xd > 1e-6 * len && xd < len * (1 - 1e-6)) {
             expectNear(solver.divideOffsetM, xd, 1e-8 * len, 'divide');
             const uMax = uMaxClosed(h0, hL, len, k, n);
-            expectNear(solver.peakHeadM, 100 + Math.sqrt(uMax), 1e-9 * Math.sqrt(uMax), 'peak head');
+            expectNear(solver.peakWaterTableM, 100 + Math.sqrt(uMax), 1e-9 * Math.sqrt(uMax), 'peak head');
           } else if (xd < -1e-6 * len || xd > len * (1 + 1e-6)) {
             expect(solver.divideOffsetM).toBeNaN();
           }
@@ -183,10 +183,10 @@ describe('zones in series without recharge', () => {
       { lengthM: 400, kMPerDay: 5, rechargeMPerDay: 0, groundM: 30 },
       { lengthM: 600, kMPerDay: 20, rechargeMPerDay: 0, groundM: 30 },
     ];
-    const s = solveOk(new TransectSolver(2), { stageAM: 12, stageBM: 10, baseM: 0, zones });
+    const s = solveOk(new TransectSolver(2), { ownStageM: 12, partnerStageM: 10, baseM: 0, zones });
     // (144 - 100)/(2 (80 + 30)) = 44/220 = 0.2
-    expectNear(s.seepageAM2PerDay, 0.2, 1e-14, 'seepage a');
-    expectNear(s.seepageBM2PerDay, -0.2, 1e-14, 'seepage b');
+    expectNear(s.ownSeepageM2PerDay, 0.2, 1e-14, 'seepage a');
+    expectNear(s.partnerSeepageM2PerDay, -0.2, 1e-14, 'seepage b');
     // u at the zone edge: 144 - 2 (0.2)(80) = 112
     expectNear(s.headAt(400), Math.sqrt(112), 1e-12, 'head at the zone edge');
     expectNear(s.fluxAt(200), 0.2, 1e-14, 'flux in zone 1');
@@ -206,13 +206,13 @@ describe('zones in series without recharge', () => {
         fc.array(zone, { minLength: 1, maxLength: 8 }),
         (h0, hL, zs) => {
           const zones = zs.map((z) => ({ ...z, rechargeMPerDay: 0, groundM: 100 }));
-          solveOk(solver, { stageAM: 10 + h0, stageBM: 10 + hL, baseM: 10, zones });
+          solveOk(solver, { ownStageM: 10 + h0, partnerStageM: 10 + hL, baseM: 10, zones });
           const q = seriesFlux(h0, hL, zs);
           // the flux a line would carry with the other line at the base, so a near-zero q is
           // still checked to a meaningful absolute tolerance
           const qScale = seriesFlux(Math.max(h0, hL), 0, zs);
-          expectNear(solver.seepageAM2PerDay, q, 1e-9 * qScale, 'seepage a');
-          expectNear(solver.seepageBM2PerDay, -q, 1e-9 * qScale, 'seepage b');
+          expectNear(solver.ownSeepageM2PerDay, q, 1e-9 * qScale, 'seepage a');
+          expectNear(solver.partnerSeepageM2PerDay, -q, 1e-9 * qScale, 'seepage b');
           let u = h0 * h0, x = 0;
           for (const z of zs) {
             x += z.lengthM;

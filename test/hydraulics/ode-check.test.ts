@@ -12,7 +12,7 @@
 // continuous, decreasing function of Q(0) so the root finder can bracket it.
 import { describe, expect, it } from 'vitest';
 import { Outcome, Solver } from '#odex';
-import { SOLVE_OK, TransectSolver } from '../../src/hydraulics/strip-solver.js';
+import { SOLVE_OK, TransectSolver } from '../../src/hydraulics/transect-solver.js';
 import type { ZoneSpec } from '../../src/hydraulics/solve-strip.js';
 import { expectNear, seededRandom, solveWith } from './strip-fixtures.js';
 
@@ -170,7 +170,7 @@ function acceptedCases(seed: number, count: number, ranges: CaseRanges) {
   let rejected = 0;
   for (let attempt = 0; attempt < 20 * count && accepted.length < count; attempt++) {
     const c = randomCase(random, ranges);
-    const status = solveWith(solver, { stageAM: c.baseM + c.h0, stageBM: c.baseM + c.hL, baseM: c.baseM, zones: c.zones });
+    const status = solveWith(solver, { ownStageM: c.baseM + c.h0, partnerStageM: c.baseM + c.hL, baseM: c.baseM, zones: c.zones });
     if (status !== SOLVE_OK) { rejected++; continue; }
     const ode = odeProfile(c);
     if (ode.hThinnest < THINNEST_ACCEPTED_M) { rejected++; continue; }
@@ -228,19 +228,19 @@ describe('strip solver against a shooting solution with ODEX (Hairer and Wanner)
   it.each(accepted.map(({ c, ode }, i) => [`case ${i} (${c.zones.length} zones)`, c, ode] as const))(
     '%s: seepage at both lines, heads at the edges and the peak agree to 1e-6',
     (_name, c, ode) => {
-      const status = solveWith(solver, { stageAM: c.baseM + c.h0, stageBM: c.baseM + c.hL, baseM: c.baseM, zones: c.zones });
+      const status = solveWith(solver, { ownStageM: c.baseM + c.h0, partnerStageM: c.baseM + c.hL, baseM: c.baseM, zones: c.zones });
       expect(status).toBe(SOLVE_OK);
       // relative to the larger of the two end flows, so a line near the divide is still held to
       // a meaningful tolerance
       const flowScale = Math.max(Math.abs(ode.flowStart), Math.abs(ode.flowEnd));
-      expectNear(solver.seepageAM2PerDay, ode.flowStart, 1e-6 * flowScale, 'seepage a = Q(0)');
-      expectNear(solver.seepageBM2PerDay, -ode.flowEnd, 1e-6 * flowScale, 'seepage b = -Q(L)');
+      expectNear(solver.ownSeepageM2PerDay, ode.flowStart, 1e-6 * flowScale, 'seepage a = Q(0)');
+      expectNear(solver.partnerSeepageM2PerDay, -ode.flowEnd, 1e-6 * flowScale, 'seepage b = -Q(L)');
       let x = 0;
       c.zones.forEach((zone, j) => {
         x += zone.lengthM;
         expectNear(solver.headAt(x) - c.baseM, ode.hEdge[j + 1], 1e-6 * ode.hEdge[j + 1], `h at edge ${j + 1}`);
       });
-      expectNear(solver.peakHeadM - c.baseM, ode.hPeak, 1e-6 * ode.hPeak, 'peak thickness');
+      expectNear(solver.peakWaterTableM - c.baseM, ode.hPeak, 1e-6 * ode.hPeak, 'peak thickness');
     },
   );
 });

@@ -3,7 +3,7 @@
 // of inputs that have no Dupuit-Forchheimer solution.
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver } from '../../src/hydraulics/strip-solver.js';
+import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver } from '../../src/hydraulics/transect-solver.js';
 import { solveStrip, type StripProblem, type ZoneSpec } from '../../src/hydraulics/solve-strip.js';
 import { expectNear, solveWith } from './strip-fixtures.js';
 
@@ -37,7 +37,7 @@ function arbitraryStrip(recharge: { min: number; max: number }, maxZones = 6): f
 }
 
 function problemOf(d: Drawn): StripProblem {
-  return { stageAM: d.baseM + d.h0, stageBM: d.baseM + d.hL, baseM: d.baseM, zones: d.zones };
+  return { ownStageM: d.baseM + d.h0, partnerStageM: d.baseM + d.hL, baseM: d.baseM, zones: d.zones };
 }
 
 const totalRecharge = (zones: ZoneSpec[]) => zones.reduce((sum, z) => sum + z.rechargeMPerDay * z.lengthM, 0);
@@ -61,11 +61,11 @@ describe('mass balance', () => {
       fc.property(arbitraryStrip({ min: -2e-4, max: 2e-3 }), (d) => {
         fc.pre(solveWith(a, problemOf(d)) === SOLVE_OK);
         const scale = flowScale(d);
-        expectNear(a.seepageAM2PerDay + a.seepageBM2PerDay + totalRecharge(d.zones), 0, 1e-9 * scale, 'balance');
+        expectNear(a.ownSeepageM2PerDay + a.partnerSeepageM2PerDay + totalRecharge(d.zones), 0, 1e-9 * scale, 'balance');
         expectNear(a.massResidualM2PerDay, 0, 1e-9 * scale, 'reported residual');
         // flux at the ends of the profile matches the seepage the solver reports
-        expectNear(a.fluxAt(0), a.seepageAM2PerDay, 1e-9 * scale, 'q(0)');
-        expectNear(a.fluxAt(a.widthM), -a.seepageBM2PerDay, 1e-9 * scale, 'q(L)');
+        expectNear(a.fluxAt(0), a.ownSeepageM2PerDay, 1e-9 * scale, 'q(0)');
+        expectNear(a.fluxAt(a.widthM), -a.partnerSeepageM2PerDay, 1e-9 * scale, 'q(L)');
       }),
       RUNS,
     );
@@ -83,13 +83,13 @@ describe('symmetry: swapping the lines and reversing the zones mirrors the solut
         fc.pre(solveWith(a, problemOf(d)) === SOLVE_OK);
         expect(solveWith(b, problemOf(mirrored(d)))).toBe(SOLVE_OK);
         const scale = flowScale(d);
-        expectNear(b.seepageAM2PerDay, a.seepageBM2PerDay, 1e-9 * scale, 'mirrored seepage a');
-        expectNear(b.seepageBM2PerDay, a.seepageAM2PerDay, 1e-9 * scale, 'mirrored seepage b');
-        const headScale = Math.abs(d.baseM) + (a.peakHeadM - d.baseM);
-        expectNear(b.peakHeadM, a.peakHeadM, 1e-11 * headScale, 'peak head');
+        expectNear(b.ownSeepageM2PerDay, a.partnerSeepageM2PerDay, 1e-9 * scale, 'mirrored seepage a');
+        expectNear(b.partnerSeepageM2PerDay, a.ownSeepageM2PerDay, 1e-9 * scale, 'mirrored seepage b');
+        const headScale = Math.abs(d.baseM) + (a.peakWaterTableM - d.baseM);
+        expectNear(b.peakWaterTableM, a.peakWaterTableM, 1e-11 * headScale, 'peak head');
         expectNear(b.minDepthM, a.minDepthM, 1e-9 * 50, 'smallest depth');
         // two equal peaks may be reported from either end, so check the mirrored place is a peak
-        expectNear(a.headAt(a.widthM - b.peakOffsetM), a.peakHeadM, 1e-9 * headScale, 'head at the mirrored peak');
+        expectNear(a.headAt(a.widthM - b.peakOffsetM), a.peakWaterTableM, 1e-9 * headScale, 'head at the mirrored peak');
         for (const f of [0.1, 0.37, 0.5, 0.81]) {
           expectNear(b.headAt(b.widthM - f * a.widthM), a.headAt(f * a.widthM), 1e-9 * headScale, 'profile');
         }
@@ -126,12 +126,12 @@ describe('response to conductivity and stage', () => {
         fc.pre(Math.abs(d.h0 - d.hL) >= 0.01);
         expect(solveWith(a, problemOf(d))).toBe(SOLVE_OK);
         expect(solveWith(b, problemOf(scaled(d, s)))).toBe(SOLVE_OK);
-        expect(Math.abs(b.seepageAM2PerDay)).toBeGreaterThan(Math.abs(a.seepageAM2PerDay));
-        expect(Math.abs(b.seepageBM2PerDay)).toBeGreaterThan(Math.abs(a.seepageBM2PerDay));
+        expect(Math.abs(b.ownSeepageM2PerDay)).toBeGreaterThan(Math.abs(a.ownSeepageM2PerDay));
+        expect(Math.abs(b.partnerSeepageM2PerDay)).toBeGreaterThan(Math.abs(a.partnerSeepageM2PerDay));
         // [derived] q = (h0^2 - hL^2)/(2 sum(l/K)) is proportional to K
         // (the tolerance is on the flow scale: with a short, permeable first zone the small
         // difference of u across it carries only about 1e-9 of the seepage's digits)
-        expectNear(b.seepageAM2PerDay, s * a.seepageAM2PerDay, 1e-9 * s * flowScale(d), 'scaled seepage');
+        expectNear(b.ownSeepageM2PerDay, s * a.ownSeepageM2PerDay, 1e-9 * s * flowScale(d), 'scaled seepage');
       }),
       RUNS,
     );
@@ -145,8 +145,8 @@ describe('response to conductivity and stage', () => {
         // scaling K up only shrinks the effect of recharge, so the scaled strip cannot dry out
         expect(solveWith(b, problemOf(scaled(d, s)))).toBe(SOLVE_OK);
         const higherA = d.h0 > d.hL;
-        const before = higherA ? a.seepageAM2PerDay : a.seepageBM2PerDay;
-        const after = higherA ? b.seepageAM2PerDay : b.seepageBM2PerDay;
+        const before = higherA ? a.ownSeepageM2PerDay : a.partnerSeepageM2PerDay;
+        const after = higherA ? b.ownSeepageM2PerDay : b.partnerSeepageM2PerDay;
         expect(after).toBeGreaterThan(before);
         // [derived] u is linear in the boundary values and in N/K: with K -> sK the part of q(0)
         // driven by the stages scales by s and the part driven by recharge does not change, so
@@ -163,14 +163,14 @@ describe('response to conductivity and stage', () => {
       fc.property(arbitraryStrip({ min: -2e-4, max: 2e-3 }), fc.double({ min: 0.01, max: 5, noNaN: true }), (d, rise) => {
         fc.pre(solveWith(a, problemOf(d)) === SOLVE_OK);
         expect(solveWith(b, problemOf({ ...d, h0: d.h0 + rise }))).toBe(SOLVE_OK);
-        expect(b.seepageAM2PerDay).toBeGreaterThan(a.seepageAM2PerDay);
-        expect(b.seepageBM2PerDay).toBeLessThan(a.seepageBM2PerDay);
+        expect(b.ownSeepageM2PerDay).toBeGreaterThan(a.ownSeepageM2PerDay);
+        expect(b.partnerSeepageM2PerDay).toBeLessThan(a.partnerSeepageM2PerDay);
         const scale = flowScale(d);
-        expectNear(b.seepageBM2PerDay - a.seepageBM2PerDay, -(b.seepageAM2PerDay - a.seepageAM2PerDay), 1e-9 * scale, 'b change');
+        expectNear(b.partnerSeepageM2PerDay - a.partnerSeepageM2PerDay, -(b.ownSeepageM2PerDay - a.ownSeepageM2PerDay), 1e-9 * scale, 'b change');
         // [derived] by linearity in u, the change is the change in h0^2 over the series resistance
         const du = (d.h0 + rise) ** 2 - d.h0 ** 2;
-        expectNear(b.seepageAM2PerDay - a.seepageAM2PerDay, du / (2 * resistance(d.zones)), 1e-9 * scale, 'a change');
-        expect(b.peakHeadM).toBeGreaterThanOrEqual(a.peakHeadM);
+        expectNear(b.ownSeepageM2PerDay - a.ownSeepageM2PerDay, du / (2 * resistance(d.zones)), 1e-9 * scale, 'a change');
+        expect(b.peakWaterTableM).toBeGreaterThanOrEqual(a.peakWaterTableM);
       }),
       RUNS,
     );
@@ -183,8 +183,8 @@ describe('shallowLengthM', () => {
     // Ground 13 m above the base, depth 2 m: shallow where u > 11^2 = 121, x (1000 - x) > 210000,
     // x in (300, 700).
     const s = solveStrip({
-      stageAM: 100,
-      stageBM: 100,
+      ownStageM: 100,
+      partnerStageM: 100,
       baseM: 90,
       zones: [{ lengthM: 1000, kMPerDay: 10, rechargeMPerDay: 1e-3, groundM: 103 }],
     });
@@ -196,7 +196,7 @@ describe('shallowLengthM', () => {
     // banks of 350 m beside each canal leave (350, 650), all of it shallow; banks of 100 m leave
     // the whole 400 m
     const t = new TransectSolver(1);
-    solveWith(t, { stageAM: 100, stageBM: 100, baseM: 90, zones: [{ lengthM: 1000, kMPerDay: 10, rechargeMPerDay: 1e-3, groundM: 103 }] });
+    solveWith(t, { ownStageM: 100, partnerStageM: 100, baseM: 90, zones: [{ lengthM: 1000, kMPerDay: 10, rechargeMPerDay: 1e-3, groundM: 103 }] });
     expectNear(t.shallowLengthM(2, 350), 300, 1e-9, 'shallow length beyond 350 m banks');
     expectNear(t.shallowLengthM(2, 100), 400, 1e-9, 'shallow length beyond 100 m banks');
     expectNear(t.shallowLengthM(13, 100), 800, 1e-9, 'all but the banks');
@@ -283,7 +283,7 @@ describe('smallest depth', () => {
             largestStep = Math.max(largestStep, Math.abs(head - previousHead));
             previousHead = head;
           }
-          const headScale = Math.abs(d.baseM) + (a.peakHeadM - d.baseM);
+          const headScale = Math.abs(d.baseM) + (a.peakWaterTableM - d.baseM);
           expect(a.minDepthM).toBeLessThanOrEqual(least + 1e-9 * headScale);
           expect(a.minDepthM).toBeGreaterThanOrEqual(least - largestStep - 1e-9 * headScale);
           expect(a.minDepthOffsetM).toBeGreaterThanOrEqual(from - 1e-9 * a.widthM);
@@ -298,8 +298,8 @@ describe('smallest depth', () => {
 
 describe('invalid physics returns the reason, not a number', () => {
   const good: StripProblem = {
-    stageAM: 105,
-    stageBM: 103,
+    ownStageM: 105,
+    partnerStageM: 103,
     baseM: 90,
     zones: [
       { lengthM: 200, kMPerDay: 10, rechargeMPerDay: 0, groundM: 110 },
@@ -326,9 +326,9 @@ describe('invalid physics returns the reason, not a number', () => {
   });
 
   it.each([
-    ['stage a at the base', { ...good, stageAM: 90 }],
-    ['stage b below the base', { ...good, stageBM: 89.99 }],
-    ['both stages below the base', { ...good, stageAM: 80, stageBM: 70 }],
+    ['stage a at the base', { ...good, ownStageM: 90 }],
+    ['stage b below the base', { ...good, partnerStageM: 89.99 }],
+    ['both stages below the base', { ...good, ownStageM: 80, partnerStageM: 70 }],
   ])('%s: stage-at-or-below-base', (_name, problem) => {
     expectReason(problem, 'stage-at-or-below-base', 'at or below the aquifer base 90 m');
   });
@@ -348,8 +348,8 @@ describe('invalid physics returns the reason, not a number', () => {
   });
 
   it.each([
-    ['NaN stage a', { ...good, stageAM: NaN }],
-    ['infinite stage b', { ...good, stageBM: Infinity }],
+    ['NaN stage a', { ...good, ownStageM: NaN }],
+    ['infinite stage b', { ...good, partnerStageM: Infinity }],
     ['NaN base', { ...good, baseM: NaN }],
     ['NaN length', withZone(0, { lengthM: NaN })],
     ['NaN K', withZone(1, { kMPerDay: NaN })],
@@ -367,7 +367,7 @@ describe('invalid physics returns the reason, not a number', () => {
   it('strong net evaporation that dries the aquifer: aquifer-dries', () => {
     // u = 4 - 1e-3 x (1000 - x) would be 4 - 250 in the middle [derived]
     expectReason(
-      { stageAM: 12, stageBM: 12, baseM: 10, zones: [{ lengthM: 1000, kMPerDay: 1, rechargeMPerDay: -1e-3, groundM: 20 }] },
+      { ownStageM: 12, partnerStageM: 12, baseM: 10, zones: [{ lengthM: 1000, kMPerDay: 1, rechargeMPerDay: -1e-3, groundM: 20 }] },
       'aquifer-dries',
       'in zone 1 of 1',
     );
@@ -391,7 +391,7 @@ describe('invalid physics returns the reason, not a number', () => {
             ? (h0 * h0 + hL * hL) / 2 + (n * len * len) / (4 * k) + (k * du * du) / (4 * n * len * len)
             : Math.min(h0 * h0, hL * hL);
           fc.pre(Math.abs(uMin) > 1e-6 * (h0 * h0 + hL * hL));
-          const status = solveWith(a, { stageAM: h0, stageBM: hL, baseM: 0, zones: [{ lengthM: len, kMPerDay: k, rechargeMPerDay: n, groundM: 50 }] });
+          const status = solveWith(a, { ownStageM: h0, partnerStageM: hL, baseM: 0, zones: [{ lengthM: len, kMPerDay: k, rechargeMPerDay: n, groundM: 50 }] });
           expect(SOLVE_STATUS_NAMES[status]).toBe(uMin > 0 ? 'ok' : 'aquifer-dries');
           if (uMin <= 0) dried++;
         },
@@ -408,8 +408,8 @@ describe('invalid physics returns the reason, not a number', () => {
     s.kMPerDay[0] = -1;
     expect(SOLVE_STATUS_NAMES[s.solve(20, 18, 10, 1)]).toBe('non-positive-conductivity');
     expect(s.failedZone).toBe(0);
-    expect(s.seepageAM2PerDay).toBeNaN();
-    expect(s.seepageBM2PerDay).toBeNaN();
+    expect(s.ownSeepageM2PerDay).toBeNaN();
+    expect(s.partnerSeepageM2PerDay).toBeNaN();
     expect(SOLVE_STATUS_NAMES[s.solve(20, 18, 10, 3)]).toBe('no-zones');
   });
 });
@@ -475,7 +475,7 @@ describe('mean thickness and the Dupuit ratio', () => {
   const meanWithoutRecharge = (h0: number, hL: number) => ((2 / 3) * (h0 ** 3 - hL ** 3)) / (h0 ** 2 - hL ** 2);
   const withoutRecharge = (h0: number, hL: number): TransectSolver => {
     const s = new TransectSolver(1);
-    solveWith(s, { stageAM: h0, stageBM: hL, baseM: 0, zones: [{ lengthM: 1000, kMPerDay: 10, rechargeMPerDay: 0, groundM: 50 }] });
+    solveWith(s, { ownStageM: h0, partnerStageM: hL, baseM: 0, zones: [{ lengthM: 1000, kMPerDay: 10, rechargeMPerDay: 0, groundM: 50 }] });
     return s;
   };
 
@@ -497,7 +497,7 @@ describe('mean thickness and the Dupuit ratio', () => {
     //   (1/L)[s sqrt(1 + c s^2) + asinh(s sqrt(c))/sqrt(c)] at s = 500 = (5000 + 150.4155)/1000 = 5.15042 m.
     // (Before the solver integrated sqrt(u) exactly it gave 5.0424 m here.)
     const s = new TransectSolver(1);
-    solveWith(s, { stageAM: 110, stageBM: 110, baseM: 100, zones: [{ lengthM: 1000, kMPerDay: 1, rechargeMPerDay: -3.96e-4, groundM: 115 }] });
+    solveWith(s, { ownStageM: 110, partnerStageM: 110, baseM: 100, zones: [{ lengthM: 1000, kMPerDay: 1, rechargeMPerDay: -3.96e-4, groundM: 115 }] });
     const c = 3.96e-4;
     const sagMean = (500 * Math.sqrt(1 + c * 500 * 500) + Math.asinh(500 * Math.sqrt(c)) / Math.sqrt(c)) / 1000;
     expectNear(sagMean, 5.15042, 5e-6, 'closed form');

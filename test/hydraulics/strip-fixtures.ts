@@ -1,7 +1,7 @@
 // Shared by the hydraulics tests: loading zones into a TransectSolver, a seeded generator, and a
 // closeness check that names what it compares.
 import { expect } from 'vitest';
-import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver } from '../../src/hydraulics/strip-solver.js';
+import { SOLVE_OK, SOLVE_STATUS_NAMES, TransectSolver } from '../../src/hydraulics/transect-solver.js';
 import type { StripProblem, ZoneSpec } from '../../src/hydraulics/solve-strip.js';
 
 /** Fills the solver's zone arrays and solves; throws unless the solve succeeds. */
@@ -18,11 +18,11 @@ export function solveWith(solver: TransectSolver, problem: StripProblem): number
     solver.rechargeMPerDay[j] = zone.rechargeMPerDay;
     solver.groundM[j] = zone.groundM;
   });
-  return solver.solve(problem.stageAM, problem.stageBM, problem.baseM, problem.zones.length);
+  return solver.solve(problem.ownStageM, problem.partnerStageM, problem.baseM, problem.zones.length);
 }
 
-export function oneZone(stageAM: number, stageBM: number, baseM: number, zone: ZoneSpec): StripProblem {
-  return { stageAM, stageBM, baseM, zones: [zone] };
+export function oneZone(ownStageM: number, partnerStageM: number, baseM: number, zone: ZoneSpec): StripProblem {
+  return { ownStageM, partnerStageM, baseM, zones: [zone] };
 }
 
 /** |got - want| <= tol, with the quantity named in the failure message. */

@@ -1,9 +1,9 @@
 // Worked examples with their answers, each checked to the precision it was given with.
-// Sign convention of the solver: seepageAM2PerDay = q(0) and seepageBM2PerDay = -q(L), where q is
+// Sign convention of the solver: ownSeepageM2PerDay = q(0) and partnerSeepageM2PerDay = -q(L), where q is
 // the flow towards line b; a book's "q at x" maps to those with the signs shown in each test.
 import { describe, expect, it } from 'vitest';
 import { solveStrip, type StripProblem, type StripSolution } from '../../src/hydraulics/solve-strip.js';
-import { rechargeToMPerDay } from '../../src/hydraulics/units.js';
+import { rechargeToMPerDay } from '../../src/shared/units.js';
 import { expectNear } from './strip-fixtures.js';
 
 function solved(problem: StripProblem): StripSolution {
@@ -23,8 +23,8 @@ describe('two rivers with recharge: C.W. Fetter, Applied Hydrogeology, Dupuit ex
   // less 10 cm/yr of evaporation. Inputs seen second-hand, printed answers recalled (REFERENCES.md).
   // The book's q(x) is the flow towards the second river: q(0) = seepage a, q(L) = -seepage b.
   const rivers = (rechargeMPerDay: number): StripProblem => ({
-    stageAM: 20,
-    stageBM: 18,
+    ownStageM: 20,
+    partnerStageM: 18,
     baseM: 0,
     zones: [{ lengthM: 1000, kMPerDay: 0.5, rechargeMPerDay, groundM: 30 }],
   });
@@ -33,10 +33,10 @@ describe('two rivers with recharge: C.W. Fetter, Applied Hydrogeology, Dupuit ex
 
   it('printed answers: q(0) -0.05 m^2/d, q(L) 0.087 m^2/d, divide 361 m, h_max 20.9 m', () => {
     const s = solved(rivers(bookRecharge));
-    expectPrinted(s.seepageAM2PerDay, '-0.05', 'q at the first river');
-    expectPrinted(-s.seepageBM2PerDay, '0.087', 'q at the second river');
+    expectPrinted(s.ownSeepageM2PerDay, '-0.05', 'q at the first river');
+    expectPrinted(-s.partnerSeepageM2PerDay, '0.087', 'q at the second river');
     expectPrinted(s.divideOffsetM, '361', 'divide from the first river (m)');
-    expectPrinted(s.peakHeadM, '20.9', 'maximum height of the water table (m)');
+    expectPrinted(s.peakWaterTableM, '20.9', 'maximum height of the water table (m)');
     expect(s.peakOffsetM).toBe(s.divideOffsetM);
   });
 
@@ -45,27 +45,27 @@ describe('two rivers with recharge: C.W. Fetter, Applied Hydrogeology, Dupuit ex
     // x_d = 500 - 0.5 (76)/(2 (0.05/365) 1000) = 500 - 138.7 = 361.3
     // h_max^2 = 362 + (0.05/365)(10^6)/2 + 0.5 (76^2)/(4 (0.05/365) 10^6) = 362 + 68.493 + 5.2706 = 435.76
     const s = solved(rivers(bookRecharge));
-    expectPrinted(s.seepageAM2PerDay, '-0.04949', 'q(0)');
-    expectPrinted(-s.seepageBM2PerDay, '0.08749', 'q(L)');
+    expectPrinted(s.ownSeepageM2PerDay, '-0.04949', 'q(0)');
+    expectPrinted(-s.partnerSeepageM2PerDay, '0.08749', 'q(L)');
     expectPrinted(s.divideOffsetM, '361.3', 'divide');
-    expectPrinted(s.peakHeadM, '20.875', 'h_max');
+    expectPrinted(s.peakWaterTableM, '20.875', 'h_max');
   });
 
   it('a 365.25-day year (doab units) still gives the printed answers', () => {
     const s = solved(rivers(rechargeToMPerDay(50, 'mm/yr')));
     expect(rechargeToMPerDay(50, 'mm/yr')).not.toBe(bookRecharge);
-    expectPrinted(s.seepageAM2PerDay, '-0.05', 'q(0)');
-    expectPrinted(-s.seepageBM2PerDay, '0.087', 'q(L)');
+    expectPrinted(s.ownSeepageM2PerDay, '-0.05', 'q(0)');
+    expectPrinted(-s.partnerSeepageM2PerDay, '0.087', 'q(L)');
     expectPrinted(s.divideOffsetM, '361', 'divide');
-    expectPrinted(s.peakHeadM, '20.9', 'h_max');
+    expectPrinted(s.peakWaterTableM, '20.9', 'h_max');
   });
 
   it('without recharge: 0.019 m^2/d from the first river to the second', () => {
     // q = K (h0^2 - hL^2)/(2L) = 0.5 (400 - 324)/2000 = 0.019 [derived; REFERENCES.md]
     const s = solved(rivers(0));
-    expectPrinted(s.seepageAM2PerDay, '0.019', 'q(0)');
-    expectNear(s.seepageAM2PerDay, 0.019, 1e-15, 'q(0) exactly');
-    expectNear(s.seepageBM2PerDay, -0.019, 1e-15, 'the second river gains the same');
+    expectPrinted(s.ownSeepageM2PerDay, '0.019', 'q(0)');
+    expectNear(s.ownSeepageM2PerDay, 0.019, 1e-15, 'q(0) exactly');
+    expectNear(s.partnerSeepageM2PerDay, -0.019, 1e-15, 'the second river gains the same');
     expect(s.divideOffsetM).toBeNaN();
   });
 });
@@ -85,24 +85,24 @@ describe('irrigated strip between two canals, from the equations of Woessner and
   //         = 100.45 m^2, h_max = 10.0225 m (10.0225^2 = 100.4505), peak 105.0225 m
   //   check: u(30) = 100 - 36 (30/300) + (0.003/6)(30)(270) = 100 - 3.6 + 4.05 = 100.45
   const problem: StripProblem = {
-    stageAM: 105,
-    stageBM: 103,
+    ownStageM: 105,
+    partnerStageM: 103,
     baseM: 95,
     zones: [{ lengthM: 300, kMPerDay: 6, rechargeMPerDay: 0.003, groundM: 110 }],
   };
 
   it('both canals gain: 0.09 and 0.81 m^2/d', () => {
     const s = solved(problem);
-    expectNear(s.seepageAM2PerDay, -0.09, 1e-12, 'seepage a');
-    expectNear(s.seepageBM2PerDay, -0.81, 1e-12, 'seepage b');
+    expectNear(s.ownSeepageM2PerDay, -0.09, 1e-12, 'seepage a');
+    expectNear(s.partnerSeepageM2PerDay, -0.81, 1e-12, 'seepage b');
   });
 
   it('divide 30 m from canal a, peak 105.0225 m, depth below ground 4.9775 m', () => {
     const s = solved(problem);
     expectNear(s.divideOffsetM, 30, 1e-9, 'divide');
     expectNear(s.peakOffsetM, 30, 1e-9, 'peak offset');
-    expectPrinted(s.peakHeadM, '105.0225', 'peak head');
-    expectNear((s.peakHeadM - 95) ** 2, 100.45, 1e-9, 'u_max');
+    expectPrinted(s.peakWaterTableM, '105.0225', 'peak head');
+    expectNear((s.peakWaterTableM - 95) ** 2, 100.45, 1e-9, 'u_max');
     expectPrinted(s.minDepthM, '4.9775', 'smallest depth');
     expectNear(s.fluxAt(30), 0, 1e-12, 'no flow at the divide');
   });
@@ -119,16 +119,16 @@ describe('two zones with recharge, worked by hand [derived]', () => {
   //   q(0) + 0.14 = q(L); q > 0 throughout, so no divide and the peak is canal a.
   it('canal a loses 0.10333, canal b gains 0.24333 m^2/d; h at the edge sqrt(358/3)', () => {
     const s = solved({
-      stageAM: 12,
-      stageBM: 10,
+      ownStageM: 12,
+      partnerStageM: 10,
       baseM: 0,
       zones: [
         { lengthM: 400, kMPerDay: 4, rechargeMPerDay: 1e-4, groundM: 20 },
         { lengthM: 500, kMPerDay: 10, rechargeMPerDay: 2e-4, groundM: 20 },
       ],
     });
-    expectNear(s.seepageAM2PerDay, 0.31 / 3, 1e-12, 'seepage a');
-    expectNear(s.seepageBM2PerDay, -0.73 / 3, 1e-12, 'seepage b');
+    expectNear(s.ownSeepageM2PerDay, 0.31 / 3, 1e-12, 'seepage a');
+    expectNear(s.partnerSeepageM2PerDay, -0.73 / 3, 1e-12, 'seepage b');
     expectNear(s.headAt(400), Math.sqrt(358 / 3), 1e-12, 'head at the zone edge');
     expect(s.divideOffsetM).toBeNaN();
     expect(s.peakOffsetM).toBe(0);

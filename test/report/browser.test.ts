@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { rankingRow, stripProperties } from '../../src/io/layers.js';
+import { rankingRow, stripProperties } from '../../src/output/layers.js';
 import { renderReport, type ReportMeta } from '../../src/report/report.js';
 import type { ScreenResult } from '../../src/screening/screen.js';
 import { DEMO_AQUIFER, DEMO_CANALS, ROOT, screenFiles } from './demo-result.js';
@@ -74,11 +74,11 @@ describe.skipIf(!present && !process.env.CI)('the demo report in headless chromi
     expect(boxes.every((area) => area > 0)).toBe(true);
   });
 
-  it("labels the top strip's cross-section with its peak_wt_m", async () => {
+  it("labels the top strip's cross-section with its peak_water_table_m", async () => {
     const top = result.strips[0];
     const label = page.locator('.peak-label').first();
     expect(await label.getAttribute('data-strip-id')).toBe(top.stripId);
-    expect(await label.textContent()).toBe(`${(stripProperties(top).peak_wt_m as number).toFixed(2)} m`);
+    expect(await label.textContent()).toBe(`${(stripProperties(top).peak_water_table_m as number).toFixed(2)} m`);
   });
 
   it('shows a strip\'s figures on hover', async () => {

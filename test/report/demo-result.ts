@@ -3,9 +3,9 @@
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { loadDistrict } from '../../src/cli/load-district.js';
+import { loadDistrict } from '../../src/input/load-district.js';
 import type { ReportMeta } from '../../src/report/report.js';
-import { defaultConfig } from '../../src/screening/config.js';
+import { defaultConfig } from '../../src/input/config.js';
 import { screenDistrict, type ScreenResult } from '../../src/screening/screen.js';
 
 export const ROOT = resolve(import.meta.dirname, '../..');

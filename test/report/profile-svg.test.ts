@@ -38,7 +38,7 @@ describe('renderProfileSvg', () => {
 
   it('labels the peak with its elevation, over the peak', () => {
     const label = svg.match(/<text class="peak-label"[^>]*>([^<]*)<\/text>/);
-    expect(label?.[1]).toBe(peakLabelText(profile.peakHeadM));
+    expect(label?.[1]).toBe(peakLabelText(profile.peakWaterTableM));
     expect(label?.[1]).toBe('180.73 m');
     const circle = svg.match(/<circle [^>]*>/)![0];
     expect(attribute(label![0], 'y')).toBeLessThan(attribute(circle, 'cy'));
@@ -78,7 +78,7 @@ describe('orientFromLineA', () => {
     const cast = profileOfFacing(result, strip, keyFacing(result, strip))!;
     // in the demo this strip's highest water table is on a transect cast from the drain
     expect(cast.lineA).toBe('D-06');
-    const seen = orientFromLineA(cast, strip.canalA);
+    const seen = orientFromLineA(cast, strip.lineAId);
     expect([seen.lineA, seen.lineB]).toEqual(['C-05', 'D-06']);
     expect([seen.stageAM, seen.stageBM]).toEqual([cast.stageBM, cast.stageAM]);
     expect(seen.xM[0]).toBe(0);
@@ -96,8 +96,8 @@ describe('orientFromLineA', () => {
   it('leaves a profile cast from line a as it is', () => {
     const strip = result.strips[0];
     const cast = profileOfFacing(result, strip, keyFacing(result, strip))!;
-    expect(cast.lineA).toBe(strip.canalA);
-    expect(orientFromLineA(cast, strip.canalA)).toBe(cast);
+    expect(cast.lineA).toBe(strip.lineAId);
+    expect(orientFromLineA(cast, strip.lineAId)).toBe(cast);
   });
 });
 
@@ -105,7 +105,7 @@ describe('renderProfileSvg on hostile ids', () => {
   it('escapes line and strip ids', async () => {
     const copy = hostileDemoCopy();
     const { result } = await screenFiles(copy.canals, copy.aquifer);
-    const strip = result.strips.find((s) => s.canalA === HOSTILE_ID || s.canalB === HOSTILE_ID)!;
+    const strip = result.strips.find((s) => s.lineAId === HOSTILE_ID || s.lineBId === HOSTILE_ID)!;
     const svg = renderProfileSvg(profileOfFacing(result, strip, keyFacing(result, strip))!);
     expect(svg).not.toContain(HOSTILE_ID);
     expect(svg).toContain('C-01&amp;&quot;&#39;&lt;&gt;');

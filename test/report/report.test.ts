@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { FACING_PAIRED } from '../../src/geometry/index.js';
-import { rankingTable, stripProperties } from '../../src/io/layers.js';
+import { rankingTable, stripProperties } from '../../src/output/layers.js';
 import { escapeHtml } from '../../src/report/escape.js';
 import { renderReport, type ReportMeta } from '../../src/report/report.js';
 import type { ScreenResult } from '../../src/screening/screen.js';
@@ -53,13 +53,13 @@ describe('renderReport on the demo district', () => {
     expect(count(html, /<script\b/g)).toBe(1);
   });
 
-  it('labels the top strip\'s cross-section with its peak_wt_m', () => {
+  it('labels the top strip\'s cross-section with its peak_water_table_m', () => {
     const labels = [...html.matchAll(/<text class="peak-label" data-strip-id="([^"]*)"[^>]*>([^<]*)<\/text>/g)];
     expect(labels).toHaveLength(10);
     labels.forEach((label, i) => {
       const strip = result.strips[i];
       expect(label[1]).toBe(escapeHtml(strip.stripId));
-      const peak = stripProperties(strip).peak_wt_m as number;
+      const peak = stripProperties(strip).peak_water_table_m as number;
       expect(label[2]).toBe(`${peak.toFixed(2)} m`);
     });
     expect(labels[0][2]).toBe('180.73 m');
@@ -170,7 +170,7 @@ describe('renderReport on hostile text', () => {
 
   it('escapes an id with & " \' < > everywhere, attributes included', () => {
     const escaped = 'C-01&amp;&quot;&#39;&lt;&gt;';
-    const strips = result.strips.filter((s) => s.canalA === HOSTILE_ID || s.canalB === HOSTILE_ID);
+    const strips = result.strips.filter((s) => s.lineAId === HOSTILE_ID || s.lineBId === HOSTILE_ID);
     expect(strips.length).toBeGreaterThan(0);
     expect(html).not.toContain(HOSTILE_ID);
     expect(html).toContain(`data-strip-id="${escapeHtml(strips[0].stripId)}"`);

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { rechargeToMPerDay } from '../../src/hydraulics/units.js';
+import { rechargeToMPerDay } from '../../src/shared/units.js';
 import { checkZones } from '../../src/screening/district-inputs.js';
-import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
+import { DEFAULT_RULES } from '../../src/shared/input-rules.js';
 
 const square = [[[30, 29], [30.01, 29], [30.01, 29.01], [30, 29.01], [30, 29]]];
 

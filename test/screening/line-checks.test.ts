@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
-import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
+import { DEFAULT_RULES } from '../../src/shared/input-rules.js';
 
 function lineFeature(properties: Record<string, unknown>, coordinates: number[][] = [[30, 29], [30.01, 29]]) {
   return { type: 'Feature', properties, geometry: { type: 'LineString', coordinates } };

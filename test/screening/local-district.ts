@@ -1,10 +1,10 @@
 // Small invented districts laid out in metres of UTM zone 36N, screened in process.
 import { expect } from 'vitest';
-import { chooseWorkCrs } from '../../src/io/crs.js';
+import { chooseWorkCrs } from '../../src/geometry/work-crs.js';
 import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
-import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
+import { DEFAULT_RULES } from '../../src/shared/input-rules.js';
 import { screenDistrict, type ScreenResult } from '../../src/screening/screen.js';
-import { DEFAULT_SETTINGS, type ScreenSettings } from '../../src/screening/settings.js';
+import { DEFAULT_SETTINGS, type ScreenSettings } from '../../src/shared/settings.js';
 
 const WORK_CRS = 'EPSG:32636';
 const { crs } = chooseWorkCrs([30.4, 29.4, 30.6, 29.6], WORK_CRS);

@@ -6,7 +6,7 @@ import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
 import { main } from '../../src/cli/main.js';
-import { neutraliseCell } from '../../src/io/layers.js';
+import { neutraliseCell } from '../../src/output/layers.js';
 import { freshDir, hashTree, readCsv, readJson, ROOT, runCli } from '../cli/run-cli.js';
 
 // lets one test make the screening stage fail as an internal bug would, and leaves it alone otherwise
@@ -79,7 +79,7 @@ describe('doab screen on lines whose ids look like formulas', () => {
   it('neutralises every id cell in ranking.csv and keeps the numbers numbers', () => {
     const rows = readCsv(join(out, 'ranking.csv'));
     expect(rows).toHaveLength(3);
-    const cells = rows.flatMap((row) => [row.canal_a, row.canal_b]);
+    const cells = rows.flatMap((row) => [row.line_a, row.line_b]);
     expect(cells.sort()).toEqual(IDS.flat().map((id) => `'${id.trim()}`).sort());
     for (const row of rows) {
       // the strip id starts with line a's id

@@ -19,22 +19,22 @@ function district() {
 describe('a line facing one partner on both sides', () => {
   it("gives each strip the drain's transects from its own side", () => {
     const result = district();
-    const strips = result.strips.filter((s) => s.canalA === 'A' && s.canalB === 'D' && s.lengthM > 1000);
+    const strips = result.strips.filter((s) => s.lineAId === 'A' && s.lineBId === 'D' && s.lengthM > 1000);
     expect(strips).toHaveLength(2);
     for (const strip of strips) {
       // no recharge: q = K (h0^2 - hL^2) / (2L) (Dupuit; W.W. Woessner and E.P. Poeter (2020), section 7.3 [published])
-      const expected = (K * ((CANAL - BASE) ** 2 - (DRAIN - BASE) ** 2)) / (2 * strip.spacingMeanM);
+      const expected = (K * ((CANAL - BASE) ** 2 - (DRAIN - BASE) ** 2)) / (2 * strip.strip.spacingMeanM);
       expect(strip.qAM2PerDay).toBeCloseTo(expected, 3);
       expect(strip.qBM2PerDay).toBeCloseTo(-expected, 3);
     }
-    const spacings = strips.map((s) => Math.round(s.spacingMeanM / 100) * 100).sort((a, b) => a - b);
+    const spacings = strips.map((s) => Math.round(s.strip.spacingMeanM / 100) * 100).sort((a, b) => a - b);
     expect(spacings).toEqual([500, 800]);
   });
 
   it("counts each of the drain's transects in one strip only, so its loss adds up", () => {
     const result = district();
     const drain = result.lines.findIndex((line) => line.id === 'D');
-    const fromStrips = result.strips.reduce((sum, s) => sum + (s.lineA === drain ? s.lossAM3PerDay : s.lineB === drain ? s.lossBM3PerDay : 0), 0);
+    const fromStrips = result.strips.reduce((sum, s) => sum + (s.strip.lineA === drain ? s.lossAM3PerDay : s.strip.lineB === drain ? s.lossBM3PerDay : 0), 0);
     expect(fromStrips).toBeCloseTo(result.lineSummaries[drain].lossM3PerDay, 6);
     // both sides of the 3.5 km drain take in water: about 3500 m times the two closed-form gains
     const gain = 3500 * K * ((CANAL - BASE) ** 2 - (DRAIN - BASE) ** 2) / 2 * (1 / 500 + 1 / 800);

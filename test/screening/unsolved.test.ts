@@ -1,7 +1,7 @@
 // Where the physics fails (here an aquifer that would dry between two canals under strong net
 // evaporation) a strip and its lines have no loss to report: null and a flag, never a zero.
 import { describe, expect, it } from 'vitest';
-import { linesLayer, layerText, stripsLayer } from '../../src/io/layers.js';
+import { linesLayer, layerText, stripsLayer } from '../../src/output/layers.js';
 import { box, line, screenLocal } from './local-district.js';
 
 describe('unsolved transects', () => {

@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { checkZones } from '../../src/screening/district-inputs.js';
 import { crossCheck } from '../../src/screening/cross-checks.js';
-import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
+import { DEFAULT_RULES } from '../../src/shared/input-rules.js';
 import { box, line, lonLat, screenLocal } from './local-district.js';
 
 const lines = [

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { chooseWorkCrs, scaleAt, utmZone } from '../../src/io/crs.js';
+import { chooseWorkCrs, scaleAt, utmZone } from '../../src/geometry/work-crs.js';
 
 const BNG = '+proj=tmerc +lat_0=49 +lon_0=-2 +k=0.9996012717 +x_0=400000 +y_0=-100000 +ellps=airy +units=m +no_defs';
 

@@ -4,8 +4,8 @@
 //   1 ft = 0.3048 m exactly (international yard and pound agreement, 1959 [published])
 //   1 year = 365.25 d, the Julian year (IAU [published]); recharge in mm/yr is a long-run mean
 import { describe, expect, it } from 'vitest';
-import { DataError } from '../../src/io/data-error.js';
-import { parseConfig } from '../../src/screening/config.js';
+import { DataError } from '../../src/shared/errors.js';
+import { parseConfig } from '../../src/input/config.js';
 import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
 
 const zone = (properties: Record<string, unknown>) => ({

@@ -53,10 +53,10 @@ export class TransectSolver {
   baseM = 0;
   widthM = 0;
   /** Seepage per metre of line (m^2/d); positive when that line loses water to the aquifer. */
-  seepageAM2PerDay = NaN;
-  seepageBM2PerDay = NaN;
+  ownSeepageM2PerDay = NaN;
+  partnerSeepageM2PerDay = NaN;
   /** Highest water table: elevation (m) and distance from line a (m); it may sit at a line. */
-  peakHeadM = NaN;
+  peakWaterTableM = NaN;
   peakOffsetM = NaN;
   /** Where the flow divides (q = 0) inside the transect, or NaN when it does not. */
   divideOffsetM = NaN;
@@ -85,11 +85,11 @@ export class TransectSolver {
   }
 
   /** Solves for the first `zoneCount` zones; returns SOLVE_OK or the reason it cannot. */
-  solve(stageAM: number, stageBM: number, baseM: number, zoneCount: number): number {
+  solve(ownStageM: number, partnerStageM: number, baseM: number, zoneCount: number): number {
     this.failedZone = -1;
-    this.seepageAM2PerDay = this.seepageBM2PerDay = NaN;
+    this.ownSeepageM2PerDay = this.partnerSeepageM2PerDay = NaN;
     if (!(zoneCount >= 1 && zoneCount <= this.maxZones)) return SOLVE_NO_ZONES;
-    if (!Number.isFinite(stageAM) || !Number.isFinite(stageBM) || !Number.isFinite(baseM)) return SOLVE_NON_FINITE;
+    if (!Number.isFinite(ownStageM) || !Number.isFinite(partnerStageM) || !Number.isFinite(baseM)) return SOLVE_NON_FINITE;
     const { lengthM, kMPerDay, rechargeMPerDay, groundM, uEdgeM2, xEdgeM } = this;
     let x = 0;
     xEdgeM[0] = 0;
@@ -103,9 +103,9 @@ export class TransectSolver {
       xEdgeM[j + 1] = x;
     }
     this.failedZone = -1;
-    if (!(stageAM > baseM) || !(stageBM > baseM)) return SOLVE_STAGE_AT_OR_BELOW_BASE;
+    if (!(ownStageM > baseM) || !(partnerStageM > baseM)) return SOLVE_STAGE_AT_OR_BELOW_BASE;
 
-    const h0 = stageAM - baseM, hL = stageBM - baseM;
+    const h0 = ownStageM - baseM, hL = partnerStageM - baseM;
     uEdgeM2[0] = h0 * h0;
     uEdgeM2[zoneCount] = hL * hL;
     this.solveInteriorEdges(zoneCount);
@@ -118,8 +118,8 @@ export class TransectSolver {
     const l0 = lengthM[0], last = zoneCount - 1, lN = lengthM[last];
     const q0 = (-kMPerDay[0] / (2 * l0)) * (uEdgeM2[1] - uEdgeM2[0]) - (rechargeMPerDay[0] * l0) / 2;
     const qL = (-kMPerDay[last] / (2 * lN)) * (uEdgeM2[zoneCount] - uEdgeM2[last]) + (rechargeMPerDay[last] * lN) / 2;
-    this.seepageAM2PerDay = q0;
-    this.seepageBM2PerDay = -qL;
+    this.ownSeepageM2PerDay = q0;
+    this.partnerSeepageM2PerDay = -qL;
     let rechargeTotal = 0;
     for (let j = 0; j < zoneCount; j++) rechargeTotal += rechargeMPerDay[j] * lengthM[j];
     this.massResidualM2PerDay = q0 - qL + rechargeTotal;
@@ -173,12 +173,12 @@ export class TransectSolver {
           this.divideOffsetM = xEdgeM[j] + tStar;
         }
       }
-      if (zoneMinU <= 0) { this.failedZone = j; this.seepageAM2PerDay = this.seepageBM2PerDay = NaN; return SOLVE_AQUIFER_DRIES; }
+      if (zoneMinU <= 0) { this.failedZone = j; this.ownSeepageM2PerDay = this.partnerSeepageM2PerDay = NaN; return SOLVE_AQUIFER_DRIES; }
       if (zoneMaxU > peakU) { peakU = zoneMaxU; peakX = xEdgeM[j] + zoneMaxT; }
       this.integrateThickness(j);
       thicknessIntegral += this.zoneIntegral[0];
     }
-    this.peakHeadM = this.baseM + Math.sqrt(peakU);
+    this.peakWaterTableM = this.baseM + Math.sqrt(peakU);
     this.peakOffsetM = peakX;
     this.meanThicknessM = thicknessIntegral / this.widthM;
     this.dupuitRatio = this.widthM / this.meanThicknessM;

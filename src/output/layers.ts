@@ -3,21 +3,13 @@
 // CLI hands the texts to writeAllOrNothing. Same result in, same bytes out.
 import { stringify } from 'csv-stringify/sync';
 import { FACING_REASON_NAMES } from '../geometry/index.js';
-import { SOLVE_STATUS_NAMES } from '../hydraulics/strip-solver.js';
-import { m3PerDayToM3PerYear } from '../hydraulics/units.js';
+import { SOLVE_STATUS_NAMES } from '../hydraulics/transect-solver.js';
+import { m3PerDayToM3PerYear } from '../shared/units.js';
 import { lossPerKm, type StripSummary } from '../screening/aggregate.js';
 import { NOT_PAIRED } from '../screening/solve-facings.js';
 import type { ScreenResult } from '../screening/screen.js';
-import type { WorkCrs } from './crs.js';
-
-/** Six significant digits: more than any input carries, few enough to keep files stable. */
-export function roundNumber(value: number): number | null {
-  if (!Number.isFinite(value)) return null;
-  // rounding noise of sums that cancel (a net of 1e-10 m^3/d, an offset of -5e-11 m) is zero
-  if (Math.abs(value) < 1e-9) return 0;
-  const rounded = Number(value.toPrecision(6));
-  return Object.is(rounded, -0) ? 0 : rounded;
-}
+import { roundNumber } from './format.js';
+import type { WorkCrs } from '../geometry/work-crs.js';
 
 function roundDegrees(value: number): number {
   return Math.round(value * 1e7) / 1e7;
@@ -74,21 +66,21 @@ export function layerText(pieces: Iterable<string>): string {
 export function stripProperties(strip: StripSummary): Record<string, unknown> {
   return {
     strip_id: strip.stripId,
-    canal_a: strip.canalA,
-    canal_b: strip.canalB,
+    line_a: strip.lineAId,
+    line_b: strip.lineBId,
     length_m: roundNumber(strip.lengthM),
-    chainage_a_from_m: roundNumber(strip.chainageAM[0]),
-    chainage_a_to_m: roundNumber(strip.chainageAM[1]),
-    chainage_b_from_m: roundNumber(strip.chainageBM[0]),
-    chainage_b_to_m: roundNumber(strip.chainageBM[1]),
-    spacing_m: roundNumber(strip.spacingMeanM),
-    spacing_min_m: roundNumber(strip.spacingMinM),
-    spacing_max_m: roundNumber(strip.spacingMaxM),
+    chainage_a_from_m: roundNumber(strip.strip.chainageA[0]),
+    chainage_a_to_m: roundNumber(strip.strip.chainageA[1]),
+    chainage_b_from_m: roundNumber(strip.strip.chainageB[0]),
+    chainage_b_to_m: roundNumber(strip.strip.chainageB[1]),
+    spacing_m: roundNumber(strip.strip.spacingMeanM),
+    spacing_min_m: roundNumber(strip.strip.spacingMinM),
+    spacing_max_m: roundNumber(strip.strip.spacingMaxM),
     q_a_m2_d: roundNumber(strip.qAM2PerDay),
     q_b_m2_d: roundNumber(strip.qBM2PerDay),
     loss_a_m3_d: roundNumber(strip.lossAM3PerDay),
     loss_b_m3_d: roundNumber(strip.lossBM3PerDay),
-    peak_wt_m: roundNumber(strip.peakWtM),
+    peak_water_table_m: roundNumber(strip.peakWaterTableM),
     peak_offset_m: roundNumber(strip.peakOffsetM),
     min_depth_m: roundNumber(strip.minDepthM),
     risk: strip.risk ?? 'unsolved',
@@ -103,7 +95,7 @@ export function stripsLayer(result: ScreenResult, format: LayerFormat = 'collect
     result.strips.map((strip) => ({
       type: 'Feature',
       properties: stripProperties(strip),
-      geometry: { type: 'Polygon', coordinates: [ringToLonLat(result.crs, strip.ringM)] },
+      geometry: { type: 'Polygon', coordinates: [ringToLonLat(result.crs, strip.strip.ringM)] },
     })),
     format,
   );
@@ -165,13 +157,13 @@ function* transectFeatures(result: ScreenResult): Generator<object> {
         reason: FACING_REASON_NAMES[facings.reason[i]],
         solve: status === NOT_PAIRED ? 'not-solved' : SOLVE_STATUS_NAMES[status],
         gap_m: roundNumber(facings.gapM[i]),
-        stage_m: roundNumber(results.stageAM[i]),
-        partner_stage_m: roundNumber(results.stageBM[i]),
+        stage_m: roundNumber(results.ownStageM[i]),
+        partner_stage_m: roundNumber(results.partnerStageM[i]),
         base_m: roundNumber(results.baseM[i]),
-        seepage_m2_d: roundNumber(results.seepageM2PerDay[i]),
+        seepage_m2_d: roundNumber(results.ownSeepageM2PerDay[i]),
         partner_seepage_m2_d: roundNumber(results.partnerSeepageM2PerDay[i]),
         recharge_m2_d: roundNumber(results.rechargeM2PerDay[i]),
-        peak_wt_m: roundNumber(results.peakHeadM[i]),
+        peak_water_table_m: roundNumber(results.peakWaterTableM[i]),
         peak_offset_m: roundNumber(results.peakOffsetM[i]),
         min_depth_m: roundNumber(results.minDepthM[i]),
         dupuit_ratio: roundNumber(results.dupuitRatio[i]),
@@ -192,7 +184,7 @@ export function neutraliseCell(value: unknown): unknown {
 }
 
 export const RANKING_COLUMNS = [
-  'rank', 'strip_id', 'canal_a', 'canal_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km',
+  'rank', 'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km',
   'loss_m3_yr', 'min_depth_m', 'risk', 'risk_area_ha', 'flags',
 ] as const;
 
@@ -200,10 +192,10 @@ export function rankingRow(strip: StripSummary, rank: number): Record<(typeof RA
   return {
     rank,
     strip_id: strip.stripId,
-    canal_a: strip.canalA,
-    canal_b: strip.canalB,
+    line_a: strip.lineAId,
+    line_b: strip.lineBId,
     length_m: roundNumber(strip.lengthM),
-    spacing_m: roundNumber(strip.spacingMeanM),
+    spacing_m: roundNumber(strip.strip.spacingMeanM),
     loss_m3_d: roundNumber(strip.lossM3PerDay),
     loss_m3_d_km: roundNumber(strip.lossM3PerDayKm),
     loss_m3_yr: roundNumber(m3PerDayToM3PerYear(strip.lossM3PerDay)),

@@ -2,7 +2,7 @@
 // goes to a temporary name in the output folder first, and all are renamed only when all are written.
 import { closeSync, mkdirSync, openSync, renameSync, rmSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
-import { DataError } from './data-error.js';
+import { DataError } from '../shared/errors.js';
 
 export interface OutputFile {
   name: string;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { featureCollection, layerText } from '../../src/io/layers.js';
+import { featureCollection, layerText } from '../../src/output/layers.js';
 
 // 3,000 features of about 1 kB: more than one 1 MiB piece
 const features = Array.from({ length: 3000 }, (_, i) => ({

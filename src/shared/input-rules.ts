@@ -1,7 +1,7 @@
 // How to read the user's attributes: which attribute holds each of doab's fields, in which unit,
 // and the defaults for what a feature leaves out. The config file's `fields`, `units` and
 // `defaults` sections fill this in.
-import type { ConductivityUnit, LengthUnit, RechargeUnit } from '../hydraulics/units.js';
+import type { ConductivityUnit, LengthUnit, RechargeUnit } from './units.js';
 
 export interface LineFields {
   id: string;

@@ -13,8 +13,8 @@ import {
   m3PerDayToM3PerYear,
   rechargeFromMPerDay,
   rechargeToMPerDay,
-} from '../../src/hydraulics/units.js';
-import { expectNear } from './strip-fixtures.js';
+} from '../../src/shared/units.js';
+import { expectNear } from '../hydraulics/strip-fixtures.js';
 
 describe('time', () => {
   it('1 d = 24 h = 86 400 s', () => {

@@ -1,10 +1,10 @@
 // Read and validate both inputs, collecting every problem: what `doab check` prints and what
 // `doab screen` refuses to go on with (unless told to skip the bad features).
-import { DataError, describePlace } from '../io/data-error.js';
-import { readFeatureFile, type InputFile } from '../io/read-features.js';
-import type { RunConfig } from '../screening/config.js';
+import { DataError, describePlace, type Problem } from '../shared/errors.js';
+import { readFeatureFile, type InputFile } from './read-features.js';
+import type { RunConfig } from './config.js';
 import { crossCheck } from '../screening/cross-checks.js';
-import { checkLines, checkZones, formatProblem, type LineRecord, type Problem, type ZoneRecord } from '../screening/district-inputs.js';
+import { checkLines, checkZones, type LineRecord, type ZoneRecord } from '../screening/district-inputs.js';
 
 export interface LoadedDistrict {
   canals: InputFile | null;
@@ -12,14 +12,6 @@ export interface LoadedDistrict {
   lines: LineRecord[];
   zones: ZoneRecord[];
   problems: Problem[];
-}
-
-/** Problems that stop a run; the CLI prints each on its own line and exits 1. */
-export class InputProblems extends Error {
-  constructor(readonly problems: Problem[]) {
-    super(`${problems.length} problem${problems.length === 1 ? '' : 's'} in the inputs`);
-    this.name = 'InputProblems';
-  }
 }
 
 async function readOrProblem(path: string, inputCrs: string | undefined, problems: Problem[]): Promise<InputFile | null> {
@@ -36,7 +28,7 @@ async function readOrProblem(path: string, inputCrs: string | undefined, problem
 
 export async function loadDistrict(canalsPath: string, aquiferPath: string, config: RunConfig): Promise<LoadedDistrict> {
   const problems: Problem[] = [];
-  const inputCrs = config.inputCrs ?? undefined;
+  const inputCrs = config.settings.inputCrs ?? undefined;
   const canals = await readOrProblem(canalsPath, inputCrs, problems);
   const aquifer = await readOrProblem(aquiferPath, inputCrs, problems);
   let lines: LineRecord[] = [];
@@ -57,10 +49,3 @@ export async function loadDistrict(canalsPath: string, aquiferPath: string, conf
   return { canals, aquifer, lines, zones, problems };
 }
 
-export function errorsOf(problems: Problem[]): Problem[] {
-  return problems.filter((problem) => problem.severity === 'error');
-}
-
-export function problemLines(problems: Problem[]): string {
-  return problems.map((problem) => `${formatProblem(problem)}\n`).join('');
-}

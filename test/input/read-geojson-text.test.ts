@@ -4,9 +4,9 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { DataError } from '../../src/io/data-error.js';
-import { readFeatureFile } from '../../src/io/read-features.js';
-import { parseGeoJsonText } from '../../src/io/read-geojson.js';
+import { DataError } from '../../src/shared/errors.js';
+import { readFeatureFile } from '../../src/input/read-features.js';
+import { parseGeoJsonText } from '../../src/input/read-geojson.js';
 
 const ROOT = join(import.meta.dirname, '../..');
 const CANALS = readFileSync(join(ROOT, 'test/fixtures/screen/parallel-pair/canals.geojson'), 'utf8');

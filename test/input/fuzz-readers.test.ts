@@ -9,11 +9,11 @@ import { join } from 'node:path';
 import fc from 'fast-check';
 import { zipSync } from 'fflate';
 import { afterAll, describe, expect, it } from 'vitest';
-import { DataError } from '../../src/io/data-error.js';
-import { readFeatureFile } from '../../src/io/read-features.js';
+import { DataError } from '../../src/shared/errors.js';
+import { readFeatureFile } from '../../src/input/read-features.js';
 import { crossCheck } from '../../src/screening/cross-checks.js';
 import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
-import { DEFAULT_RULES } from '../../src/screening/input-rules.js';
+import { DEFAULT_RULES } from '../../src/shared/input-rules.js';
 
 const ROOT = join(import.meta.dirname, '../..');
 const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');

@@ -6,7 +6,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { basename, dirname, extname, join } from 'node:path';
 import { unzipSync } from 'fflate';
 import * as shapefile from 'shapefile';
-import { DataError } from './data-error.js';
+import { DataError } from '../shared/errors.js';
 import { parseGeoJsonText } from './read-geojson.js';
 import { resolveSourceCrs, type SourceCrs } from './source-crs.js';
 

@@ -1,5 +1,5 @@
-// Number formatting for what a person reads in the report: fixed decimals, no "-0", and a dash
-// for a value that does not exist (an unsolved strip has no depth).
+// Number formats: six significant digits in the files (stable bytes), and for what a person reads
+// fixed decimals, no "-0", and a dash for a value that does not exist (an unsolved strip has no depth).
 
 export function formatFixed(value: number, digits: number): string {
   if (!Number.isFinite(value)) return '-';
@@ -33,4 +33,13 @@ export function ticks(min: number, max: number, count: number): number[] {
   // the step is a round number, so ticks at whole multiples of it stay round after the product
   for (let k = Math.ceil(min / step - 1e-9); k * step <= max + step * 1e-9; k++) out.push(Number((k * step).toPrecision(12)));
   return out;
+}
+
+/** Six significant digits: more than any input carries, few enough to keep files stable. */
+export function roundNumber(value: number): number | null {
+  if (!Number.isFinite(value)) return null;
+  // rounding noise of sums that cancel (a net of 1e-10 m^3/d, an offset of -5e-11 m) is zero
+  if (Math.abs(value) < 1e-9) return 0;
+  const rounded = Number(value.toPrecision(6));
+  return Object.is(rounded, -0) ? 0 : rounded;
 }

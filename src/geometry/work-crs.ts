@@ -1,4 +1,8 @@
 import proj4 from 'proj4';
+import { UsageError } from '../shared/errors.js';
+
+/** A user's CRS that cannot be used: the user's to fix (a usage error naming the crs setting). */
+const refuse = (message: string) => new UsageError(message, 'crs');
 
 /** A metric working CRS with its converter built once (lon/lat degrees <-> metres). */
 export interface WorkCrs {
@@ -52,23 +56,23 @@ function checkBbox(bbox: [number, number, number, number]): void {
 function userProj4Crs(def: string, centre: [number, number]): WorkCrs {
   // proj4 happily parses strings it cannot use, so a trial transform is the real test
   if (/\+proj=(longlat|latlong|lonlat|latlon)\b/.test(def)) {
-    throw new Error(`CRS "${def}" is geographic; doab needs a CRS in metres (${ACCEPTED}).`);
+    throw refuse(`CRS "${def}" is geographic; doab needs a CRS in metres (${ACCEPTED}).`);
   }
   if (/\+proj=geocent\b/.test(def)) {
-    throw new Error(`CRS "${def}" is geocentric (X, Y, Z from the earth's centre), not a map projection; ${ACCEPTED}.`);
+    throw refuse(`CRS "${def}" is geocentric (X, Y, Z from the earth's centre), not a map projection; ${ACCEPTED}.`);
   }
   const units = /\+units=(\S+)/.exec(def);
-  if (units && units[1] !== 'm') throw new Error(`CRS "${def}" is not in metres (+units=${units[1]}); ${ACCEPTED}.`);
+  if (units && units[1] !== 'm') throw refuse(`CRS "${def}" is not in metres (+units=${units[1]}); ${ACCEPTED}.`);
   let crs: WorkCrs;
   let xy: [number, number];
   try {
     crs = makeCrs(def, def, null);
     xy = crs.forward(centre);
   } catch (err) {
-    throw new Error(`Unknown CRS "${def}": ${err instanceof Error ? err.message : String(err)}; ${ACCEPTED}.`);
+    throw refuse(`Unknown CRS "${def}": ${err instanceof Error ? err.message : String(err)}; ${ACCEPTED}.`);
   }
   if (!Number.isFinite(xy[0]) || !Number.isFinite(xy[1])) {
-    throw new Error(`CRS "${def}" cannot project the data's centre (${centre.join(', ')}); ${ACCEPTED}.`);
+    throw refuse(`CRS "${def}" cannot project the data's centre (${centre.join(', ')}); ${ACCEPTED}.`);
   }
   return crs;
 }
@@ -116,17 +120,17 @@ export function chooseWorkCrs(
     const zone = code % 100;
     const hemi = code - zone;
     if ((hemi !== 32600 && hemi !== 32700) || zone < 1 || zone > 60) {
-      throw new Error(`Unsupported CRS "${userCrs}"; ${ACCEPTED}.`);
+      throw refuse(`Unsupported CRS "${userCrs}"; ${ACCEPTED}.`);
     }
     crs = utmCrs(zone, hemi === 32700);
   } else if (spec.startsWith('+proj=')) {
     crs = userProj4Crs(spec, centre);
   } else {
-    throw new Error(`Unsupported CRS "${userCrs}"; ${ACCEPTED}.`);
+    throw refuse(`Unsupported CRS "${userCrs}"; ${ACCEPTED}.`);
   }
   const scale = scaleAt(crs, centre);
   if (!(Math.abs(scale - 1) <= SCALE_REFUSE)) {
-    throw new Error(
+    throw refuse(
       `CRS "${userCrs ?? crs.name}" has a scale of ${scale.toFixed(4)} at the data centre: every distance would be off by ${(Math.abs(scale - 1) * 100).toFixed(1)}%; ` +
         `choose a CRS made for the data's area, or leave --crs out for the UTM zone of the data centre.`,
     );

@@ -2,55 +2,33 @@
 // CRS, and how to read the user's attributes (field names, units, defaults). Unknown keys, wrong
 // types and unknown units are errors that name the key.
 import { parse, printParseErrorCode, type ParseError } from 'jsonc-parser';
-import { CONDUCTIVITY_UNITS, LENGTH_UNITS, RECHARGE_UNITS } from '../hydraulics/units.js';
-import { DataError } from '../io/data-error.js';
-import { cloneRules, DEFAULT_RULES, type InputRules } from './input-rules.js';
-import { checkRisk, DEFAULT_SETTINGS, type ScreenSettings } from './settings.js';
+import { CONDUCTIVITY_UNITS, LENGTH_UNITS, RECHARGE_UNITS } from '../shared/units.js';
+import { DataError } from '../shared/errors.js';
+import { cloneRules, DEFAULT_RULES, type InputRules } from '../shared/input-rules.js';
+import {
+  checkRisk,
+  defaultSettings,
+  finite,
+  oneOf,
+  setSetting,
+  SETTING_KEYS,
+  SETTINGS,
+  type Checker,
+  type ScreenSettings,
+  type SettingKey,
+} from '../shared/settings.js';
 
 export interface RunConfig {
   settings: ScreenSettings;
   rules: InputRules;
-  /** CRS of both input files when they do not declare one (or to override it). */
-  inputCrs: string | null;
 }
 
 export function defaultConfig(): RunConfig {
-  return { settings: { ...DEFAULT_SETTINGS, risk: { ...DEFAULT_SETTINGS.risk } }, rules: cloneRules(DEFAULT_RULES), inputCrs: null };
+  return { settings: defaultSettings(), rules: cloneRules(DEFAULT_RULES) };
 }
 
-type Checker = (value: unknown, key: string) => unknown;
-
-const positive: Checker = (value, key) => {
-  if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) throw new Error(`"${key}" must be a positive number, found ${JSON.stringify(value)}`);
-  return value;
-};
-const nonNegative: Checker = (value, key) => {
-  if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) throw new Error(`"${key}" must be a number, 0 or more, found ${JSON.stringify(value)}`);
-  return value;
-};
-const finite: Checker = (value, key) => {
-  if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`"${key}" must be a number, found ${JSON.stringify(value)}`);
-  return value;
-};
-const angle: Checker = (value, key) => {
-  const v = positive(value, key) as number;
-  if (v >= 90) throw new Error(`"${key}" must be below 90 degrees, found ${v}`);
-  return v;
-};
-const nullableText: Checker = (value, key) => {
-  if (value !== null && (typeof value !== 'string' || value.trim() === '')) throw new Error(`"${key}" must be text or null, found ${JSON.stringify(value)}`);
-  return value;
-};
 const text: Checker = (value, key) => {
   if (typeof value !== 'string' || value.trim() === '') throw new Error(`"${key}" must be a non-empty attribute name, found ${JSON.stringify(value)}`);
-  return value;
-};
-const oneOf = (choices: readonly string[]): Checker => (value, key) => {
-  if (typeof value !== 'string' || !choices.includes(value)) throw new Error(`"${key}" must be one of ${choices.map((c) => `"${c}"`).join(', ')}, found ${JSON.stringify(value)}`);
-  return value;
-};
-const bool: Checker = (value, key) => {
-  if (typeof value !== 'boolean') throw new Error(`"${key}" must be true or false, found ${JSON.stringify(value)}`);
   return value;
 };
 const words: Checker = (value, key) => {
@@ -62,19 +40,19 @@ const words: Checker = (value, key) => {
 
 type Section = { [key: string]: Checker | Section };
 
+/** The settings' part of the schema, from the settings table (`risk.x` keys nest under "risk"). */
+function settingsSection(): Section {
+  const section: Section = {};
+  for (const key of SETTING_KEYS) {
+    const [head, tail] = key.split('.');
+    if (tail === undefined) section[head] = SETTINGS[key].check;
+    else ((section[head] ??= {}) as Section)[tail] = SETTINGS[key].check;
+  }
+  return section;
+}
+
 const SCHEMA: Section = {
-  stepM: positive,
-  maxGapM: positive,
-  maxAngleDeg: angle,
-  crs: nullableText,
-  inputCrs: nullableText,
-  rankBy: oneOf(['loss', 'risk']),
-  writeTransects: bool,
-  spacingJump: positive,
-  dupuitRatioMin: positive,
-  baseSpreadFraction: positive,
-  bankWidthM: nonNegative,
-  risk: { waterloggedDepthM: positive, potentialDepthM: positive },
+  ...settingsSection(),
   fields: {
     lines: { id: text, kind: text, name: text, stage: text, stageStart: text, stageEnd: text },
     zones: { id: text, k: text, base: text, ground: text, recharge: text },
@@ -83,6 +61,8 @@ const SCHEMA: Section = {
   defaults: { kind: oneOf(['canal', 'drain']), recharge: finite },
   kindWords: { canal: words, drain: words },
 };
+
+const RULE_SECTIONS = new Set(['fields', 'units', 'defaults', 'kindWords']);
 
 /** Checks an object against a section of the schema, key by key, and returns the values found. */
 function checkSection(section: Section, value: unknown, path: string): Map<string, unknown> {
@@ -108,7 +88,11 @@ function assign(target: Record<string, unknown>, found: Map<string, unknown> | u
 }
 
 /** Parses the config text over the defaults; throws DataError naming the file and the key. */
-export function parseConfig(file: string, configText: string): RunConfig {
+/**
+ * Parses the config text over the defaults; throws DataError naming the file and the key. `keyPrefix`
+ * names where the config sits inside the file (run.json keeps it under "settings").
+ */
+export function parseConfig(file: string, configText: string, keyPrefix = ''): RunConfig {
   const errors: ParseError[] = [];
   const value = parse(configText, errors, { allowTrailingComma: true, disallowComments: false });
   if (errors.length > 0) {
@@ -116,20 +100,22 @@ export function parseConfig(file: string, configText: string): RunConfig {
     const line = configText.slice(0, first.offset).split('\n').length;
     throw new DataError({ file }, `not valid JSON: ${printParseErrorCode(first.error)} at line ${line}`);
   }
+  return configFromValue(file, value, keyPrefix);
+}
+
+/** A parsed config object checked key by key over the defaults. */
+export function configFromValue(file: string, value: unknown, keyPrefix = ''): RunConfig {
   const config = defaultConfig();
   try {
-    const found = checkSection(SCHEMA, value, '');
+    const found = checkSection(SCHEMA, value, keyPrefix);
     for (const [key, child] of found) {
-      if (key === 'risk') assign(config.settings.risk as unknown as Record<string, unknown>, child as Map<string, unknown>);
-      else if (key === 'fields') {
+      if (key === 'fields') {
         const sections = child as Map<string, Map<string, unknown>>;
         assign(config.rules.fields.lines as unknown as Record<string, unknown>, sections.get('lines'));
         assign(config.rules.fields.zones as unknown as Record<string, unknown>, sections.get('zones'));
-      } else if (key === 'units') assign(config.rules.units as unknown as Record<string, unknown>, child as Map<string, unknown>);
-      else if (key === 'defaults') assign(config.rules.defaults as unknown as Record<string, unknown>, child as Map<string, unknown>);
-      else if (key === 'kindWords') assign(config.rules.kindWords as unknown as Record<string, unknown>, child as Map<string, unknown>);
-      else if (key === 'inputCrs') config.inputCrs = child as string | null;
-      else (config.settings as unknown as Record<string, unknown>)[key] = child;
+      } else if (RULE_SECTIONS.has(key)) assign((config.rules as unknown as Record<string, Record<string, unknown>>)[key], child as Map<string, unknown>);
+      else if (child instanceof Map) for (const [inner, innerValue] of child) setSetting(config.settings, `${key}.${inner}` as SettingKey, innerValue);
+      else setSetting(config.settings, key as SettingKey, child);
     }
   } catch (error) {
     throw new DataError({ file }, (error as Error).message);

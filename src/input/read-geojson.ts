@@ -1,7 +1,7 @@
 // Parses GeoJSON text as given: a FeatureCollection (RFC 7946, with or without a legacy `crs`
 // member) or a GeoJSON text sequence (RFC 8142: records led by RS, or one feature per line).
 // Nothing here interprets attributes; that is the validation stage's job.
-import { DataError } from './data-error.js';
+import { DataError } from '../shared/errors.js';
 
 export interface ParsedGeoJson {
   features: unknown[];

@@ -1,0 +1,241 @@
+// doab's library API: read a config, load and check a district, screen it, write a run's outputs,
+// render the report, draw a strip's profile. The command line is a thin layer over these.
+//
+//   import { readConfig, loadDistrict, screenLoaded, writeRun } from 'doab';
+//   const config = readConfig('doab.jsonc');            // or readConfig() for the defaults
+//   const district = await loadDistrict('canals.geojson', 'aquifer.geojson', config);
+//   const result = screenLoaded(district, config);      // throws InputProblems on bad features
+//   writeRun('out', result, { district, config });      // strips, canals, ranking, report, run.json
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { configFromValue, defaultConfig, parseConfig, type RunConfig } from './input/config.js';
+import { loadDistrict, type LoadedDistrict } from './input/load-district.js';
+import { readTextFile } from './input/read-text.js';
+import type { OutputFile } from './output/atomic-write.js';
+import { writeAllOrNothing } from './output/atomic-write.js';
+import { roundNumber } from './output/format.js';
+import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from './output/layers.js';
+import { checkOutputFolder, writeRunFolder } from './output/output-folder.js';
+import { profileFileName, profileTable } from './output/profile-table.js';
+import { CAUTION, runRecord } from './output/run-record.js';
+import { orientFromLineA, renderProfileSvg } from './report/profile-svg.js';
+import { renderReport } from './report/report.js';
+import { keyFacing, profileOfFacing, type Profile } from './screening/profile.js';
+import { screenDistrict, type ProgressListener, type ScreenResult } from './screening/screen.js';
+import type { StripSummary } from './screening/aggregate.js';
+import { DataError, errorsOf, formatProblem, InputProblems, type Problem } from './shared/errors.js';
+import { VERSION } from './shared/version.js';
+
+export { DataError, UsageError, InputProblems, errorsOf, problemLines, formatProblem, describePlace, type Problem, type DataProblemPlace } from './shared/errors.js';
+export {
+  SETTINGS,
+  SETTING_KEYS,
+  DEFAULT_SETTINGS,
+  defaultSettings,
+  applyFlags,
+  flagAttribute,
+  getSetting,
+  settingsAsConfig,
+  RISK_CLASSES,
+  type ScreenSettings,
+  type SettingKey,
+  type SettingSpec,
+  type RankBy,
+  type RiskClass,
+} from './shared/settings.js';
+export { DEFAULT_RULES, type InputRules } from './shared/input-rules.js';
+export { CONDUCTIVITY_UNITS, RECHARGE_UNITS, LENGTH_UNITS } from './shared/units.js';
+export { VERSION } from './shared/version.js';
+export { parseConfig, defaultConfig, type RunConfig } from './input/config.js';
+export { loadDistrict, type LoadedDistrict } from './input/load-district.js';
+export { readFeatureFile, type InputFile } from './input/read-features.js';
+export { screenDistrict, type ScreenResult, type ProgressListener, type DistrictTotals } from './screening/screen.js';
+export type { StripSummary, LineSummary } from './screening/aggregate.js';
+export type { Profile } from './screening/profile.js';
+export { checkOutputFolder } from './output/output-folder.js';
+export { writeAllOrNothing, type OutputFile } from './output/atomic-write.js';
+export { CAUTION } from './output/run-record.js';
+export { summaryText } from './output/summary.js';
+export { renderReport, type ReportMeta } from './report/report.js';
+export { renderProfileSvg, peakLabelText } from './report/profile-svg.js';
+
+/** The config file's settings over the defaults, or the defaults when no file is named. */
+export function readConfig(path?: string): RunConfig {
+  return path ? parseConfig(path, readTextFile(path)) : defaultConfig();
+}
+
+export interface ScreenOptions {
+  /** Leave out invalid features instead of stopping (a problem with a whole file still stops). */
+  skipInvalid?: boolean;
+  onProgress?: ProgressListener;
+}
+
+/** The problems that stop a run on this district, or null when it can go on (bad features skipped, if asked). */
+export function stoppingProblems(district: LoadedDistrict, options: { skipInvalid?: boolean } = {}): Problem[] | null {
+  const errors = errorsOf(district.problems);
+  const fileErrors = errors.filter((problem) => problem.place.featureIndex === undefined);
+  if (errors.length > 0 && (!options.skipInvalid || fileErrors.length > 0)) return errors;
+  if (!district.canals || !district.aquifer || district.lines.length === 0 || district.zones.length === 0) return errors;
+  return null;
+}
+
+/** Screens a loaded district; throws InputProblems when its checks found errors that stop the run. */
+export function screenLoaded(district: LoadedDistrict, config: RunConfig, options: ScreenOptions = {}): ScreenResult {
+  const stopping = stoppingProblems(district, options);
+  if (stopping) throw new InputProblems(stopping);
+  return screenDistrict(district.lines, district.zones, config.settings, options.onProgress);
+}
+
+export interface WriteRunOptions {
+  district: LoadedDistrict;
+  config: RunConfig;
+  /** The config file's path, for the record; null when there was none. */
+  configFile?: string | null;
+  /** The command line as typed, for the record and the report. */
+  commandLine?: string[];
+  /** Layers as GeoJSON text sequences (RFC 8142) instead of FeatureCollections. */
+  format?: LayerFormat;
+}
+
+/** The files of a run, in the order they are written: layers, table, report, run record. */
+export function runFiles(result: ScreenResult, options: WriteRunOptions): OutputFile[] {
+  const { district, config } = options;
+  if (!district.canals || !district.aquifer) throw new Error('Unexpected district without both input files.');
+  const format = options.format ?? 'collection';
+  const extension = format === 'sequence' ? 'geojsons' : 'geojson';
+  const commandLine = options.commandLine ?? ['doab'];
+  const files: OutputFile[] = [
+    { name: `strips.${extension}`, content: stripsLayer(result, format) },
+    { name: `canals.${extension}`, content: linesLayer(result, format) },
+    { name: 'ranking.csv', content: rankingTable(result) },
+  ];
+  if (result.settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
+  files.push({
+    name: 'report.html',
+    content: renderReport(result, {
+      version: VERSION,
+      commandLine,
+      inputs: [
+        { label: 'canals', path: district.canals.path, sha256: district.canals.sha256 },
+        { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256 },
+      ],
+      inputWarnings: district.problems.map(formatProblem),
+    }),
+  });
+  const outputs = [...files.map((file) => file.name), 'run.json'];
+  files.push({
+    name: 'run.json',
+    content: runRecord(result, {
+      version: VERSION,
+      commandLine,
+      canals: district.canals,
+      aquifer: district.aquifer,
+      config: options.configFile ?? null,
+      rules: config.rules,
+      outputs,
+      problems: district.problems,
+    }),
+  });
+  return files;
+}
+
+/** Writes every file of a run into outDir, or none; removes what an earlier doab run there left that this one does not write. */
+export function writeRun(outDir: string, result: ScreenResult, options: WriteRunOptions): { written: string[]; removed: string[] } {
+  checkOutputFolder(outDir);
+  return writeRunFolder(outDir, runFiles(result, options));
+}
+
+function isObject(value: unknown): value is Record<string, unknown> {
+  return value !== null && typeof value === 'object' && !Array.isArray(value);
+}
+
+function recordedInput(recordPath: string, inputs: unknown, label: string): { path: string; sha256: string } {
+  const input = isObject(inputs) ? inputs[label] : undefined;
+  if (!isObject(input) || typeof input.path !== 'string' || typeof input.sha256 !== 'string' || !/^[0-9a-f]{64}$/.test(input.sha256)) {
+    throw new DataError({ file: recordPath, field: `inputs.${label}` }, 'missing, or without a path and a SHA-256');
+  }
+  return { path: input.path, sha256: input.sha256 };
+}
+
+function someIds(ids: string[], asked: string): string {
+  // ids that share the asked id's first line are the likeliest meant; else the top-ranked
+  const head = asked.split('|')[0];
+  const near = head ? ids.filter((id) => id.split('|').includes(head)) : [];
+  const shown = (near.length > 0 ? near : ids).slice(0, 5);
+  return `${shown.map((id) => `"${id}"`).join(', ')}${ids.length > shown.length ? `, ... (${ids.length} strips in all; see ranking.csv)` : ''}`;
+}
+
+export interface StripProfile {
+  strip: StripSummary;
+  /** Oriented from the strip's line a. */
+  profile: Profile;
+}
+
+/**
+ * The cross-section of one strip of an earlier run: screens the recorded inputs again with the
+ * recorded settings (run.json keeps them in config form), after checking the inputs are unchanged.
+ */
+export async function profileFromRun(runDir: string, stripId: string): Promise<StripProfile> {
+  const recordPath = join(runDir, 'run.json');
+  if (!existsSync(recordPath)) throw new DataError({ file: recordPath }, `not found: is ${runDir} an output folder of doab screen?`);
+  let record: unknown;
+  try {
+    record = JSON.parse(readTextFile(recordPath));
+  } catch (error) {
+    if (error instanceof DataError) throw error;
+    throw new DataError({ file: recordPath }, `not valid JSON (${(error as Error).message})`);
+  }
+  if (!isObject(record) || record.tool !== 'doab') throw new DataError({ file: recordPath }, 'not a doab run record');
+  if (!isObject(record.settings)) throw new DataError({ file: recordPath, field: 'settings' }, 'missing or not an object');
+  const config = configFromValue(recordPath, record.settings, 'settings');
+  const canals = recordedInput(recordPath, record.inputs, 'canals');
+  const aquifer = recordedInput(recordPath, record.inputs, 'aquifer');
+  for (const [label, input] of [['canals', canals], ['aquifer', aquifer]] as const) {
+    if (!existsSync(input.path)) {
+      throw new DataError(
+        { file: input.path },
+        `the ${label} input of the run in ${recordPath} is not found from ${process.cwd()}; run doab profile from the folder doab screen ran in`,
+      );
+    }
+  }
+  const district = await loadDistrict(canals.path, aquifer.path, config);
+  for (const [input, file] of [[canals, district.canals], [aquifer, district.aquifer]] as const) {
+    if (file && file.sha256 !== input.sha256) {
+      throw new DataError(
+        { file: input.path },
+        `changed since the run in ${recordPath} (SHA-256 now ${file.sha256}, recorded ${input.sha256}); screen it again before drawing a profile`,
+      );
+    }
+  }
+  const skipped = Array.isArray(record.skipped_features) ? record.skipped_features.length : 0;
+  // the run itself stopped on errors unless it skipped them (--skip-invalid)
+  const result = screenLoaded(district, config, { skipInvalid: skipped > 0 });
+  const strip = result.strips.find((s) => s.stripId === stripId);
+  if (!strip) throw new DataError({ file: recordPath }, `no strip "${stripId}" in this run; its strips include ${someIds(result.strips.map((s) => s.stripId), stripId)}`);
+  const solved = profileOfFacing(result, strip, keyFacing(result, strip));
+  if (!solved) {
+    throw new DataError({ file: recordPath }, `strip "${strip.stripId}" has no solved transect (flags: ${strip.flags.join(';') || 'none'}): there is no water table to draw`);
+  }
+  return { strip, profile: orientFromLineA(solved, strip.lineAId) };
+}
+
+/** Writes a strip's profile as SVG and CSV into outDir (all or nothing); returns the file names. */
+export function writeProfile(outDir: string, { strip, profile }: StripProfile): string[] {
+  const name = profileFileName(strip.stripId);
+  const files = [
+    { name: `${name}.svg`, content: `${renderProfileSvg(profile)}\n` },
+    { name: `${name}.csv`, content: profileTable(profile) },
+  ];
+  writeAllOrNothing(outDir, files);
+  return files.map((file) => file.name);
+}
+
+/** One paragraph on a profile, for a terminal. */
+export function profileText({ strip, profile }: StripProfile, peakLabel: (peakM: number) => string): string {
+  return (
+    `Strip ${strip.stripId}: key transect from ${profile.lineA} to ${profile.lineB}, ${roundNumber(profile.widthM)} m wide\n` +
+    `Stages ${profile.stageAM.toFixed(2)} and ${profile.stageBM.toFixed(2)} m, base ${profile.baseM.toFixed(2)} m; ` +
+    `peak water table ${peakLabel(profile.peakWaterTableM)} at ${roundNumber(profile.peakOffsetM)} m from ${profile.lineA}; ` +
+    `smallest depth ${profile.minDepthM.toFixed(2)} m\n\nCAUTION: ${CAUTION}\n`
+  );
+}

@@ -1,0 +1,46 @@
+// The end-of-run summary printed to stdout: district totals, the top strips and the caution.
+import type { ScreenResult } from '../screening/screen.js';
+import { formatFixed } from './format.js';
+import { CAUTION } from './run-record.js';
+
+export function summaryText(result: ScreenResult, top = 10, skipped = 0): string {
+  const { totals, counts } = result;
+  const lines: string[] = [];
+  lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
+  lines.push(
+    `Seepage loss from losing lines: ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), net of what they take in on other sides; ` +
+      `gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d; the strips' losses add to ${formatFixed(totals.stripLossM3PerDay, 0)} m3/d`,
+  );
+  lines.push(
+    `Paired ${formatFixed(totals.pairedM / 1000, 1)} km, unpaired ${formatFixed(totals.unpairedM / 1000, 1)} km; ` +
+      `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatFixed(totals.riskAreaHa, 1)} ha`,
+  );
+  lines.push(
+    `Line sides solved: ${formatFixed(totals.solvedSidesM / 1000, 1)} km of ${formatFixed(totals.sidesM / 1000, 1)} km; ` +
+      'unpaired and unsolved sides are not counted, so these losses are a lower bound',
+  );
+  const byRisk = totals.stripsByRisk;
+  lines.push(`Strips by risk: ponded ${byRisk.ponded}, waterlogged ${byRisk.waterlogged}, potential ${byRisk.potential}, safe ${byRisk.safe}, unsolved ${byRisk.unsolved}`);
+  const header = ['rank', 'strip', 'loss m3/d/km', 'loss m3/d', 'min depth m', 'risk', 'flags'];
+  const rows = result.strips.slice(0, top).map((strip, i) => [
+    String(i + 1),
+    strip.stripId,
+    formatFixed(strip.lossM3PerDayKm, 1),
+    formatFixed(strip.lossM3PerDay, 1),
+    formatFixed(strip.minDepthM, 2),
+    strip.risk ?? 'unsolved',
+    strip.flags.join(';'),
+  ]);
+  const widths = header.map((title, c) => Math.max(title.length, ...rows.map((row) => row[c].length)));
+  const format = (row: string[]) => row.map((cell, c) => (c >= 2 && c <= 4 ? cell.padStart(widths[c]) : cell.padEnd(widths[c]))).join('  ').trimEnd();
+  if (rows.length === 0) {
+    lines.push('', `No strips: no two lines face each other within ${result.settings.maxGapM} m and ${result.settings.maxAngleDeg} degrees of parallel; canals.geojson gives each line's unpaired reasons.`);
+  } else {
+    lines.push('', `Top ${rows.length} strips (ranked by ${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}):`);
+    lines.push(format(header), ...rows.map(format));
+  }
+  for (const warning of result.warnings) lines.push(`warning: ${warning}`);
+  if (skipped > 0) lines.push(`${skipped} invalid feature${skipped === 1 ? ' was' : 's were'} skipped (--skip-invalid); run.json lists them`);
+  lines.push('', `CAUTION: ${CAUTION}`);
+  return `${lines.join('\n')}\n`;
+}

@@ -1,0 +1,179 @@
+// Every setting of a screening run, in one table: its config key, default, check, unit, one-line
+// doc and command-line flag. The defaults, the config file's schema, the starting config that
+// init-config writes, the settings in run.json and the CLI's options and help are all made from it.
+import { DataError, UsageError } from './errors.js';
+
+export type RankBy = 'loss' | 'risk';
+
+export interface RiskThresholds {
+  /** A water table less than this far below ground is waterlogged (m). */
+  waterloggedDepthM: number;
+  /** Between the waterlogged depth and this depth the land is potentially waterlogged (m). */
+  potentialDepthM: number;
+}
+
+export interface ScreenSettings {
+  stepM: number;
+  maxGapM: number;
+  maxAngleDeg: number;
+  /** The work CRS named by the user, or null for the UTM zone of the data's centre. */
+  crs: string | null;
+  /** CRS of both input files when they do not declare one (or to override what they declare). */
+  inputCrs: string | null;
+  rankBy: RankBy;
+  writeTransects: boolean;
+  /** A relative jump in spacing between neighbouring stations that ends a strip. */
+  spacingJump: number;
+  /** Dupuit-Forchheimer is a fair assumption when L / mean saturated thickness is at least this (common practice). */
+  dupuitRatioMin: number;
+  /** Bases along a transect may differ by this fraction of the mean saturated thickness before a flag. */
+  baseSpreadFraction: number;
+  /** Land beside each line left out of the depth check: its banks and service road (m). */
+  bankWidthM: number;
+  risk: RiskThresholds;
+}
+
+/** A setting's key as the config file writes it: top-level keys, and `risk.<key>` for the thresholds. */
+export type SettingKey = Exclude<keyof ScreenSettings, 'risk'> | `risk.${keyof RiskThresholds}`;
+
+/** Throws an Error saying what is wrong with a value; the caller adds where it came from. */
+export type Checker = (value: unknown, key: string) => unknown;
+
+export const positive: Checker = (value, key) => {
+  if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) throw new Error(`"${key}" must be a positive number, found ${JSON.stringify(value)}`);
+  return value;
+};
+export const nonNegative: Checker = (value, key) => {
+  if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) throw new Error(`"${key}" must be a number, 0 or more, found ${JSON.stringify(value)}`);
+  return value;
+};
+export const finite: Checker = (value, key) => {
+  if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`"${key}" must be a number, found ${JSON.stringify(value)}`);
+  return value;
+};
+const angle: Checker = (value, key) => {
+  const v = positive(value, key) as number;
+  if (v >= 90) throw new Error(`"${key}" must be below 90 degrees, found ${v}`);
+  return v;
+};
+const nullableText: Checker = (value, key) => {
+  if (value !== null && (typeof value !== 'string' || value.trim() === '')) throw new Error(`"${key}" must be text or null, found ${JSON.stringify(value)}`);
+  return value;
+};
+export const oneOf = (choices: readonly string[]): Checker => (value, key) => {
+  if (typeof value !== 'string' || !choices.includes(value)) throw new Error(`"${key}" must be one of ${choices.map((c) => `"${c}"`).join(', ')}, found ${JSON.stringify(value)}`);
+  return value;
+};
+export const bool: Checker = (value, key) => {
+  if (typeof value !== 'boolean') throw new Error(`"${key}" must be true or false, found ${JSON.stringify(value)}`);
+  return value;
+};
+
+export type SettingType = 'number' | 'text' | 'boolean' | 'choice';
+
+export interface SettingSpec {
+  default: number | string | boolean | null;
+  check: Checker;
+  type: SettingType;
+  choices?: readonly string[];
+  /** Unit of the value ('' when it has none). */
+  unit: string;
+  doc: string;
+  /** The command-line option, as commander writes it (`--step <m>`); none when only a config sets it. */
+  flag?: string;
+  /** Left out of the starting config that init-config writes (a value most users never change). */
+  advanced?: boolean;
+}
+
+// Default risk thresholds: Government of India, Ministry of Water Resources, working group on
+// waterlogging (1991): water table within 2 m of the surface is waterlogged, 2 to 3 m potentially
+// waterlogged, deeper than 3 m safe [published].
+export const SETTINGS: Readonly<Record<SettingKey, SettingSpec>> = Object.freeze({
+  stepM: { default: 100, check: positive, type: 'number', unit: 'm', doc: 'station spacing along each line', flag: '--step <m>' },
+  maxGapM: { default: 3000, check: positive, type: 'number', unit: 'm', doc: 'longest transect', flag: '--max-gap <m>' },
+  maxAngleDeg: { default: 20, check: angle, type: 'number', unit: 'degrees', doc: 'largest angle from parallel for a partner (below 90)', flag: '--max-angle <deg>' },
+  crs: { default: null, check: nullableText, type: 'text', unit: '', doc: 'work CRS: EPSG:326xx/327xx or a +proj string; null for the UTM zone of the data centre', flag: '--crs <crs>' },
+  inputCrs: { default: null, check: nullableText, type: 'text', unit: '', doc: 'CRS of the input files (EPSG:<code>, proj4 or WKT); overrides .prj and "crs" members', flag: '--input-crs <crs>' },
+  rankBy: { default: 'loss', check: oneOf(['loss', 'risk']), type: 'choice', choices: ['loss', 'risk'], unit: '', doc: 'rank strips by loss per km ("loss") or by smallest depth ("risk")', flag: '--rank-by <key>' },
+  writeTransects: { default: false, check: bool, type: 'boolean', unit: '', doc: 'also write the transects layer, every transect with its inputs and results', flag: '--transects' },
+  spacingJump: { default: 0.25, check: positive, type: 'number', unit: 'fraction', doc: 'a relative jump in spacing between neighbouring stations that ends a strip', advanced: true },
+  dupuitRatioMin: { default: 5, check: positive, type: 'number', unit: '', doc: 'strips narrower than this many mean saturated thicknesses are flagged (common practice)', advanced: true },
+  baseSpreadFraction: { default: 0.1, check: positive, type: 'number', unit: 'fraction', doc: 'bases along a transect may differ by this fraction of the mean saturated thickness before a flag', advanced: true },
+  bankWidthM: { default: 10, check: nonNegative, type: 'number', unit: 'm', doc: 'land beside each line left out of the depth check (banks, service road)' },
+  'risk.waterloggedDepthM': { default: 2, check: positive, type: 'number', unit: 'm', doc: 'a water table less deep than this below ground is waterlogged' },
+  'risk.potentialDepthM': { default: 3, check: positive, type: 'number', unit: 'm', doc: 'between the waterlogged depth and this depth the land is potentially waterlogged' },
+});
+
+export const SETTING_KEYS = Object.keys(SETTINGS) as SettingKey[];
+
+/** The setting at a key of the table, read from settings. */
+export function getSetting(settings: ScreenSettings, key: SettingKey): unknown {
+  const [head, tail] = key.split('.');
+  const holder = (tail === undefined ? settings : (settings as unknown as Record<string, Record<string, unknown>>)[head]) as unknown as Record<string, unknown>;
+  return holder[tail ?? head];
+}
+
+/** Sets a setting at a key of the table, after its check; the Error says what is wrong. */
+export function setSetting(settings: ScreenSettings, key: SettingKey, value: unknown): void {
+  const spec = SETTINGS[key];
+  const checked = spec.check(value, key);
+  const [head, tail] = key.split('.');
+  const holder = (tail === undefined ? settings : (settings as unknown as Record<string, Record<string, unknown>>)[head]) as unknown as Record<string, unknown>;
+  holder[tail ?? head] = checked;
+}
+
+export function defaultSettings(): ScreenSettings {
+  const settings = { risk: {} } as ScreenSettings;
+  for (const key of SETTING_KEYS) setSetting(settings, key, SETTINGS[key].default);
+  return settings;
+}
+
+export const DEFAULT_SETTINGS: ScreenSettings = Object.freeze(defaultSettings());
+
+/** The settings in config-file form (the nested object a config file or run.json holds). */
+export function settingsAsConfig(settings: ScreenSettings): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const key of SETTING_KEYS) {
+    const [head, tail] = key.split('.');
+    if (tail === undefined) out[head] = getSetting(settings, key);
+    else ((out[head] ??= {}) as Record<string, unknown>)[tail] = getSetting(settings, key);
+  }
+  return out;
+}
+
+/** The name commander gives a flag's value: `--max-gap <m>` -> maxGap. */
+export function flagAttribute(flag: string): string {
+  return flag.split(' ')[0].replace(/^--/, '').replace(/-([a-z])/g, (_, c: string) => c.toUpperCase());
+}
+
+/** The command-line options over settings: each flag given is checked as the config checks it. */
+export function applyFlags(settings: ScreenSettings, options: Record<string, unknown>): void {
+  for (const key of SETTING_KEYS) {
+    const spec = SETTINGS[key];
+    if (!spec.flag) continue;
+    const value = options[flagAttribute(spec.flag)];
+    if (value === undefined) continue;
+    try {
+      setSetting(settings, key, value);
+    } catch (error) {
+      throw new UsageError(`${spec.flag.split(' ')[0]}: ${(error as Error).message.replace(/^"[^"]*" /, '')}`, key);
+    }
+  }
+}
+
+export function checkRisk(file: string, risk: RiskThresholds): void {
+  if (!(risk.potentialDepthM > risk.waterloggedDepthM)) {
+    throw new DataError({ file }, `"risk.potentialDepthM" (${risk.potentialDepthM}) must exceed "risk.waterloggedDepthM" (${risk.waterloggedDepthM})`);
+  }
+}
+
+export type RiskClass = 'ponded' | 'waterlogged' | 'potential' | 'safe';
+export const RISK_CLASSES: readonly RiskClass[] = ['ponded', 'waterlogged', 'potential', 'safe'];
+
+/** Risk class from the smallest depth of the water table below ground (m). */
+export function riskClass(minDepthM: number, risk: RiskThresholds): RiskClass {
+  if (minDepthM <= 0) return 'ponded';
+  if (minDepthM < risk.waterloggedDepthM) return 'waterlogged';
+  if (minDepthM < risk.potentialDepthM) return 'potential';
+  return 'safe';
+}
