@@ -92,8 +92,12 @@ export interface DistrictSolution {
   solverBytes: number;
 }
 
-// the linear tolerance of the first Picard step, before any change in head is known
-const LOOSEST_PICARD_TOLERANCE = 1e-6;
+// Inexact Picard: while the heads still move, a linear solve far finer than the move is wasted, so
+// the first step's linear tolerance is loose and each step tightens it until the full tolerance
+// (R.S. Dembo, S.C. Eisenstat and T. Steihaug (1982), Inexact Newton methods, SIAM J. Numer.
+// Anal. 19, 400-408 [from memory]).
+const LOOSEST_PICARD_TOLERANCE = 1e-4;
+const PICARD_TOLERANCE_STEP = 0.03;
 
 const DEFAULTS = {
   headToleranceM: 1e-8,
@@ -134,7 +138,8 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
   const headM = new Float64Array(cellCount);
   assemble(grid, solver, referenceBaseM, 0, null);
   solver.prepare();
-  let report = solver.solve(settings.linearTolerance, settings.maxLinearIterations);
+  let tolerance = equalBases ? settings.linearTolerance : Math.max(settings.linearTolerance, LOOSEST_PICARD_TOLERANCE);
+  let report = solver.solve(tolerance, settings.maxLinearIterations);
   let linearIterations = report.iterations, linearSolves = 1;
   readHeadsFromU(grid, solver.x, referenceBaseM, headM);
   let status: DistrictSolveStatus = report.converged ? 'converged' : 'linear-not-converged';
@@ -142,9 +147,9 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
   let picardIterations = 0, lastHeadChangeM = 0;
   if (!equalBases && report.converged) {
     status = 'picard-not-converged';
-    let tolerance = LOOSEST_PICARD_TOLERANCE;
     while (picardIterations < settings.maxPicardIterations) {
       picardIterations++;
+      tolerance = Math.max(settings.linearTolerance, tolerance * PICARD_TOLERANCE_STEP);
       assemble(grid, solver, NaN, settings.dryThicknessM, headM);
       solver.prepare();
       report = solver.solve(tolerance, settings.maxLinearIterations);
@@ -160,12 +165,6 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
         status = 'converged';
         break;
       }
-      // while the heads still move, a linear solve far finer than the move is wasted work
-      // (inexact Picard, in the spirit of R.S. Dembo, S.C. Eisenstat and T. Steihaug (1982),
-      // Inexact Newton methods, SIAM J. Numer. Anal. 19, 400-408 [from memory])
-      const scaled = settings.linearTolerance * Math.sqrt(lastHeadChangeM / settings.headToleranceM);
-      tolerance = Math.min(LOOSEST_PICARD_TOLERANCE, Math.max(settings.linearTolerance, scaled));
-      if (lastHeadChangeM < settings.headToleranceM) tolerance = settings.linearTolerance;
     }
   }
 

@@ -120,8 +120,8 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
       const properties: Record<string, unknown> = Object.create(null);
       for (const key of Object.keys(line.properties)) properties[key] = line.properties[key];
       properties.length_m = roundNumber(summary.lengthM);
-      properties.loss_m3_d = roundNumber(summary.lossM3PerDay);
-      properties.loss_m3_d_km = roundNumber(lossPerKm(summary));
+      properties.net_loss_m3_d = roundNumber(summary.netLossM3PerDay);
+      properties.net_loss_m3_d_km = roundNumber(lossPerKm(summary));
       properties.paired_m = roundNumber(summary.pairedM);
       properties.unpaired_m = roundNumber(summary.unpairedM);
       properties.solved_sides_m = roundNumber(summary.solvedSidesM);
@@ -154,7 +154,7 @@ function* transectFeatures(result: ScreenResult): Generator<object> {
         station_length_m: roundNumber(stations.lengthM[station]),
         partner: lines[facings.partner[i]].id,
         partner_chainage_m: roundNumber(facings.partnerChainageM[i]),
-        reason: FACING_REASON_NAMES[facings.reason[i]],
+        reason: FACING_REASON_NAMES[results.reason[i]],
         solve: status === NOT_PAIRED ? 'not-solved' : SOLVE_STATUS_NAMES[status],
         gap_m: roundNumber(facings.gapM[i]),
         stage_m: roundNumber(results.ownStageM[i]),

@@ -109,7 +109,7 @@ function unpairedPathData(result: ScreenResult, view: MapView, minStepPx: number
     run = [];
   };
   for (let s = 0; s < stations.count; s++) {
-    const unpaired = facings.reason[2 * s] !== FACING_PAIRED && facings.reason[2 * s + 1] !== FACING_PAIRED;
+    const unpaired = result.results.reason[2 * s] !== FACING_PAIRED && result.results.reason[2 * s + 1] !== FACING_PAIRED;
     const continues = run.length > 0 && stations.line[s] === stations.line[run[0]] && stations.part[s] === stations.part[run[0]];
     if (!unpaired || !continues) flush();
     if (unpaired) run.push(s);
@@ -216,7 +216,7 @@ export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}
     const line = result.lines[i];
     const lossPerKm = lineLossPerKm(result, i);
     const d = linesM[i].map((part) => pathData(view, part, minStepPx, false)).join('');
-    const title = `${line.id}${line.name ? ` ${line.name}` : ''} (${line.kind}): loss ${formatFixed(result.lineSummaries[i].lossM3PerDay, 1)} m³/d, ` +
+    const title = `${line.id}${line.name ? ` ${line.name}` : ''} (${line.kind}): loss ${formatFixed(result.lineSummaries[i].netLossM3PerDay, 1)} m³/d, ` +
       `${lossPerKm === null ? 'no paired length' : `${formatFixed(lossPerKm, 1)} m³/d per km paired`}`;
     return `<path class="map-${line.kind}" stroke-width="${Math.round(lineWidthPx(lossPerKm, widths) * 10) / 10}" d="${d}"><title>${escapeHtml(title)}</title></path>`;
   };

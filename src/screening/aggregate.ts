@@ -38,8 +38,8 @@ export interface StripSummary {
 
 export interface LineSummary {
   lengthM: number;
-  /** Net seepage of the line's solved sides (m^3/d); NaN when no side could be solved. */
-  lossM3PerDay: number;
+  /** Net seepage of the line's solved sides, loss less gain (m^3/d); NaN when no side could be solved. */
+  netLossM3PerDay: number;
   /** Length where at least one side is paired with a partner (m). */
   pairedM: number;
   unpairedM: number;
@@ -71,7 +71,7 @@ export function summariseStrip(
     const status = results.status[facing];
     if (status !== SOLVE_OK) {
       unsolved++;
-      unsolvedReasons.add(status === NOT_PAIRED ? FACING_REASON_NAMES[facings.reason[facing]] : SOLVE_STATUS_NAMES[status]);
+      unsolvedReasons.add(status === NOT_PAIRED ? FACING_REASON_NAMES[results.reason[facing]] : SOLVE_STATUS_NAMES[status]);
       return;
     }
     const loss = results.ownSeepageM2PerDay[facing] * length;
@@ -132,7 +132,7 @@ export function summariseLines(
 ): LineSummary[] {
   const summaries: LineSummary[] = lines.map((_, index) => ({
     lengthM: lineLengthsM[index],
-    lossM3PerDay: 0,
+    netLossM3PerDay: 0,
     pairedM: 0,
     unpairedM: 0,
     solvedSidesM: 0,
@@ -144,14 +144,14 @@ export function summariseLines(
     let paired = false;
     for (let side = 0; side < 2; side++) {
       const facing = 2 * s + side;
-      if (facings.reason[facing] === FACING_PAIRED) {
+      if (results.reason[facing] === FACING_PAIRED) {
         paired = true;
         if (results.status[facing] === SOLVE_OK) {
-          summary.lossM3PerDay += results.ownSeepageM2PerDay[facing] * length;
+          summary.netLossM3PerDay += results.ownSeepageM2PerDay[facing] * length;
           summary.solvedSidesM += length;
         }
       } else {
-        const reason = FACING_REASON_NAMES[facings.reason[facing]];
+        const reason = FACING_REASON_NAMES[results.reason[facing]];
         const bySide = summary.unpairedBySideM[side];
         bySide[reason] = (bySide[reason] ?? 0) + length;
       }
@@ -160,11 +160,11 @@ export function summariseLines(
     else summary.unpairedM += length;
   }
   // a line with no solved side has an unknown loss, not none
-  for (const summary of summaries) if (summary.solvedSidesM === 0) summary.lossM3PerDay = NaN;
+  for (const summary of summaries) if (summary.solvedSidesM === 0) summary.netLossM3PerDay = NaN;
   return summaries;
 }
 
 /** A line's loss per km of paired length (m^3/d/km), as canals.geojson gives it; NaN without a solved side. */
 export function lossPerKm(summary: LineSummary): number {
-  return summary.pairedM > 0 && Number.isFinite(summary.lossM3PerDay) ? summary.lossM3PerDay / (summary.pairedM / 1000) : NaN;
+  return summary.pairedM > 0 && Number.isFinite(summary.netLossM3PerDay) ? summary.netLossM3PerDay / (summary.pairedM / 1000) : NaN;
 }

@@ -104,7 +104,8 @@ export function screenDistrict(
     onProgress('solve', done, facings.count),
   );
   onProgress('strips', 0, 1);
-  const strips = buildStrips(geometries, stations, facings, { spacingJump: settings.spacingJump }).map((strip) =>
+  // strips join sides that are paired after the solve (a transect leaving the zones ends a strip)
+  const strips = buildStrips(geometries, stations, { ...facings, reason: results.reason }, { spacingJump: settings.spacingJump }).map((strip) =>
     summariseStrip(strip, lines, stations, facings, results, settings),
   );
   rankStrips(strips, settings.rankBy);
@@ -131,7 +132,7 @@ export function screenDistrict(
       lines: lines.length,
       zones: zones.length,
       stations: stations.count,
-      facingsByReason: countReasons(facings),
+      facingsByReason: countReasons(facings, results),
       solvedFacings: results.status.reduce((count, status) => count + (status === SOLVE_OK ? 1 : 0), 0),
       strips: strips.length,
     },
@@ -165,8 +166,8 @@ function districtTotals(summaries: LineSummary[], strips: StripSummary[]): Distr
   let loss = 0, gain = 0, paired = 0, unpaired = 0, riskArea = 0, solvedSides = 0, sides = 0, stripLoss = 0;
   for (const summary of summaries) {
     // a line with no solved side has no loss to add (NaN): neither loss nor gain
-    if (summary.lossM3PerDay > 0) loss += summary.lossM3PerDay;
-    else if (summary.lossM3PerDay < 0) gain -= summary.lossM3PerDay;
+    if (summary.netLossM3PerDay > 0) loss += summary.netLossM3PerDay;
+    else if (summary.netLossM3PerDay < 0) gain -= summary.netLossM3PerDay;
     paired += summary.pairedM;
     unpaired += summary.unpairedM;
     solvedSides += summary.solvedSidesM;
@@ -199,7 +200,7 @@ function solveWarnings(facings: FacingTable, results: FacingResults): string[] {
   const warnings: string[] = [];
   let outside = 0, bridged = 0, bridgedMaxM = 0, unsolved = 0;
   for (let i = 0; i < facings.count; i++) {
-    if (facings.reason[i] === FACING_OUTSIDE_AQUIFER) outside++;
+    if (results.reason[i] === FACING_OUTSIDE_AQUIFER) outside++;
     if (results.uncoveredM[i] > 0) { bridged++; bridgedMaxM = Math.max(bridgedMaxM, results.uncoveredM[i]); }
     if (results.status[i] !== SOLVE_OK && results.status[i] !== NOT_PAIRED) unsolved++;
   }
@@ -209,10 +210,10 @@ function solveWarnings(facings: FacingTable, results: FacingResults): string[] {
   return warnings;
 }
 
-function countReasons(facings: FacingTable): Record<string, number> {
+function countReasons(facings: FacingTable, results: FacingResults): Record<string, number> {
   const counts: Record<string, number> = {};
   for (const name of FACING_REASON_NAMES) counts[name] = 0;
-  for (let i = 0; i < facings.count; i++) counts[FACING_REASON_NAMES[facings.reason[i]]]++;
+  for (let i = 0; i < facings.count; i++) counts[FACING_REASON_NAMES[results.reason[i]]]++;
   return counts;
 }
 

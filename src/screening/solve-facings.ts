@@ -28,6 +28,11 @@ const UNCOVERED_TOLERANCE_M = 2;
 const UNCOVERED_TOLERANCE_FRACTION = 0.01;
 
 export interface FacingResults {
+  /**
+   * Each side's reason after the solve: the geometry stage's reason (facings.reason, never
+   * written here), or outside-aquifer where a paired transect leaves the zones.
+   */
+  reason: Uint8Array;
   /** 0 = solved (SOLVE_OK); otherwise a solver status; 255 = not paired (see the facing's reason). */
   status: Uint8Array;
   flags: Uint8Array;
@@ -65,6 +70,7 @@ export function solveFacings(
 ): FacingResults {
   const n = facings.count;
   const results: FacingResults = {
+    reason: facings.reason.slice(),
     status: new Uint8Array(n).fill(NOT_PAIRED),
     flags: new Uint8Array(n),
     ownStageM: new Float64Array(n).fill(NaN),
@@ -90,12 +96,12 @@ export function solveFacings(
     const station = i >> 1;
     const cut = cutTransect(zoneIndex, stations.x[station], stations.y[station], facings.endX[i], facings.endY[i]);
     if (cut.count === 0 || cut.uncoveredM > Math.max(UNCOVERED_TOLERANCE_M, UNCOVERED_TOLERANCE_FRACTION * facings.gapM[i])) {
-      facings.reason[i] = FACING_OUTSIDE_AQUIFER;
+      results.reason[i] = FACING_OUTSIDE_AQUIFER;
       continue;
     }
     const pieces = loadCut(solver, cut, zones, loaded);
     if (pieces === 0) {
-      facings.reason[i] = FACING_OUTSIDE_AQUIFER;
+      results.reason[i] = FACING_OUTSIDE_AQUIFER;
       continue;
     }
     const baseM = loaded[LOADED_BASE];

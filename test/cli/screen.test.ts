@@ -12,7 +12,7 @@ const STRIP_FIELDS = [
   'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'spacing_min_m', 'spacing_max_m', 'q_a_m2_d', 'q_b_m2_d',
   'loss_a_m3_d', 'loss_b_m3_d', 'peak_water_table_m', 'peak_offset_m', 'min_depth_m', 'risk', 'risk_area_ha', 'dupuit_ratio_min', 'flags',
 ];
-const LINE_FIELDS = ['loss_m3_d', 'loss_m3_d_km', 'paired_m', 'unpaired_m', 'unpaired_reasons'];
+const LINE_FIELDS = ['net_loss_m3_d', 'net_loss_m3_d_km', 'paired_m', 'unpaired_m', 'unpaired_reasons'];
 const RANKING_FIELDS = [
   'rank', 'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km', 'loss_m3_yr',
   'min_depth_m', 'risk', 'risk_area_ha', 'flags',
@@ -122,7 +122,7 @@ describe('doab screen on the demo district', () => {
   });
 
   it('adds up: district = sum over lines = sum over strips plus unpaired parts', () => {
-    const lineLosses = layers.canals.features.map((f: any) => f.properties.loss_m3_d as number);
+    const lineLosses = layers.canals.features.map((f: any) => f.properties.net_loss_m3_d as number);
     const positive = lineLosses.filter((v: number) => v > 0).reduce((a: number, b: number) => a + b, 0);
     const net = lineLosses.reduce((a: number, b: number) => a + b, 0);
     expect(layers.record.totals.loss_m3_d).toBeCloseTo(positive, -1);

@@ -18,7 +18,7 @@ describe('unsolved transects', () => {
     expect(strip.lossAM3PerDay).toBeNaN();
     expect(strip.risk).toBeNull();
     for (const summary of result.lineSummaries) {
-      expect(summary.lossM3PerDay).toBeNaN();
+      expect(summary.netLossM3PerDay).toBeNaN();
       expect(summary.solvedSidesM).toBe(0);
     }
     expect(result.totals.solvedSidesM).toBe(0);
@@ -27,8 +27,8 @@ describe('unsolved transects', () => {
     expect(stripProps.loss_a_m3_d).toBeNull();
     expect(stripProps.risk).toBe('unsolved');
     for (const feature of JSON.parse(layerText(linesLayer(result))).features) {
-      expect(feature.properties.loss_m3_d).toBeNull();
-      expect(feature.properties.loss_m3_d_km).toBeNull();
+      expect(feature.properties.net_loss_m3_d).toBeNull();
+      expect(feature.properties.net_loss_m3_d_km).toBeNull();
     }
   });
 });
