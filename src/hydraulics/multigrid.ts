@@ -37,7 +37,10 @@ export interface LinearSolveReport {
   converged: boolean;
 }
 
-/** A five-point operator and its work vectors on a grid padded by one ring of empty cells. */
+/**
+ * A five-point operator and its work vectors on a grid padded by one ring of empty cells: the
+ * cell at (column, row), both from 0, is at (row + 1) * width + column + 1.
+ */
 export class GridLevel {
   readonly columns: number;
   readonly rows: number;
@@ -63,11 +66,6 @@ export class GridLevel {
     this.diag = new Float64Array(this.size);
     this.x = vectors ? new Float64Array(this.size) : EMPTY;
     this.b = vectors ? new Float64Array(this.size) : EMPTY;
-  }
-
-  /** Padded index of the cell at (column, row), both counted from 0. */
-  index(column: number, row: number): number {
-    return (row + 1) * this.width + column + 1;
   }
 }
 
@@ -127,10 +125,6 @@ export class MultigridConjugateGradient {
     return total;
   }
 
-  get levelCount(): number {
-    return this.levels.length;
-  }
-
   /** Builds the coarse operators and factors the coarsest; call after every change to `fine`. */
   prepare(): void {
     for (let l = 0; l + 1 < this.levels.length; l++) galerkin(this.levels[l], this.levels[l + 1]);
@@ -184,6 +178,7 @@ export class MultigridConjugateGradient {
     this.cycle(0);
   }
 
+  /** level.x ~= A_l^-1 level.b */
   private cycle(l: number): void {
     const level = this.levels[l];
     if (l === this.levels.length - 1) {

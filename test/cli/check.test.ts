@@ -3,7 +3,7 @@
 import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { freshDir, readJson, ROOT, runCli } from './run-cli.js';
+import { freshDir, readJson, ROOT, runCliInProcess } from './run-cli.js';
 
 const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');
 const GOOD_CANALS = join(PAIR, 'canals.geojson');
@@ -33,8 +33,8 @@ function northZone(id: string, properties: Record<string, unknown> = {}) {
 }
 
 describe('doab check', () => {
-  it('passes the good district: exit 0, 0 errors, the feature counts', () => {
-    const run = runCli(['check', '--canals', GOOD_CANALS, '--aquifer', GOOD_AQUIFER]);
+  it('passes the good district: exit 0, 0 errors, the feature counts', async () => {
+    const run = await runCliInProcess(['check', '--canals', GOOD_CANALS, '--aquifer', GOOD_AQUIFER]);
     expect(run.status, run.stderr).toBe(0);
     expect(run.stdout).toMatch(/^0 errors, 0 warnings$/m);
     expect(run.stdout).toContain(`${GOOD_CANALS}: 2 features (2 valid lines)`);
@@ -42,7 +42,7 @@ describe('doab check', () => {
     expect(problemLines(run.stdout)).toEqual([]);
   });
 
-  it('prints every problem, errors before warnings, each with file, feature, id and field, and exits 1', () => {
+  it('prints every problem, errors before warnings, each with file, feature, id and field, and exits 1', async () => {
     const dir = freshDir('check-many');
     const canals = goodCanals();
     canals.features[0].properties.stage_m = '105,2';
@@ -58,7 +58,7 @@ describe('doab check', () => {
     const canalsPath = write(dir, 'canals.geojson', canals);
     const aquiferPath = write(dir, 'aquifer.geojson', aquifer);
 
-    const run = runCli(['check', '--canals', canalsPath, '--aquifer', aquiferPath]);
+    const run = await runCliInProcess(['check', '--canals', canalsPath, '--aquifer', aquiferPath]);
     expect(run.status, run.stdout + run.stderr).toBe(1);
     const c = lit(canalsPath), a = lit(aquiferPath);
     const expected = [
@@ -80,7 +80,7 @@ describe('doab check', () => {
     expect(run.stdout).toContain(`${canalsPath}: 4 features (0 valid lines)`);
   });
 
-  it('warns about overlapping zones, naming both, and exits 0 when nothing else is wrong', () => {
+  it('warns about overlapping zones, naming both, and exits 0 when nothing else is wrong', async () => {
     const dir = freshDir('check-overlap');
     const aquifer = goodAquifer();
     // the same zone shifted north by a third of its height: the two share a band about 5.4 km tall
@@ -88,7 +88,7 @@ describe('doab check', () => {
     shifted.geometry.coordinates[0] = aquifer.features[0].geometry.coordinates[0].map(([x, y]: number[]) => [x, y + 0.024]);
     aquifer.features.push(shifted);
     const aquiferPath = write(dir, 'aquifer.geojson', aquifer);
-    const run = runCli(['check', '--canals', GOOD_CANALS, '--aquifer', aquiferPath]);
+    const run = await runCliInProcess(['check', '--canals', GOOD_CANALS, '--aquifer', aquiferPath]);
     expect(run.status, run.stdout + run.stderr).toBe(0);
     expect(run.stdout).toMatch(new RegExp(`^warning: ${lit(aquiferPath)}, feature 1 \\(id "loam"\\), field "geometry": overlaps zone "sand" \\(feature 0\\) over [\\d.]+ ha`, 'm'));
     // the shared band is a lon/lat rectangle; its area on a sphere is R^2 dlon (sin lat2 - sin lat1)
@@ -102,7 +102,7 @@ describe('doab check', () => {
     expect(run.stdout).toMatch(/^0 errors, 1 warning$/m);
   });
 
-  it('warns when K is outside the handbook range, naming the source (Bouwer 1978) and the unit', () => {
+  it('warns when K is outside the handbook range, naming the source (Bouwer 1978) and the unit', async () => {
     const dir = freshDir('check-k');
     const aquifer = goodAquifer();
     // 0.002 cm/s = 1.728 m/d is fine; 2 cm/s = 1728 m/d is above the 1000 m/d of gravel (Bouwer 1978 [published second-hand])
@@ -110,7 +110,7 @@ describe('doab check', () => {
     const aquiferPath = write(dir, 'aquifer.geojson', aquifer);
     const config = join(dir, 'config.jsonc');
     writeFileSync(config, '{ "units": { "k": "cm/s" } }\n');
-    const run = runCli(['check', '--canals', GOOD_CANALS, '--aquifer', aquiferPath, '--config', config]);
+    const run = await runCliInProcess(['check', '--canals', GOOD_CANALS, '--aquifer', aquiferPath, '--config', config]);
     expect(run.status, run.stdout + run.stderr).toBe(0);
     expect(run.stdout).toMatch(
       new RegExp(`^warning: ${lit(aquiferPath)}, feature 0 \\(id "sand"\\), field "k_m_d": hydraulic conductivity 1728 m/d is outside the handbook range.*0\\.01 to 1000 m/d.*Bouwer.*1978.*\\(cm/s\\)`, 'm'),
@@ -118,24 +118,24 @@ describe('doab check', () => {
     expect(run.stdout).toMatch(/^0 errors, 1 warning$/m);
   });
 
-  it('warns when a canal stands far above the ground, and exits 0', () => {
+  it('warns when a canal stands far above the ground, and exits 0', async () => {
     const dir = freshDir('check-high');
     const canals = goodCanals();
     // ground 108 m; 120 m is 12 m above it, more than the 5 m an embankment canal stands (common practice)
     canals.features[0].properties.stage_m = 120;
     const canalsPath = write(dir, 'canals.geojson', canals);
-    const run = runCli(['check', '--canals', canalsPath, '--aquifer', GOOD_AQUIFER]);
+    const run = await runCliInProcess(['check', '--canals', canalsPath, '--aquifer', GOOD_AQUIFER]);
     expect(run.status, run.stdout + run.stderr).toBe(0);
     expect(run.stdout).toMatch(new RegExp(`^warning: ${lit(canalsPath)}, feature 0 \\(id "a-upper"\\), field "[a-z_]+": stage 120 m at chainage 0 m is 12 m above the ground of zone "sand" \\(108 m\\)`, 'm'));
     expect(run.stdout).toMatch(/^0 errors, 1 warning$/m);
   });
 
-  it('stops on a canal level at or below the aquifer base', () => {
+  it('stops on a canal level at or below the aquifer base', async () => {
     const dir = freshDir('check-low');
     const canals = goodCanals();
     canals.features[1].properties.stage_m = 90;
     const canalsPath = write(dir, 'canals.geojson', canals);
-    const run = runCli(['check', '--canals', canalsPath, '--aquifer', GOOD_AQUIFER]);
+    const run = await runCliInProcess(['check', '--canals', canalsPath, '--aquifer', GOOD_AQUIFER]);
     expect(run.status).toBe(1);
     expect(run.stdout).toMatch(new RegExp(`^error: ${lit(canalsPath)}, feature 1 \\(id "b-lower"\\), field "[a-z_]+": stage 90 m at chainage 0 m is at or below the aquifer base 90 m of zone "sand"`, 'm'));
   });
@@ -151,17 +151,17 @@ describe('doab screen --skip-invalid', () => {
     return { dir, canals: write(dir, 'canals.geojson', canals), out: join(dir, 'out') };
   }
 
-  it('without the flag stops with exit 1 and writes nothing', () => {
+  it('without the flag stops with exit 1 and writes nothing', async () => {
     const { canals, out } = district();
-    const run = runCli(['screen', '--canals', canals, '--aquifer', GOOD_AQUIFER, '--out', out]);
+    const run = await runCliInProcess(['screen', '--canals', canals, '--aquifer', GOOD_AQUIFER, '--out', out]);
     expect(run.status).toBe(1);
     expect(run.stderr).toMatch(/doab: stopped: 2 problems in the inputs; nothing was written/);
     expect(existsSync(out) ? readdirSync(out) : []).toEqual([]);
   });
 
-  it('with the flag leaves the bad features out, lists them in run.json and says so in the summary', () => {
+  it('with the flag leaves the bad features out, lists them in run.json and says so in the summary', async () => {
     const { canals, out } = district();
-    const run = runCli(['screen', '--canals', canals, '--aquifer', GOOD_AQUIFER, '--out', out, '--skip-invalid']);
+    const run = await runCliInProcess(['screen', '--canals', canals, '--aquifer', GOOD_AQUIFER, '--out', out, '--skip-invalid']);
     expect(run.status, run.stderr).toBe(0);
     expect(run.stderr).toMatch(/skipping 2 invalid features \(--skip-invalid\)/);
     expect(run.stderr).toContain(`error: ${canals}, feature 2 (id "c-middle"), field "stage_m": expected a number, found text "104"`);
@@ -183,12 +183,12 @@ describe('doab screen --skip-invalid', () => {
     expect(strips.features[0].properties.line_a).toBe('a-upper');
   });
 
-  it('still stops on a problem with a whole file, since no feature can be skipped to fix it', () => {
+  it('still stops on a problem with a whole file, since no feature can be skipped to fix it', async () => {
     const dir = freshDir('skip-file');
     const canals = join(dir, 'canals.geojson');
     writeFileSync(canals, readFileSync(GOOD_CANALS, 'utf8').slice(0, 100));
     const out = join(dir, 'out');
-    const run = runCli(['screen', '--canals', canals, '--aquifer', GOOD_AQUIFER, '--out', out, '--skip-invalid']);
+    const run = await runCliInProcess(['screen', '--canals', canals, '--aquifer', GOOD_AQUIFER, '--out', out, '--skip-invalid']);
     expect(run.status).toBe(1);
     expect(run.stderr).toMatch(new RegExp(`^error: ${lit(canals)}: not valid JSON`, 'm'));
     expect(existsSync(out) ? readdirSync(out) : []).toEqual([]);

@@ -4,7 +4,7 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseConfig } from '../../src/input/config.js';
-import { freshDir, readJson, ROOT, runCli } from './run-cli.js';
+import { freshDir, readJson, ROOT, runCliInProcess } from './run-cli.js';
 
 const PAIR = join(ROOT, 'test/fixtures/screen/parallel-pair');
 
@@ -27,11 +27,11 @@ function renamedDistrict(dir: string): { canals: string; aquifer: string } {
 }
 
 describe('doab init-config', () => {
-  it('matches renamed attributes, and check and screen then accept the data', () => {
+  it('matches renamed attributes, and check and screen then accept the data', async () => {
     const dir = freshDir('init-config');
     const { canals, aquifer } = renamedDistrict(dir);
     const config = join(dir, 'doab.jsonc');
-    const made = runCli(['init-config', '--canals', canals, '--aquifer', aquifer, '--out', config]);
+    const made = await runCliInProcess(['init-config', '--canals', canals, '--aquifer', aquifer, '--out', config]);
     expect(made.status, made.stderr).toBe(0);
     const text = readFileSync(config, 'utf8');
     expect(text).toMatch(/^\/\/ doab config/);
@@ -44,29 +44,29 @@ describe('doab init-config', () => {
     expect(text).toMatch(/"stageStart": "stage_start_m", \/\/ .*NOT FOUND/);
 
     // without the config the renamed file has no ids; with it, no problem at all
-    expect(runCli(['check', '--canals', canals, '--aquifer', aquifer]).status).toBe(1);
-    const checked = runCli(['check', '--canals', canals, '--aquifer', aquifer, '--config', config]);
+    expect((await runCliInProcess(['check', '--canals', canals, '--aquifer', aquifer])).status).toBe(1);
+    const checked = await runCliInProcess(['check', '--canals', canals, '--aquifer', aquifer, '--config', config]);
     expect(checked.status, checked.stdout).toBe(0);
     expect(checked.stdout).toMatch(/0 errors, 0 warnings/);
 
     const out = join(dir, 'out');
-    const screened = runCli(['screen', '--canals', canals, '--aquifer', aquifer, '--config', config, '--out', out, '--quiet']);
+    const screened = await runCliInProcess(['screen', '--canals', canals, '--aquifer', aquifer, '--config', config, '--out', out, '--quiet']);
     expect(screened.status, screened.stderr).toBe(0);
     const reference = freshDir('init-config-ref');
-    expect(runCli(['screen', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', reference, '--quiet']).status).toBe(0);
+    expect((await runCliInProcess(['screen', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', reference, '--quiet'])).status).toBe(0);
     expect(readFileSync(join(out, 'ranking.csv'), 'utf8')).toBe(readFileSync(join(reference, 'ranking.csv'), 'utf8'));
   });
 
-  it('does not overwrite a file unless told to', () => {
+  it('does not overwrite a file unless told to', async () => {
     const dir = freshDir('init-config-force');
     const config = join(dir, 'doab.jsonc');
     writeFileSync(config, '{}');
     const args = ['init-config', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', config];
-    const refused = runCli(args);
+    const refused = await runCliInProcess(args);
     expect(refused.status).toBe(1);
     expect(refused.stderr).toMatch(/already exists.*--force/);
     expect(readFileSync(config, 'utf8')).toBe('{}');
-    expect(runCli([...args, '--force']).status).toBe(0);
+    expect((await runCliInProcess([...args, '--force'])).status).toBe(0);
     expect(existsSync(config) && readFileSync(config, 'utf8').startsWith('// doab config')).toBe(true);
   });
 });

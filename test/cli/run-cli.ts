@@ -1,4 +1,5 @@
-// Runs the doab CLI as a child process, the way a user does, from the TypeScript sources.
+// Runs the doab CLI the way a user does: as a child process of the built command (bin/doab.js,
+// compiled by test/global-build.ts), or main() in this process for the many small cases.
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { mkdtempSync, readdirSync, readFileSync, statSync } from 'node:fs';
@@ -7,7 +8,7 @@ import { join, relative, resolve } from 'node:path';
 import { main } from '../../src/cli/main.js';
 
 export const ROOT = resolve(import.meta.dirname, '../..');
-const ENTRY = join(ROOT, 'src/cli/entry.ts');
+const ENTRY = join(ROOT, 'bin/doab.js');
 
 export interface CliRun {
   status: number | null;
@@ -16,7 +17,7 @@ export interface CliRun {
 }
 
 export function runCli(args: string[]): CliRun {
-  const run = spawnSync(process.execPath, ['--import', 'tsx', ENTRY, ...args], { cwd: ROOT, encoding: 'utf8', timeout: 120_000 });
+  const run = spawnSync(process.execPath, [ENTRY, ...args], { cwd: ROOT, encoding: 'utf8', timeout: 120_000 });
   return { status: run.status, stdout: run.stdout, stderr: run.stderr };
 }
 
