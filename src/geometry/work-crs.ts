@@ -140,3 +140,30 @@ export function chooseWorkCrs(
   }
   return { crs, warnings };
 }
+
+/** [west, south, east, north] of lines given as parts of lon/lat positions. */
+export function boundsOfParts(lines: readonly (readonly (readonly number[])[])[][]): [number, number, number, number] {
+  let w = Infinity, s = Infinity, e = -Infinity, n = -Infinity;
+  for (const parts of lines) {
+    for (const part of parts) {
+      for (const [lon, lat] of part) {
+        if (lon < w) w = lon;
+        if (lon > e) e = lon;
+        if (lat < s) s = lat;
+        if (lat > n) n = lat;
+      }
+    }
+  }
+  return [w, s, e, n];
+}
+
+/** Positions in lon/lat to interleaved x,y in the work CRS. */
+export function projectPositions(crs: WorkCrs, positions: readonly (readonly number[])[]): Float64Array {
+  const out = new Float64Array(positions.length * 2);
+  positions.forEach((position, i) => {
+    const [x, y] = crs.forward([position[0], position[1]]);
+    out[2 * i] = x;
+    out[2 * i + 1] = y;
+  });
+  return out;
+}

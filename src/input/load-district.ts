@@ -43,7 +43,7 @@ export async function loadDistrict(canalsPath: string, aquiferPath: string, conf
     zones = checked.records;
     problems.push(...checked.problems);
   }
-  const cross = crossCheck(lines, zones, { lines: canalsPath, zones: aquiferPath });
+  const cross = crossCheck(lines, zones, { lines: canalsPath, zones: aquiferPath }, config.settings.crs);
   problems.push(...cross.problems);
   lines = lines.filter((_, i) => !cross.badLines.has(i));
   return { canals, aquifer, lines, zones, problems };

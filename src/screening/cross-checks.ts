@@ -6,11 +6,12 @@ import { area } from '@turf/area';
 import { bbox } from '@turf/bbox';
 import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
 import { centroid } from '@turf/centroid';
-import { distance } from '@turf/distance';
 import { featureCollection, multiPolygon, polygon } from '@turf/helpers';
 import { intersect } from '@turf/intersect';
 import { union } from '@turf/union';
 import type { Feature, MultiPolygon } from 'geojson';
+import { buildLineTable } from '../geometry/lines.js';
+import { boundsOfParts, chooseWorkCrs, projectPositions } from '../geometry/work-crs.js';
 import type { Problem } from '../shared/errors.js';
 import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
 
@@ -37,7 +38,17 @@ function zoneShapes(zones: ZoneRecord[]): { shapes: Feature<MultiPolygon>[]; ind
   return { shapes, index };
 }
 
-export function crossCheck(lines: LineRecord[], zones: ZoneRecord[], files: CrossCheckFiles): { problems: Problem[]; badLines: Set<number> } {
+/**
+ * Stage against base and ground under every vertex of each line, and overlaps and holes between
+ * zones. The stage at a vertex is interpolated by the same chainage the solve uses: planar, in the
+ * work CRS (`workCrs`, the user's or null for the UTM zone of the lines' centre).
+ */
+export function crossCheck(
+  lines: LineRecord[],
+  zones: ZoneRecord[],
+  files: CrossCheckFiles,
+  workCrs: string | null = null,
+): { problems: Problem[]; badLines: Set<number> } {
   const problems: Problem[] = [];
   const badLines = new Set<number>();
   const { shapes, index } = zoneShapes(zones);
@@ -61,12 +72,14 @@ export function crossCheck(lines: LineRecord[], zones: ZoneRecord[], files: Cros
 
   problems.push(...holesBetweenZones(shapes, files.zones));
 
+  const crs = lines.length > 0 ? chooseWorkCrs(boundsOfParts(lines.map((line) => line.partsLonLat)), workCrs ?? undefined).crs : null;
   lines.forEach((line, lineNumber) => {
-    const lengthM = line.partsLonLat.reduce((sum, part) => sum + partLengthM(part), 0);
-    let chainageM = 0, reported = false, warned = false;
+    const table = buildLineTable([{ id: line.id, parts: line.partsLonLat.map((part) => projectPositions(crs!, part)) }]);
+    const lengthM = table.chainageM[table.chainageM.length - 1];
+    let vertex = 0, reported = false, warned = false;
     for (const part of line.partsLonLat) {
-      part.forEach((position, v) => {
-        if (v > 0) chainageM += distance(part[v - 1], position, { units: 'meters' });
+      part.forEach((position) => {
+        const chainageM = table.chainageM[vertex++];
         if (reported) return;
         const stageM = stageAtChainage(line, chainageM, lengthM);
         for (const z of index.search(position[0], position[1], position[0], position[1])) {
@@ -87,12 +100,6 @@ export function crossCheck(lines: LineRecord[], zones: ZoneRecord[], files: Cros
     }
   });
   return { problems, badLines };
-}
-
-function partLengthM(part: number[][]): number {
-  let sum = 0;
-  for (let v = 1; v < part.length; v++) sum += distance(part[v - 1], part[v], { units: 'meters' });
-  return sum;
 }
 
 function round(value: number): number {

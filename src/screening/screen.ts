@@ -14,7 +14,7 @@ import {
   type StationTable,
   type ZoneIndex,
 } from '../geometry/index.js';
-import { chooseWorkCrs, type WorkCrs } from '../geometry/work-crs.js';
+import { boundsOfParts, chooseWorkCrs, projectPositions, type WorkCrs } from '../geometry/work-crs.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
 import { summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
@@ -80,7 +80,7 @@ export function screenDistrict(
   settings: ScreenSettings,
   onProgress: ProgressListener = () => {},
 ): ScreenResult {
-  const { crs, warnings } = chooseWorkCrs(boundsOf(lines), settings.crs ?? undefined);
+  const { crs, warnings } = chooseWorkCrs(boundsOfParts(lines.map((line) => line.partsLonLat)), settings.crs ?? undefined);
   const geometries: LineGeometry[] = lines.map((line) => ({
     id: line.id,
     parts: line.partsLonLat.map((part) => projectPositions(crs, part)),
@@ -215,29 +215,4 @@ function countReasons(facings: FacingTable, results: FacingResults): Record<stri
   for (const name of FACING_REASON_NAMES) counts[name] = 0;
   for (let i = 0; i < facings.count; i++) counts[FACING_REASON_NAMES[results.reason[i]]]++;
   return counts;
-}
-
-function boundsOf(lines: LineRecord[]): [number, number, number, number] {
-  let w = Infinity, s = Infinity, e = -Infinity, n = -Infinity;
-  for (const line of lines) {
-    for (const part of line.partsLonLat) {
-      for (const [lon, lat] of part) {
-        if (lon < w) w = lon;
-        if (lon > e) e = lon;
-        if (lat < s) s = lat;
-        if (lat > n) n = lat;
-      }
-    }
-  }
-  return [w, s, e, n];
-}
-
-function projectPositions(crs: WorkCrs, positions: number[][]): Float64Array {
-  const out = new Float64Array(positions.length * 2);
-  positions.forEach((position, i) => {
-    const [x, y] = crs.forward([position[0], position[1]]);
-    out[2 * i] = x;
-    out[2 * i + 1] = y;
-  });
-  return out;
 }

@@ -64,3 +64,18 @@ describe('zone geometry', () => {
     expect(checked.problems[0].message).toMatch(/no area/);
   });
 });
+
+describe('the checks and the solve interpolate a stage by the same chainage', () => {
+  it('reports the chainage of a vertex as the planar distance along the line in the work CRS, as the stations have it', async () => {
+    const { checkLines, checkZones } = await import('../../src/screening/district-inputs.js');
+    const { crossCheck } = await import('../../src/screening/cross-checks.js');
+    const { DEFAULT_RULES } = await import('../../src/shared/input-rules.js');
+    const { box, line } = await import('./local-district.js');
+    // 200 km off the central meridian of UTM 36N the geodesic length of 10 km is about 1 m shorter
+    // than the projected one (UTM point scale, common practice); the solve's chainage is the projected one
+    const lines = checkLines('l.geojson', [line('S', { stage_start_m: 95, stage_end_m: 85 }, [[0, 0], [10000, 0], [20000, 0]])], DEFAULT_RULES).records;
+    const zones = checkZones('z.geojson', [box('Z', { k_m_d: 10, base_m: 90.5, ground_m: 100 }, [-100, -100, 20100, 100])], DEFAULT_RULES).records;
+    const { problems } = crossCheck(lines, zones, { lines: 'l.geojson', zones: 'z.geojson' }, 'EPSG:32636');
+    expect(problems.map((problem) => problem.message)).toContainEqual(expect.stringMatching(/^stage 90 m at chainage 10000 m is at or below the aquifer base 90.5 m/));
+  });
+});
