@@ -1,5 +1,5 @@
 import type { Grid } from './grid.js';
-import { buildLineTable, type LineGeometry } from './lines.js';
+import { type LineGeometry, asLineTable, type LineTable } from './lines.js';
 
 export interface BurnedLines {
   /** line index of each cell, -1 where no line passes */
@@ -113,8 +113,8 @@ function clip(p: number, q: number): void {
  * nearest its centre (ties: lower line index) and holds that line's length only.
  * Example: burnLines(grid, [{ id: 'c1', parts: [Float64Array.from([0, 5, 100, 5])] }]).line
  */
-export function burnLines(grid: Grid, lines: LineGeometry[]): BurnedLines {
-  const table = buildLineTable(lines);
+export function burnLines(grid: Grid, lines: LineGeometry[] | LineTable): BurnedLines {
+  const table = asLineTable(lines);
   const { originX, originY, cellM, columns, rows } = grid;
   const passages = new Passages();
   let outsideM = 0;

@@ -1,4 +1,4 @@
-export { lineLengthM, type LineGeometry } from './lines.js';
+export { buildLineTable, lineLengthM, type LineGeometry, type LineTable } from './lines.js';
 export { placeStations, type StationTable } from './stations.js';
 export {
   castTransects,

@@ -10,6 +10,8 @@ export interface LineGeometry {
  */
 export interface LineTable {
   lineCount: number;
+  /** each line's id, in line order */
+  ids: string[];
   /** first part of each line; length lineCount + 1 */
   linePartStart: Uint32Array;
   /** first vertex of each part; length partCount + 1 */
@@ -39,6 +41,11 @@ export function lineLengthM(line: LineGeometry): number {
   let sum = 0;
   for (const p of line.parts) sum += partLengthM(p);
   return sum;
+}
+
+/** The table of lines, built once by the caller and shared by every stage, or built here from the lines. */
+export function asLineTable(lines: LineGeometry[] | LineTable): LineTable {
+  return Array.isArray(lines) ? buildLineTable(lines) : lines;
 }
 
 export function buildLineTable(lines: LineGeometry[]): LineTable {
@@ -76,7 +83,7 @@ export function buildLineTable(lines: LineGeometry[]): LineTable {
   }
   linePartStart[lines.length] = part;
   partVertexStart[partCount] = v;
-  return { lineCount: lines.length, linePartStart, partVertexStart, partLine, chainageM, x, y };
+  return { lineCount: lines.length, ids: lines.map((line) => line.id), linePartStart, partVertexStart, partLine, chainageM, x, y };
 }
 
 /** Chainage range [start, end] of a part. An empty part has start = end. */

@@ -1,4 +1,4 @@
-import { buildLineTable, directionAt, partEndM, partStartM, pointAt, type LineGeometry, type LineTable } from './lines.js';
+import { directionAt, partEndM, partStartM, pointAt, type LineGeometry, type LineTable, asLineTable } from './lines.js';
 
 /**
  * Stations of all lines, ordered by line, then part, then chainage. Each station sits at the
@@ -32,9 +32,9 @@ function intervalCount(lengthM: number, stepM: number): number {
  * a station never straddles a gap between parts; the last interval of a part may be shorter.
  * Example: placeStations([{ id: 'c1', parts: [new Float64Array([0, 0, 250, 0])] }], 100).count === 3
  */
-export function placeStations(lines: LineGeometry[], stepM: number): StationTable {
+export function placeStations(lines: LineGeometry[] | LineTable, stepM: number): StationTable {
   if (!(stepM > 0) || !Number.isFinite(stepM)) throw new Error(`Unexpected stepM value: ${stepM}.`);
-  return placeStationsOnTable(buildLineTable(lines), stepM);
+  return placeStationsOnTable(asLineTable(lines), stepM);
 }
 
 export function placeStationsOnTable(t: LineTable, stepM: number): StationTable {

@@ -1,4 +1,4 @@
-import { buildLineTable, pointAt, type LineGeometry, type LineTable } from './lines.js';
+import { pointAt, type LineGeometry, type LineTable, asLineTable } from './lines.js';
 import { convexHull, dropRepeats, reverseRing, ringIsSimple, signedArea2 } from './rings.js';
 import type { StationTable } from './stations.js';
 import { FACING_PAIRED, type FacingTable } from './transects.js';
@@ -89,18 +89,19 @@ function findRuns(line: number, side: 0 | 1, from: number, to: number, stations:
  * in chainage order, so the same input always gives the same ids.
  * Example: buildStrips(lines, stations, castTransects(lines, stations, opts))[0].spacingMeanM
  */
-export function buildStrips(lines: LineGeometry[], stations: StationTable, facings: FacingTable, options: StripOptions = {}): Strip[] {
+export function buildStrips(lines: LineGeometry[] | LineTable, stations: StationTable, facings: FacingTable, options: StripOptions = {}): Strip[] {
   const jump = options.spacingJump ?? 0.25;
   if (!(jump >= 0)) throw new Error(`Unexpected spacingJump value: ${jump}.`);
   if (facings.count !== 2 * stations.count) throw new Error(`Facings (${facings.count}) do not match stations (${stations.count}).`);
-  const table = buildLineTable(lines);
-  const ranges = stationRanges(stations, lines.length);
-  const first = (a: number, b: number): boolean => lines[a].id < lines[b].id || (lines[a].id === lines[b].id && a < b);
+  const table = asLineTable(lines);
+  const ranges = stationRanges(stations, table.lineCount);
+  const ids = table.ids;
+  const first = (a: number, b: number): boolean => ids[a] < ids[b] || (ids[a] === ids[b] && a < b);
   const paired = (k: number): boolean => facings.reason[k] === FACING_PAIRED && facings.partner[k] >= 0;
 
   const runsOf = (eligible: (k: number) => boolean): Run[] => {
     const all: Run[] = [];
-    for (let l = 0; l < lines.length; l++) {
+    for (let l = 0; l < table.lineCount; l++) {
       const own = [...findRuns(l, 0, ranges[l], ranges[l + 1], stations, facings, jump, eligible), ...findRuns(l, 1, ranges[l], ranges[l + 1], stations, facings, jump, eligible)];
       own.sort((p, q) => p.startM - q.startM || p.side - q.side);
       all.push(...own);
@@ -147,7 +148,7 @@ export function buildStrips(lines: LineGeometry[], stations: StationTable, facin
   const strips: Strip[] = [];
   const all = [...mainRuns.map((r, i) => [r, stationsB[i]] as const), ...leftoverRuns.map((r) => [r, [] as number[]] as const)];
   for (const [r, bs] of all) {
-    const key = `${lines[r.line].id}|${lines[r.partner].id}`;
+    const key = `${ids[r.line]}|${ids[r.partner]}`;
     const k = counters.get(key) ?? 0;
     counters.set(key, k + 1);
     strips.push(makeStrip(`${key}|${k}`, r, bs, stations, facings, table));

@@ -1,5 +1,6 @@
-import Flatbush from 'flatbush';
-import { buildLineTable, directionAt, type LineGeometry, type LineTable } from './lines.js';
+import type Flatbush from 'flatbush';
+import { boxIndex } from './box-index.js';
+import { directionAt, type LineGeometry, type LineTable, asLineTable } from './lines.js';
 import type { StationTable } from './stations.js';
 
 export const FACING_PAIRED = 0;
@@ -65,14 +66,10 @@ function buildSegmentIndex(t: LineTable): SegmentIndex {
       }
     }
   }
-  const tree = new Flatbush(Math.max(1, n));
-  for (let i = 0; i < n; i++) {
+  const tree = boxIndex(n, (i, add) => {
     const v = vertex[i];
-    tree.add(Math.min(t.x[v], t.x[v + 1]), Math.min(t.y[v], t.y[v + 1]), Math.max(t.x[v], t.x[v + 1]), Math.max(t.y[v], t.y[v + 1]));
-  }
-  // flatbush refuses an empty index; a far-away dummy box keeps the code path single
-  if (n === 0) tree.add(Infinity, Infinity, Infinity, Infinity);
-  tree.finish();
+    add(Math.min(t.x[v], t.x[v + 1]), Math.min(t.y[v], t.y[v + 1]), Math.max(t.x[v], t.x[v + 1]), Math.max(t.y[v], t.y[v + 1]));
+  });
   return { vertex: vertex.subarray(0, n), part: part.subarray(0, n), tree };
 }
 
@@ -87,12 +84,12 @@ function checkOptions(o: CastOptions): void {
  * line's meanders and parts never block or pair with it.
  * Example: castTransects(lines, placeStations(lines, 50), { maxGapM: 1000, maxAngleDeg: 30 })
  */
-export function castTransects(lines: LineGeometry[], stations: StationTable, options: CastOptions): FacingTable {
+export function castTransects(lines: LineGeometry[] | LineTable, stations: StationTable, options: CastOptions): FacingTable {
   checkOptions(options);
+  const t = asLineTable(lines);
   for (let i = 0; i < stations.count; i++) {
-    if (stations.line[i] >= lines.length) throw new Error(`Station ${i} is on line ${stations.line[i]}, but there are ${lines.length} lines.`);
+    if (stations.line[i] >= t.lineCount) throw new Error(`Station ${i} is on line ${stations.line[i]}, but there are ${t.lineCount} lines.`);
   }
-  const t = buildLineTable(lines);
   const seg = buildSegmentIndex(t);
   const n = stations.count * 2;
   const f: FacingTable = {

@@ -1,4 +1,5 @@
-import Flatbush from 'flatbush';
+import type Flatbush from 'flatbush';
+import { boxIndex } from './box-index.js';
 
 /**
  * Aquifer zone polygons in metres. A MultiPolygon zone gives several polygons with the same zone
@@ -47,13 +48,6 @@ export function zonePolygons(list: { zone: number; rings: Float64Array[] }[]): Z
   return { count: list.length, zone, rings: list.map((p) => p.rings) };
 }
 
-function emptyTree(): Flatbush {
-  const tree = new Flatbush(1);
-  tree.add(Infinity, Infinity, Infinity, Infinity);
-  tree.finish();
-  return tree;
-}
-
 /** Indexes every polygon edge and every polygon's bbox for cutTransect. */
 export function buildZoneIndex(polygons: ZonePolygons): ZoneIndex {
   let edgeCount = 0;
@@ -75,31 +69,21 @@ export function buildZoneIndex(polygons: ZonePolygons): ZoneIndex {
       }
     }
   }
-  let edgeTree = emptyTree();
-  if (e > 0) {
-    edgeTree = new Flatbush(e);
-    for (let i = 0; i < e; i++) {
-      const o = i * 4;
-      edgeTree.add(Math.min(edges[o], edges[o + 2]), Math.min(edges[o + 1], edges[o + 3]), Math.max(edges[o], edges[o + 2]), Math.max(edges[o + 1], edges[o + 3]));
+  const edgeTree = boxIndex(e, (i, add) => {
+    const o = i * 4;
+    add(Math.min(edges[o], edges[o + 2]), Math.min(edges[o + 1], edges[o + 3]), Math.max(edges[o], edges[o + 2]), Math.max(edges[o + 1], edges[o + 3]));
+  });
+  const polygonTree = boxIndex(polygons.count, (p, add) => {
+    const r = polygons.rings[p][0];
+    let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+    for (let i = 0; i < r.length; i += 2) {
+      minX = Math.min(minX, r[i]);
+      maxX = Math.max(maxX, r[i]);
+      minY = Math.min(minY, r[i + 1]);
+      maxY = Math.max(maxY, r[i + 1]);
     }
-    edgeTree.finish();
-  }
-  let polygonTree = emptyTree();
-  if (polygons.count > 0) {
-    polygonTree = new Flatbush(polygons.count);
-    for (const rings of polygons.rings) {
-      const r = rings[0];
-      let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
-      for (let i = 0; i < r.length; i += 2) {
-        minX = Math.min(minX, r[i]);
-        maxX = Math.max(maxX, r[i]);
-        minY = Math.min(minY, r[i + 1]);
-        maxY = Math.max(maxY, r[i + 1]);
-      }
-      polygonTree.add(minX, minY, maxX, maxY);
-    }
-    polygonTree.finish();
-  }
+    add(minX, minY, maxX, maxY);
+  });
   return { polygons, edges: edges.subarray(0, e * 4), edgeTree, polygonTree };
 }
 

@@ -8,6 +8,7 @@ import { m3PerDayToM3PerYear } from '../shared/units.js';
 import { lossPerKm, type StripSummary } from '../screening/aggregate.js';
 import { NOT_PAIRED } from '../screening/solve-facings.js';
 import type { ScreenResult } from '../screening/screen.js';
+import { signedArea2 } from '../geometry/rings.js';
 import { roundNumber } from './format.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
 
@@ -20,20 +21,13 @@ function toLonLat(crs: WorkCrs, x: number, y: number): [number, number] {
   return [roundDegrees(lon), roundDegrees(lat)];
 }
 
-/** Twice the signed area of a lon/lat ring: positive when counter-clockwise. */
-function signedArea2(ring: [number, number][]): number {
-  let sum = 0;
-  for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) sum += ring[j][0] * ring[i][1] - ring[i][0] * ring[j][1];
-  return sum;
-}
-
 export function ringToLonLat(crs: WorkCrs, ringM: Float64Array): [number, number][] {
   const ring: [number, number][] = [];
   for (let i = 0; i < ringM.length; i += 2) ring.push(toLonLat(crs, ringM[i], ringM[i + 1]));
   const first = ring[0], last = ring[ring.length - 1];
   if (first[0] !== last[0] || first[1] !== last[1]) ring.push([first[0], first[1]]);
   // RFC 7946 section 3.1.6: exterior rings are counter-clockwise
-  if (signedArea2(ring) < 0) ring.reverse();
+  if (signedArea2(Float64Array.from(ring.flat())) < 0) ring.reverse();
   return ring;
 }
 

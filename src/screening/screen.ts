@@ -3,6 +3,7 @@
 import {
   FACING_OUTSIDE_AQUIFER,
   FACING_REASON_NAMES,
+  buildLineTable,
   buildStrips,
   buildZoneIndex,
   castTransects,
@@ -94,18 +95,20 @@ export function screenDistrict(
     ),
   );
 
+  // one table of the lines, shared by stations, transects and strips
+  const lineTable = buildLineTable(geometries);
   onProgress('stations', 0, lines.length);
-  const stations = placeStations(geometries, settings.stepM);
+  const stations = placeStations(lineTable, settings.stepM);
   onProgress('stations', lines.length, lines.length);
   onProgress('transects', 0, stations.count);
-  const facings = castTransects(geometries, stations, { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg });
+  const facings = castTransects(lineTable, stations, { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg });
   onProgress('transects', stations.count, stations.count);
   const results = solveFacings(lines, lineLengthsM, zones, zoneIndex, stations, facings, settings, (done) =>
     onProgress('solve', done, facings.count),
   );
   onProgress('strips', 0, 1);
   // strips join sides that are paired after the solve (a transect leaving the zones ends a strip)
-  const strips = buildStrips(geometries, stations, { ...facings, reason: results.reason }, { spacingJump: settings.spacingJump }).map((strip) =>
+  const strips = buildStrips(lineTable, stations, { ...facings, reason: results.reason }, { spacingJump: settings.spacingJump }).map((strip) =>
     summariseStrip(strip, lines, stations, facings, results, settings),
   );
   rankStrips(strips, settings.rankBy);
