@@ -6,18 +6,7 @@
 // `uneven` for a sloping base, which the solve meets with Picard iterations).
 import { spawnSync } from 'node:child_process';
 import { CELL_FIXED, CELL_FREE, solveDistrict, type DistrictGrid } from '../src/hydraulics/district-solver.js';
-
-/** Mulberry32, a small seeded generator, so a district is the same on every run. */
-function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seededRandom } from './network.js';
 
 function syntheticDistrict(side: number, unevenBase: boolean, seed = 1): DistrictGrid {
   const rnd = seededRandom(seed);

@@ -5,22 +5,13 @@ import { fillZones, polygonCells } from '../src/geometry/grid-fill.js';
 import { gridOver, gridSize } from '../src/geometry/grid.js';
 import type { LineGeometry } from '../src/geometry/lines.js';
 import { zonePolygons } from '../src/geometry/zones.js';
+import { seededRandom } from './network.js';
 
 const millions = Number(process.argv[2] ?? 10);
 const lineCount = Number(process.argv[3] ?? 4000);
 if (!(millions > 0)) throw new Error(`Unexpected million cells value: ${process.argv[2]}.`);
 if (!Number.isInteger(lineCount) || lineCount < 1) throw new Error(`Unexpected lines value: ${process.argv[3]}.`);
 
-/** Small seeded generator (mulberry32) so the district is the same on every run. */
-function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(a ^ (a >>> 15), a | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 const rnd = seededRandom(1);
 
 // a square district of 25 m cells far from the CRS origin, as a UTM district would be

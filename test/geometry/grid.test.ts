@@ -4,6 +4,7 @@ import { fillZones, polygonCells } from '../../src/geometry/grid-fill.js';
 import { cellAt, gridOver, gridSize, MAX_GRID_CELLS, type Grid } from '../../src/geometry/grid.js';
 import type { LineGeometry } from '../../src/geometry/lines.js';
 import { zonePolygons } from '../../src/geometry/zones.js';
+import { seededRandom as seeded } from '../../bench/network.js';
 
 const rect = (x0: number, y0: number, x1: number, y1: number): Float64Array => Float64Array.from([x0, y0, x1, y0, x1, y1, x0, y1, x0, y0]);
 
@@ -29,16 +30,6 @@ function inside(rings: Float64Array[], x: number, y: number): boolean {
     }
   }
   return odd;
-}
-
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = Math.imul(a ^ (a >>> 15), a | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 /** A star-shaped ring around (cx, cy) with random radii: concave, never self-intersecting. */

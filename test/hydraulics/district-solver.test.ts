@@ -13,6 +13,7 @@ import {
   type DistrictGrid,
   type DistrictSolution,
 } from '../../src/hydraulics/district-solver.js';
+import { seededRandom } from '../../bench/network.js';
 
 function emptyGrid(columns: number, rows: number, cellM: number): DistrictGrid {
   const n = columns * rows;
@@ -79,18 +80,6 @@ function expectRelative(got: number, want: number, tol: number, what: string): v
 function expectConverged(solution: DistrictSolution): void {
   expect(solution.status).toBe('converged');
   expect(solution.balanceRelative).toBeLessThanOrEqual(1e-6);
-}
-
-/** Mulberry32, a small seeded generator. */
-function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 describe('two parallel fully penetrating canals', () => {
