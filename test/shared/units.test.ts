@@ -36,7 +36,7 @@ describe('time', () => {
 
 describe('hydraulic conductivity', () => {
   it('1 m/s = 86 400 m/d and 1 cm/s = 864 m/d exactly', () => {
-    // 1 cm/s = 0.01 m/s x 86 400 s/d = 864 m/d [derived; REFERENCES.md]
+    // 1 cm/s = 0.01 m/s x 86 400 s/d = 864 m/d [derived: 1 cm = 0.01 m, 1 d = 86 400 s, SI Brochure, BIPM, 9th ed. 2019]
     expect(kToMPerDay(1, 'm/d')).toBe(1);
     expect(kToMPerDay(1, 'm/s')).toBe(86_400);
     expect(kToMPerDay(1, 'cm/s')).toBe(864);
