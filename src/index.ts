@@ -233,7 +233,7 @@ export function writeProfile(outDir: string, { strip, profile }: StripProfile): 
 /** One paragraph on a profile, for a terminal. */
 export function profileText({ strip, profile }: StripProfile, peakLabel: (peakM: number) => string): string {
   return (
-    `Strip ${strip.stripId}: key transect from ${profile.lineA} to ${profile.lineB}, ${roundNumber(profile.widthM)} m wide\n` +
+    `Strip ${strip.stripId}: key transect from ${profile.lineA} to ${profile.lineB}, ${roundNumber(profile.transectLengthM)} m wide\n` +
     `Stages ${profile.stageAM.toFixed(2)} and ${profile.stageBM.toFixed(2)} m, base ${profile.baseM.toFixed(2)} m; ` +
     `peak water table ${peakLabel(profile.peakWaterTableM)} at ${roundNumber(profile.peakOffsetM)} m from ${profile.lineA}; ` +
     `smallest depth ${profile.minDepthM.toFixed(2)} m\n\nCAUTION: ${CAUTION}\n`

@@ -71,7 +71,7 @@ function findRuns(line: number, side: 0 | 1, from: number, to: number, stations:
       f.partner[prev] === f.partner[k] &&
       f.partnerSide[prev] === f.partnerSide[k] &&
       stations.part[s - 1] === stations.part[s] &&
-      Math.abs(f.gapM[k] - f.gapM[prev]) <= jump * Math.min(f.gapM[k], f.gapM[prev]);
+      Math.abs(f.transectLengthM[k] - f.transectLengthM[prev]) <= jump * Math.min(f.transectLengthM[k], f.transectLengthM[prev]);
     if (continues && run) {
       run.last = s;
       run.endM = stations.chainageM[s] + stations.lengthM[s] / 2;
@@ -164,9 +164,9 @@ function makeStrip(id: string, r: Run, bs: number[], stations: StationTable, f: 
     const s = r.first + i;
     const k = 2 * s + r.side;
     stationsA[i] = s;
-    sum += f.gapM[k];
-    min = Math.min(min, f.gapM[k]);
-    max = Math.max(max, f.gapM[k]);
+    sum += f.transectLengthM[k];
+    min = Math.min(min, f.transectLengthM[k]);
+    max = Math.max(max, f.transectLengthM[k]);
     bMin = Math.min(bMin, f.partnerChainageM[k]);
     bMax = Math.max(bMax, f.partnerChainageM[k]);
   }

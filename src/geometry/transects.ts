@@ -12,17 +12,17 @@ export const FACING_REASON_NAMES = ['paired', 'no-partner', 'not-parallel', 'out
 /**
  * What each station faces on each side. Index i = 2 * station + side; side 0 is left of the
  * digitised direction, side 1 right.
- * - paired: partner, gapM (transect length), endX/endY (crossing), partnerChainageM, angleDeg set.
- * - not-parallel: partner = -1; hitLine, gapM, endX/endY, partnerChainageM, angleDeg describe the
+ * - paired: partner, transectLengthM (transect length), endX/endY (crossing), partnerChainageM, angleDeg set.
+ * - not-parallel: partner = -1; hitLine, transectLengthM, endX/endY, partnerChainageM, angleDeg describe the
  *   first line crossed, which runs across rather than alongside.
- * - no-partner: partner = hitLine = -1; gapM = maxGapM and endX/endY the far end of the cast;
+ * - no-partner: partner = hitLine = -1; transectLengthM = maxGapM and endX/endY the far end of the cast;
  *   partnerChainageM, angleDeg, partnerSide are NaN / 255.
  */
 export interface FacingTable {
   count: number;
   partner: Int32Array;
   reason: Uint8Array;
-  gapM: Float64Array;
+  transectLengthM: Float64Array;
   endX: Float64Array;
   endY: Float64Array;
   partnerChainageM: Float64Array;
@@ -96,7 +96,7 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
     count: n,
     partner: new Int32Array(n).fill(-1),
     reason: new Uint8Array(n),
-    gapM: new Float64Array(n),
+    transectLengthM: new Float64Array(n),
     endX: new Float64Array(n),
     endY: new Float64Array(n),
     partnerChainageM: new Float64Array(n).fill(NaN),
@@ -150,7 +150,7 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
       seg.tree.search(Math.min(px, px + dx), Math.min(py, py + dy), Math.max(px, px + dx), Math.max(py, py + dy), visit);
       if (bestSeg < 0) {
         f.reason[k] = FACING_NO_PARTNER;
-        f.gapM[k] = maxGapM;
+        f.transectLengthM[k] = maxGapM;
         f.endX[k] = px + dx;
         f.endY[k] = py + dy;
         continue;
@@ -164,7 +164,7 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
       directionAt(t, p, c, halfWindowM, dir);
       const cos = Math.min(1, Math.abs(stations.dirX[s] * dir[0] + stations.dirY[s] * dir[1]));
       f.hitLine[k] = hit;
-      f.gapM[k] = bestT * maxGapM;
+      f.transectLengthM[k] = bestT * maxGapM;
       f.endX[k] = cx;
       f.endY[k] = cy;
       f.partnerChainageM[k] = c;

@@ -21,7 +21,7 @@ export interface StripProblem {
 
 export interface StripSolution {
   ok: true;
-  widthM: number;
+  transectLengthM: number;
   ownSeepageM2PerDay: number;
   partnerSeepageM2PerDay: number;
   peakWaterTableM: number;
@@ -61,7 +61,7 @@ export function solveStrip(problem: StripProblem): StripSolution | StripFailure 
   }
   return {
     ok: true,
-    widthM: solver.widthM,
+    transectLengthM: solver.transectLengthM,
     ownSeepageM2PerDay: solver.ownSeepageM2PerDay,
     partnerSeepageM2PerDay: solver.partnerSeepageM2PerDay,
     peakWaterTableM: solver.peakWaterTableM,

@@ -51,7 +51,7 @@ export class TransectSolver {
   // Results of the last successful solve.
   zoneCount = 0;
   baseM = 0;
-  widthM = 0;
+  transectLengthM = 0;
   /** Seepage per metre of line (m^2/d); positive when that line loses water to the aquifer. */
   ownSeepageM2PerDay = NaN;
   partnerSeepageM2PerDay = NaN;
@@ -112,7 +112,7 @@ export class TransectSolver {
 
     this.zoneCount = zoneCount;
     this.baseM = baseM;
-    this.widthM = x;
+    this.transectLengthM = x;
 
     // Flux towards +x at the a end of zone 0 and at the b end of the last zone.
     const l0 = lengthM[0], last = zoneCount - 1, lN = lengthM[last];
@@ -180,8 +180,8 @@ export class TransectSolver {
     }
     this.peakWaterTableM = this.baseM + Math.sqrt(peakU);
     this.peakOffsetM = peakX;
-    this.meanThicknessM = thicknessIntegral / this.widthM;
-    this.dupuitRatio = this.widthM / this.meanThicknessM;
+    this.meanThicknessM = thicknessIntegral / this.transectLengthM;
+    this.dupuitRatio = this.transectLengthM / this.meanThicknessM;
     this.scanDepth(0);
     // every zone's lowest u was checked above, so the aquifer holds water throughout
     return SOLVE_OK;
@@ -193,7 +193,7 @@ export class TransectSolver {
    */
   scanDepth(marginM: number): void {
     const { lengthM, kMPerDay, rechargeMPerDay, groundM, uEdgeM2, xEdgeM } = this;
-    const from = Math.min(Math.max(marginM, 0), this.widthM / 2), to = this.widthM - from;
+    const from = Math.min(Math.max(marginM, 0), this.transectLengthM / 2), to = this.transectLengthM - from;
     let minDepth = Infinity, minDepthX = NaN;
     for (let j = 0; j < this.zoneCount; j++) {
       const l = lengthM[j], c = rechargeMPerDay[j] / kMPerDay[j];
@@ -300,7 +300,7 @@ export class TransectSolver {
    * out marginM beside each line (its banks).
    */
   shallowLengthM(depthM: number, marginM = 0): number {
-    const from = Math.min(Math.max(marginM, 0), this.widthM / 2), to = this.widthM - from;
+    const from = Math.min(Math.max(marginM, 0), this.transectLengthM / 2), to = this.transectLengthM - from;
     let total = 0;
     for (let j = 0; j < this.zoneCount; j++) {
       const l = this.lengthM[j], c = this.rechargeMPerDay[j] / this.kMPerDay[j];

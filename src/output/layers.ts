@@ -150,7 +150,7 @@ function* transectFeatures(result: ScreenResult): Generator<object> {
         partner_chainage_m: roundNumber(facings.partnerChainageM[i]),
         reason: FACING_REASON_NAMES[results.reason[i]],
         solve: status === NOT_PAIRED ? 'not-solved' : SOLVE_STATUS_NAMES[status],
-        gap_m: roundNumber(facings.gapM[i]),
+        transect_length_m: roundNumber(facings.transectLengthM[i]),
         stage_m: roundNumber(results.ownStageM[i]),
         partner_stage_m: roundNumber(results.partnerStageM[i]),
         base_m: roundNumber(results.baseM[i]),

@@ -21,7 +21,7 @@ const MARGIN = { left: 62, right: 168, top: 44, bottom: 64 };
  */
 export function orientFromLineA(profile: Profile, lineA: string): Profile {
   if (profile.lineA === lineA || profile.lineB !== lineA) return profile;
-  const width = profile.widthM, n = profile.xM.length;
+  const width = profile.transectLengthM, n = profile.xM.length;
   const reversed = (values: Float64Array) => Float64Array.from(values, (_, i) => values[n - 1 - i]);
   return {
     ...profile,
@@ -98,8 +98,8 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   const width = options.widthPx ?? 680, height = options.heightPx ?? 380;
   const plotW = width - MARGIN.left - MARGIN.right, plotH = height - MARGIN.top - MARGIN.bottom;
   const n = profile.xM.length;
-  const widthM = Math.max(profile.widthM, 1e-9);
-  const px = (xM: number) => MARGIN.left + (xM / widthM) * plotW;
+  const transectLengthM = Math.max(profile.transectLengthM, 1e-9);
+  const px = (xM: number) => MARGIN.left + (xM / transectLengthM) * plotW;
   const vertical = verticalScale(profile, MARGIN.top, MARGIN.top + plotH);
   const { py, yBase } = vertical;
   // points of a curve along the transect, without those within a quarter pixel of the simplified curve
@@ -110,7 +110,7 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
     for (let i = 0; i < n; i++) if (keep[i]) out.push(`${r(xs[i])},${r(ys[i])}`);
     return out.join(' ');
   };
-  const x0 = px(0), xL = px(profile.widthM);
+  const x0 = px(0), xL = px(profile.transectLengthM);
   const parts: string[] = [];
   const rightLabels: { y: number; text: string; colour: string }[] = [];
 
@@ -172,7 +172,7 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
     parts.push(`<text x="${r(tx)}" y="${r(y + 16)}" text-anchor="${anchor}" fill="#00456B">${escapeHtml(lineId)} stage ${formatFixed(stageM, 2)} m</text>`);
   };
   stage(0, profile.stageAM, profile.lineA, 'start');
-  stage(profile.widthM, profile.stageBM, profile.lineB, 'end');
+  stage(profile.transectLengthM, profile.stageBM, profile.lineB, 'end');
 
   // the peak, labelled with its elevation; at a line it is labelled on the strip's side
   const peakX = px(profile.peakOffsetM), peakY = py(profile.peakWaterTableM);
@@ -180,7 +180,7 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   const labelX = peakAnchor === 'start' ? peakX + 10 : peakAnchor === 'end' ? peakX - 10 : peakX;
   parts.push(`<circle cx="${r(peakX)}" cy="${r(peakY)}" r="3.5" fill="${OKABE_ITO.blue}" stroke="#ffffff" stroke-width="1"/>`);
   // at a line the highest water table is that line's stage, not a mound between the lines
-  const atLine = profile.peakOffsetM <= 1e-6 * widthM || profile.peakOffsetM >= widthM * (1 - 1e-6);
+  const atLine = profile.peakOffsetM <= 1e-6 * transectLengthM || profile.peakOffsetM >= transectLengthM * (1 - 1e-6);
   const peakWord = atLine ? 'highest, at the line' : 'peak';
   parts.push(`<text x="${r(labelX)}" y="${r(peakY - 24)}" text-anchor="${peakAnchor}" font-size="10" fill="#333333">${peakWord}</text>`);
   parts.push(
@@ -192,7 +192,7 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   const axis: string[] = [];
   const xAxisY = MARGIN.top + plotH + 8;
   axis.push(`<path d="M${r(x0)} ${r(xAxisY)}H${r(xL)}" stroke="#333333"/>`);
-  for (const t of ticks(0, profile.widthM, 6)) {
+  for (const t of ticks(0, profile.transectLengthM, 6)) {
     axis.push(`<path d="M${r(px(t))} ${r(xAxisY)}v5" stroke="#333333"/><text x="${r(px(t))}" y="${r(xAxisY + 17)}" text-anchor="middle">${formatGrouped(t)}</text>`);
   }
   const yAxisX = x0 - 8;
@@ -209,7 +209,7 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
 
   const title =
     `<text x="${MARGIN.left}" y="16" font-weight="bold" font-size="12">Strip ${escapeHtml(profile.stripId)}: ${escapeHtml(profile.lineA)} to ${escapeHtml(profile.lineB)}</text>` +
-    `<text x="${MARGIN.left}" y="30" fill="#444444">width ${formatGrouped(profile.widthM)} m; seepage ${formatFixed(profile.seepageAM2PerDay, 3)} and ` +
+    `<text x="${MARGIN.left}" y="30" fill="#444444">width ${formatGrouped(profile.transectLengthM)} m; seepage ${formatFixed(profile.seepageAM2PerDay, 3)} and ` +
     `${formatFixed(profile.seepageBM2PerDay, 3)} m²/d; smallest depth ${formatFixed(profile.minDepthM, 2)} m</text>`;
   const note = `<text x="${MARGIN.left}" y="${height - 6}" fill="#555555" font-size="10">Screening estimate (steady Dupuit-Forchheimer): confirm in the field.</text>`;
 

@@ -80,7 +80,7 @@ export function summariseStrip(
     flagBits |= results.flags[facing];
     if (results.peakWaterTableM[facing] > peak) {
       peak = results.peakWaterTableM[facing];
-      peakOffset = fromA ? results.peakOffsetM[facing] : facings.gapM[facing] - results.peakOffsetM[facing];
+      peakOffset = fromA ? results.peakOffsetM[facing] : facings.transectLengthM[facing] - results.peakOffsetM[facing];
     }
     if (results.minDepthM[facing] < minDepth) minDepth = results.minDepthM[facing];
     if (results.dupuitRatio[facing] < ratioMin) ratioMin = results.dupuitRatio[facing];

@@ -16,10 +16,10 @@ export interface ProfileZone {
 
 export interface Profile {
   stripId: string;
-  /** The line at x = 0 and the line at x = widthM. */
+  /** The line at x = 0 and the line at x = transectLengthM. */
   lineA: string;
   lineB: string;
-  widthM: number;
+  transectLengthM: number;
   stageAM: number;
   stageBM: number;
   baseM: number;
@@ -48,7 +48,7 @@ export function keyFacing(result: ScreenResult, strip: StripSummary): number {
   return best;
 }
 
-/** Samples the solved water table every ~widthM/samples metres, plus zone edges and the peak. */
+/** Samples the solved water table every ~transectLengthM/samples metres, plus zone edges and the peak. */
 export function profileOfFacing(result: ScreenResult, strip: StripSummary, facing: number, samples = 200): Profile | null {
   const { stations, facings, zones, results } = result;
   if (facing < 0 || results.status[facing] !== SOLVE_OK) return null;
@@ -67,7 +67,7 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
   const status = solver.solve(results.ownStageM[facing], results.partnerStageM[facing], results.baseM[facing], n);
   if (status !== SOLVE_OK) return null;
   solver.scanDepth(result.settings.bankWidthM);
-  const width = solver.widthM;
+  const width = solver.transectLengthM;
   const xs = new Set<number>();
   for (let i = 0; i <= samples; i++) xs.add((width * i) / samples);
   for (const piece of pieces) { xs.add(piece.fromM); xs.add(piece.toM); }
@@ -79,7 +79,7 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
     stripId: strip.stripId,
     lineA: ownLine,
     lineB: partner,
-    widthM: width,
+    transectLengthM: width,
     stageAM: results.ownStageM[facing],
     stageBM: results.partnerStageM[facing],
     baseM: results.baseM[facing],

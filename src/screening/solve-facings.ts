@@ -95,7 +95,7 @@ export function solveFacings(
     if (facings.reason[i] !== FACING_PAIRED) continue;
     const station = i >> 1;
     const cut = cutTransect(zoneIndex, stations.x[station], stations.y[station], facings.endX[i], facings.endY[i]);
-    if (cut.count === 0 || cut.uncoveredM > Math.max(UNCOVERED_TOLERANCE_M, UNCOVERED_TOLERANCE_FRACTION * facings.gapM[i])) {
+    if (cut.count === 0 || cut.uncoveredM > Math.max(UNCOVERED_TOLERANCE_M, UNCOVERED_TOLERANCE_FRACTION * facings.transectLengthM[i])) {
       results.reason[i] = FACING_OUTSIDE_AQUIFER;
       continue;
     }

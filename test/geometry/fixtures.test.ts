@@ -10,7 +10,7 @@ const MM = 1e-3;
 
 function facingsOf(run: GeometryRun, lineId: string, side: 0 | 1) {
   const l = run.line[lineId];
-  const out: { reason: string; partner: string | null; gapM: number; angleDeg: number; chainageM: number }[] = [];
+  const out: { reason: string; partner: string | null; transectLengthM: number; angleDeg: number; chainageM: number }[] = [];
   for (let s = 0; s < run.stations.count; s++) {
     if (run.stations.line[s] !== l) continue;
     const k = 2 * s + side;
@@ -18,7 +18,7 @@ function facingsOf(run: GeometryRun, lineId: string, side: 0 | 1) {
     out.push({
       reason: FACING_REASON_NAMES[run.facings.reason[k]],
       partner: p >= 0 ? run.lines[p].id : null,
-      gapM: run.facings.gapM[k],
+      transectLengthM: run.facings.transectLengthM[k],
       angleDeg: run.facings.angleDeg[k],
       chainageM: run.stations.chainageM[s],
     });
@@ -32,7 +32,7 @@ function expectInvariants(run: GeometryRun): void {
 }
 
 const reasons = (run: GeometryRun, id: string, side: 0 | 1) => facingsOf(run, id, side).map((f) => f.reason);
-const gaps = (run: GeometryRun, id: string, side: 0 | 1) => facingsOf(run, id, side).filter((f) => f.reason === 'paired').map((f) => f.gapM);
+const gaps = (run: GeometryRun, id: string, side: 0 | 1) => facingsOf(run, id, side).filter((f) => f.reason === 'paired').map((f) => f.transectLengthM);
 const repeat = (v: string, n: number) => Array<string>(n).fill(v);
 
 describe('geometry fixtures', () => {
@@ -95,7 +95,7 @@ describe('geometry fixtures', () => {
     expect(aLeft.map((r, i) => (r === 'not-parallel' ? i : -1)).filter((i) => i >= 0)).toEqual([9, 10]);
     expect(reasons(run, 'a', 1).map((r, i) => (r === 'not-parallel' ? i : -1)).filter((i) => i >= 0)).toEqual([7, 8]);
     expect(reasons(run, 'b', 1).map((r, i) => (r === 'not-parallel' ? i : -1)).filter((i) => i >= 0)).toEqual([9, 10]);
-    expect(facingsOf(run, 'a', 0)[9].gapM).toBeCloseTo(-200 + (250 * 7) / 6, 3);
+    expect(facingsOf(run, 'a', 0)[9].transectLengthM).toBeCloseTo(-200 + (250 * 7) / 6, 3);
     // x meets the others at atan2(700, 600)
     expect(facingsOf(run, 'a', 0)[9].angleDeg).toBeCloseTo((Math.atan2(700, 600) * 180) / Math.PI, 4);
     expect(facingsOf(run, 'x', 0).filter((f) => f.reason === 'paired')).toHaveLength(0);
@@ -112,16 +112,16 @@ describe('geometry fixtures', () => {
     const aLeft = facingsOf(run, 'a', 0);
     // station 10 of a sits on the branch's first vertex: the touch at 0 m is ignored
     expect(aLeft[10]).toMatchObject({ reason: 'paired', partner: 'b' });
-    expect(aLeft[10].gapM).toBeCloseTo(300, 3);
+    expect(aLeft[10].transectLengthM).toBeCloseTo(300, 3);
     expect(aLeft.map((f) => f.reason)).toEqual([...repeat('paired', 11), 'not-parallel', 'not-parallel', ...repeat('paired', 7)]);
-    expect(aLeft[11].gapM).toBeCloseTo(100, 3);
-    expect(aLeft[12].gapM).toBeCloseTo(200, 3);
+    expect(aLeft[11].transectLengthM).toBeCloseTo(100, 3);
+    expect(aLeft[12].transectLengthM).toBeCloseTo(200, 3);
     const bRight = facingsOf(run, 'b', 1);
-    expect(bRight[11].gapM).toBeCloseTo(230, 3);
-    expect(bRight[12].gapM).toBeCloseTo(130, 3);
+    expect(bRight[11].transectLengthM).toBeCloseTo(230, 3);
+    expect(bRight[12].transectLengthM).toBeCloseTo(130, 3);
     // the branch meets both at 45 degrees; its own right transects run back to a over chainage
     const tRight = facingsOf(run, 't', 1);
-    expect(tRight.map((f) => f.gapM)).toEqual(tRight.map((f) => expect.closeTo(f.chainageM, 3)));
+    expect(tRight.map((f) => f.transectLengthM)).toEqual(tRight.map((f) => expect.closeTo(f.chainageM, 3)));
     expect(tRight.every((f) => f.reason === 'not-parallel' && Math.abs(f.angleDeg - 45) < 1e-4)).toBe(true);
     expect(run.strips.map((s) => [s.id, s.stationsA.length, s.stationsB.length])).toEqual([
       ['a|b|0', 11, 11],
@@ -174,8 +174,8 @@ describe('geometry fixtures', () => {
     expect(mLeft.map((f) => f.chainageM.toFixed(3))).toEqual([...Array.from({ length: 10 }, (_, i) => `${50 + 100 * i}.000`), ...Array.from({ length: 11 }, (_, i) => `${1050 + 100 * i}.000`)]);
     // station 9 of part 1 (x = 950) passes under part 2 of its own line on its way to p
     expect(mLeft.every((f) => f.partner === 'p')).toBe(true);
-    expect(mLeft[9].gapM).toBeCloseTo(300, 3);
-    expect(mLeft[10].gapM).toBeCloseTo(270, 3);
+    expect(mLeft[9].transectLengthM).toBeCloseTo(300, 3);
+    expect(mLeft[10].transectLengthM).toBeCloseTo(270, 3);
     expect(run.strips.map((s) => [s.id, s.stationsA.length, s.stationsB.length, Math.round(s.spacingMeanM * 1000) / 1000])).toEqual([
       ['m|p|0', 10, 9, 300],
       ['m|p|1', 11, 11, 270],
@@ -191,7 +191,7 @@ describe('geometry fixtures', () => {
     expect(jLeft.every((f) => f.reason === 'paired')).toBe(true);
     // the digitised segments swing by up to atan(3 / 10) = 17 degrees; the smoothed transects must not
     for (const f of jLeft) {
-      expect(Math.abs(f.gapM / 250 - 1)).toBeLessThan(0.01);
+      expect(Math.abs(f.transectLengthM / 250 - 1)).toBeLessThan(0.01);
       expect(f.angleDeg).toBeLessThan(2);
     }
     expect(Math.abs(run.strips[0].spacingMeanM / 250 - 1)).toBeLessThan(0.01);

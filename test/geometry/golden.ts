@@ -81,7 +81,7 @@ function toGeoJson(run: GeometryRun): string {
         side: k & 1 ? 'right' : 'left',
         partner: f.partner[k] >= 0 ? lines[f.partner[k]].id : null,
         reason: FACING_REASON_NAMES[f.reason[k]],
-        gap_m: r3(f.gapM[k]),
+        transect_length_m: r3(f.transectLengthM[k]),
         angle_deg: r3(f.angleDeg[k]),
       },
       geometry: { type: 'LineString', coordinates: [lonLat(s.x[st], s.y[st]), lonLat(f.endX[k], f.endY[k])] },

@@ -20,7 +20,7 @@ describe('castTransects', () => {
     // station 2 of a at x = 250; b starts at x = 1000 so its chainage there is 750
     expect(facings.reason[4]).toBe(FACING_PAIRED);
     expect(facings.partner[4]).toBe(1);
-    expect(facings.gapM[4]).toBeCloseTo(300, 12);
+    expect(facings.transectLengthM[4]).toBeCloseTo(300, 12);
     expect([facings.endX[4], facings.endY[4]]).toEqual([250, 300]);
     expect(facings.partnerChainageM[4]).toBeCloseTo(750, 9);
     expect(facings.angleDeg[4]).toBeCloseTo(0, 6);
@@ -43,14 +43,14 @@ describe('castTransects', () => {
     expect(strict.partner[0]).toBe(-1);
     expect(strict.hitLine[0]).toBe(1);
     expect(strict.angleDeg[0]).toBeCloseTo(15, 9);
-    expect(strict.gapM[0]).toBeCloseTo(300 + 50 * t, 9);
+    expect(strict.transectLengthM[0]).toBeCloseTo(300 + 50 * t, 9);
   });
 
   it('reports no partner beyond maxGapM, with the far end of the cast', () => {
     const lines = [line('a', [0, 0, 1000, 0]), line('b', [0, 500, 1000, 500])];
     const short = cast(lines, 400).facings;
     expect(short.reason[0]).toBe(FACING_NO_PARTNER);
-    expect([short.partner[0], short.hitLine[0], short.gapM[0], short.endX[0], short.endY[0]]).toEqual([-1, -1, 400, 50, 400]);
+    expect([short.partner[0], short.hitLine[0], short.transectLengthM[0], short.endX[0], short.endY[0]]).toEqual([-1, -1, 400, 50, 400]);
     expect(Number.isNaN(short.partnerChainageM[0])).toBe(true);
     expect(cast(lines, 600).facings.reason[0]).toBe(FACING_PAIRED);
   });
@@ -60,11 +60,11 @@ describe('castTransects', () => {
     const lines = [line('a', [0, 0, 1000, 0, 1000, 200, 0, 200]), line('b', [0, 400, 1000, 400]), line('c', [0, 600, 1000, 600])];
     const { stations, facings } = cast(lines);
     expect(facings.partner[0]).toBe(1);
-    expect(facings.gapM[0]).toBeCloseTo(400, 9);
+    expect(facings.transectLengthM[0]).toBeCloseTo(400, 9);
     // the westward leg faces b on its right
     const back = Array.from(stations.chainageM).findIndex((c, s) => stations.line[s] === 0 && c > 1200);
     expect(facings.partner[2 * back + 1]).toBe(1);
-    expect(facings.gapM[2 * back + 1]).toBeCloseTo(200, 9);
+    expect(facings.transectLengthM[2 * back + 1]).toBeCloseTo(200, 9);
   });
 
   it('ignores a line that touches the station itself but not one a metre away', () => {
@@ -76,7 +76,7 @@ describe('castTransects', () => {
     const blocked = cast(near).facings;
     expect(blocked.reason[2]).toBe(FACING_NOT_PARALLEL);
     expect(blocked.hitLine[2]).toBe(2);
-    expect(blocked.gapM[2]).toBeCloseTo(Math.tan(Math.PI / 3), 9);
+    expect(blocked.transectLengthM[2]).toBeCloseTo(Math.tan(Math.PI / 3), 9);
   });
 
   it('handles no lines and lines without length', () => {

@@ -195,10 +195,10 @@ const { accepted: thinCases, rejected: thinRejected } = acceptedCases(7_041_989,
   rechargeMPerDay: [0, 0],
   thicknessM: [1, 8],
   sag: (c) => {
-    const widthM = c.zones.reduce((sum, z) => sum + z.lengthM, 0);
-    const seriesK = widthM / c.zones.reduce((sum, z) => sum + z.lengthM / z.kMPerDay, 0);
+    const transectLengthM = c.zones.reduce((sum, z) => sum + z.lengthM, 0);
+    const seriesK = transectLengthM / c.zones.reduce((sum, z) => sum + z.lengthM / z.kMPerDay, 0);
     c.hL = c.h0 * (0.9 + 0.2 * thinRandom());
-    const aim = (0.5 + 0.7 * thinRandom()) * 4 * seriesK * Math.min(c.h0, c.hL) ** 2 / widthM ** 2;
+    const aim = (0.5 + 0.7 * thinRandom()) * 4 * seriesK * Math.min(c.h0, c.hL) ** 2 / transectLengthM ** 2;
     for (const z of c.zones) z.rechargeMPerDay = -aim * (0.5 + thinRandom());
   },
 });

@@ -65,7 +65,7 @@ describe('mass balance', () => {
         expectNear(a.massResidualM2PerDay, 0, 1e-9 * scale, 'reported residual');
         // flux at the ends of the profile matches the seepage the solver reports
         expectNear(a.fluxAt(0), a.ownSeepageM2PerDay, 1e-9 * scale, 'q(0)');
-        expectNear(a.fluxAt(a.widthM), -a.partnerSeepageM2PerDay, 1e-9 * scale, 'q(L)');
+        expectNear(a.fluxAt(a.transectLengthM), -a.partnerSeepageM2PerDay, 1e-9 * scale, 'q(L)');
       }),
       RUNS,
     );
@@ -89,9 +89,9 @@ describe('symmetry: swapping the lines and reversing the zones mirrors the solut
         expectNear(b.peakWaterTableM, a.peakWaterTableM, 1e-11 * headScale, 'peak head');
         expectNear(b.minDepthM, a.minDepthM, 1e-9 * 50, 'smallest depth');
         // two equal peaks may be reported from either end, so check the mirrored place is a peak
-        expectNear(a.headAt(a.widthM - b.peakOffsetM), a.peakWaterTableM, 1e-9 * headScale, 'head at the mirrored peak');
+        expectNear(a.headAt(a.transectLengthM - b.peakOffsetM), a.peakWaterTableM, 1e-9 * headScale, 'head at the mirrored peak');
         for (const f of [0.1, 0.37, 0.5, 0.81]) {
-          expectNear(b.headAt(b.widthM - f * a.widthM), a.headAt(f * a.widthM), 1e-9 * headScale, 'profile');
+          expectNear(b.headAt(b.transectLengthM - f * a.transectLengthM), a.headAt(f * a.transectLengthM), 1e-9 * headScale, 'profile');
         }
       }),
       RUNS,
@@ -104,9 +104,9 @@ describe('symmetry: swapping the lines and reversing the zones mirrors the solut
         fc.pre(Math.abs(d.h0 - d.hL) >= 0.01);
         expect(solveWith(a, problemOf(d))).toBe(SOLVE_OK);
         expect(solveWith(b, problemOf(mirrored(d)))).toBe(SOLVE_OK);
-        expectNear(b.peakOffsetM, a.widthM - a.peakOffsetM, 1e-6 * a.widthM, 'mirrored peak offset');
+        expectNear(b.peakOffsetM, a.transectLengthM - a.peakOffsetM, 1e-6 * a.transectLengthM, 'mirrored peak offset');
         if (Number.isNaN(a.divideOffsetM)) expect(b.divideOffsetM).toBeNaN();
-        else expectNear(b.divideOffsetM, a.widthM - a.divideOffsetM, 1e-6 * a.widthM, 'mirrored divide');
+        else expectNear(b.divideOffsetM, a.transectLengthM - a.divideOffsetM, 1e-6 * a.transectLengthM, 'mirrored divide');
       }),
       RUNS,
     );
@@ -216,9 +216,9 @@ describe('shallowLengthM', () => {
         fc.oneof(fc.constant(0), fc.double({ min: 0, max: 0.6, noNaN: true })),
         (d, depth, marginFraction) => {
           fc.pre(solveWith(a, problemOf(d)) === SOLVE_OK);
-          const marginM = marginFraction * a.widthM;
+          const marginM = marginFraction * a.transectLengthM;
           // the margin is capped at half the width: then nothing is left
-          const from = Math.min(marginM, a.widthM / 2), to = a.widthM - from;
+          const from = Math.min(marginM, a.transectLengthM / 2), to = a.transectLengthM - from;
           const samples = 20_000, dx = (to - from) / samples;
           const zoneEnd = zoneEnds(d.zones);
           // A water table within rounding of the depth limit may count either way, so the
@@ -234,10 +234,10 @@ describe('shallowLengthM', () => {
           }
           // each zone has at most two crossings and two edges, each off by at most one sample
           const got = marginM === 0 ? a.shallowLengthM(depth) : a.shallowLengthM(depth, marginM);
-          const tol = (4 * d.zones.length + 2) * dx + 1e-9 * a.widthM;
+          const tol = (4 * d.zones.length + 2) * dx + 1e-9 * a.transectLengthM;
           expect(got, `shallow length ${got}, sampled ${shallowLeast}..${shallowMost}`).toBeGreaterThanOrEqual(shallowLeast - tol);
           expect(got, `shallow length ${got}, sampled ${shallowLeast}..${shallowMost}`).toBeLessThanOrEqual(shallowMost + tol);
-          if (got > 0.01 * a.widthM && got < 0.99 * (to - from)) partial++;
+          if (got > 0.01 * a.transectLengthM && got < 0.99 * (to - from)) partial++;
         },
       ),
       RUNS,
@@ -261,9 +261,9 @@ describe('smallest depth', () => {
         fc.oneof(fc.constant(0), fc.double({ min: 0, max: 0.45, noNaN: true })),
         (d, marginFraction) => {
           fc.pre(solveWith(a, problemOf(d)) === SOLVE_OK);
-          const marginM = marginFraction * a.widthM;
+          const marginM = marginFraction * a.transectLengthM;
           if (marginM > 0) a.scanDepth(marginM);
-          const from = marginM, to = a.widthM - marginM;
+          const from = marginM, to = a.transectLengthM - marginM;
           const zoneEnd = zoneEnds(d.zones);
           // least depth at x with the ground of any zone whose closed interval holds x
           const leastDepthAt = (x: number): number => {
@@ -286,8 +286,8 @@ describe('smallest depth', () => {
           const headScale = Math.abs(d.baseM) + (a.peakWaterTableM - d.baseM);
           expect(a.minDepthM).toBeLessThanOrEqual(least + 1e-9 * headScale);
           expect(a.minDepthM).toBeGreaterThanOrEqual(least - largestStep - 1e-9 * headScale);
-          expect(a.minDepthOffsetM).toBeGreaterThanOrEqual(from - 1e-9 * a.widthM);
-          expect(a.minDepthOffsetM).toBeLessThanOrEqual(to + 1e-9 * a.widthM);
+          expect(a.minDepthOffsetM).toBeGreaterThanOrEqual(from - 1e-9 * a.transectLengthM);
+          expect(a.minDepthOffsetM).toBeLessThanOrEqual(to + 1e-9 * a.transectLengthM);
           expectNear(leastDepthAt(a.minDepthOffsetM), a.minDepthM, 1e-9 * headScale, 'depth at the offset');
         },
       ),
@@ -445,13 +445,13 @@ describe('mean thickness and the Dupuit ratio', () => {
         fc.pre(solveWith(a, problemOf(d)) === SOLVE_OK);
         let lo = Infinity, hi = 0;
         for (let i = 0; i <= 2000; i++) {
-          const h = a.headAt((i / 2000) * a.widthM) - d.baseM;
+          const h = a.headAt((i / 2000) * a.transectLengthM) - d.baseM;
           lo = Math.min(lo, h);
           hi = Math.max(hi, h);
         }
         expect(a.meanThicknessM).toBeGreaterThanOrEqual(lo * (1 - 1e-9));
         expect(a.meanThicknessM).toBeLessThanOrEqual(hi * (1 + 1e-9));
-        expectNear(a.dupuitRatio, a.widthM / a.meanThicknessM, 1e-12 * a.dupuitRatio, 'L / mean thickness');
+        expectNear(a.dupuitRatio, a.transectLengthM / a.meanThicknessM, 1e-12 * a.dupuitRatio, 'L / mean thickness');
       }),
       RUNS,
     );
@@ -464,7 +464,7 @@ describe('mean thickness and the Dupuit ratio', () => {
         fc.pre(solveWith(a, problemOf(d)) === SOLVE_OK);
         const mean = denseMeanThickness(a, d);
         expectNear(a.meanThicknessM, mean, 1e-6 * mean, 'mean thickness');
-        expectNear(a.dupuitRatio, a.widthM / mean, 1e-6 * a.dupuitRatio, 'Dupuit ratio');
+        expectNear(a.dupuitRatio, a.transectLengthM / mean, 1e-6 * a.dupuitRatio, 'Dupuit ratio');
       }),
       RUNS,
     );

@@ -56,7 +56,7 @@ describe('renderProfileSvg', () => {
     // the demo's top strip has no recharge mound: its highest water table is line a's stage
     expect(profile.peakOffsetM).toBe(0);
     expect(svg).toContain('>highest, at the line</text>');
-    const mound = renderProfileSvg({ ...profile, peakOffsetM: profile.widthM / 2 });
+    const mound = renderProfileSvg({ ...profile, peakOffsetM: profile.transectLengthM / 2 });
     expect(mound).toContain('>peak</text>');
     expect(mound).not.toContain('highest, at the line');
   });
@@ -83,7 +83,7 @@ describe('orientFromLineA', () => {
     expect([seen.lineA, seen.lineB]).toEqual(['C-05', 'D-06']);
     expect([seen.stageAM, seen.stageBM]).toEqual([cast.stageBM, cast.stageAM]);
     expect(seen.xM[0]).toBe(0);
-    expect(seen.xM[seen.xM.length - 1]).toBeCloseTo(cast.widthM, 9);
+    expect(seen.xM[seen.xM.length - 1]).toBeCloseTo(cast.transectLengthM, 9);
     for (let i = 1; i < seen.xM.length; i++) expect(seen.xM[i]).toBeGreaterThan(seen.xM[i - 1]);
     expect(seen.waterTableM[0]).toBeCloseTo(seen.stageAM, 9);
     expect(seen.waterTableM[seen.xM.length - 1]).toBeCloseTo(seen.stageBM, 9);
