@@ -5,11 +5,12 @@
 //   const config = readConfig('doab.jsonc');            // or readConfig() for the defaults
 //   const district = await loadDistrict('canals.geojson', 'aquifer.geojson', config);
 //   const result = screenLoaded(district, config);      // throws InputProblems on bad features
-//   writeRun('out', result, { district, config });      // strips, canals, ranking, report, run.json
+//   await writeRun('out', result, { district, config }); // strips, canals, ranking, report, run.json
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { configFromValue, defaultConfig, parseConfig, type RunConfig } from './input/config.js';
 import { loadDistrict, type LoadedDistrict } from './input/load-district.js';
+import { filesOfInput } from './input/read-features.js';
 import { readTextFile } from './input/read-text.js';
 import type { OutputFile } from './output/atomic-write.js';
 import { writeAllOrNothing } from './output/atomic-write.js';
@@ -48,11 +49,12 @@ export { CONDUCTIVITY_UNITS, RECHARGE_UNITS, LENGTH_UNITS } from './shared/units
 export { VERSION } from './shared/version.js';
 export { parseConfig, defaultConfig, type RunConfig } from './input/config.js';
 export { loadDistrict, type LoadedDistrict } from './input/load-district.js';
-export { readFeatureFile, type InputFile } from './input/read-features.js';
+export { readFeatureFile, filesOfInput, type InputFile } from './input/read-features.js';
 export { screenDistrict, type ScreenResult, type ProgressListener, type DistrictTotals } from './screening/screen.js';
 export type { StripSummary, LineSummary } from './screening/aggregate.js';
 export type { Profile } from './screening/profile.js';
-export { checkOutputFolder } from './output/output-folder.js';
+export { checkOutputFolder, realPathOf } from './output/output-folder.js';
+export { profileFileName } from './output/profile-table.js';
 export { writeAllOrNothing, type OutputFile } from './output/atomic-write.js';
 export { CAUTION } from './output/run-record.js';
 export { summaryText } from './output/summary.js';
@@ -140,8 +142,9 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
 }
 
 /** Writes every file of a run into outDir, or none; removes what an earlier doab run there left that this one does not write. */
-export function writeRun(outDir: string, result: ScreenResult, options: WriteRunOptions): { written: string[]; removed: string[] } {
-  checkOutputFolder(outDir);
+export async function writeRun(outDir: string, result: ScreenResult, options: WriteRunOptions): Promise<{ written: string[]; removed: string[] }> {
+  const { district } = options;
+  checkOutputFolder(outDir, [district.canals?.path, district.aquifer?.path, options.configFile].flatMap((path) => (path ? filesOfInput(path) : [])));
   return writeRunFolder(outDir, runFiles(result, options));
 }
 
@@ -220,13 +223,13 @@ export async function profileFromRun(runDir: string, stripId: string): Promise<S
 }
 
 /** Writes a strip's profile as SVG and CSV into outDir (all or nothing); returns the file names. */
-export function writeProfile(outDir: string, { strip, profile }: StripProfile): string[] {
+export async function writeProfile(outDir: string, { strip, profile }: StripProfile): Promise<string[]> {
   const name = profileFileName(strip.stripId);
   const files = [
     { name: `${name}.svg`, content: `${renderProfileSvg(profile)}\n` },
     { name: `${name}.csv`, content: profileTable(profile) },
   ];
-  writeAllOrNothing(outDir, files);
+  await writeAllOrNothing(outDir, files);
   return files.map((file) => file.name);
 }
 

@@ -1,8 +1,8 @@
 // `doab init-config`: a commented starting config, with doab's fields matched to the attributes
 // found in the user's files where a name makes the match plain, and every attribute listed.
-import { existsSync } from 'node:fs';
+import { existsSync, lstatSync } from 'node:fs';
 import { basename, dirname } from 'node:path';
-import { DataError, DEFAULT_RULES, readFeatureFile, SETTINGS, SETTING_KEYS, writeAllOrNothing, type SettingKey } from '../index.js';
+import { DEFAULT_RULES, filesOfInput, readFeatureFile, realPathOf, SETTINGS, SETTING_KEYS, UsageError, writeAllOrNothing, type SettingKey } from '../index.js';
 import type { CliIo } from './io.js';
 
 export interface InitConfigOptions {
@@ -84,9 +84,14 @@ function settingLines(): string {
 }
 
 export async function initConfigCommand(options: InitConfigOptions, io: CliIo): Promise<number> {
-  if (existsSync(options.out) && !options.force) {
-    throw new DataError({ file: options.out }, 'already exists; give --force to replace it, or another --out');
-  }
+  // never over an input, whatever --force says; over any other file only with --force
+  const inputs = [options.canals, options.aquifer].flatMap((path) => filesOfInput(path));
+  const target = realPathOf(options.out);
+  const input = inputs.find((path) => realPathOf(path) === target);
+  if (options.out.trim() === '') throw new UsageError('--out is empty: name the config file to write', 'out');
+  if (input !== undefined) throw new UsageError(`--out ${options.out} is your input ${input}; name another file for the config`, 'out');
+  if (existsSync(options.out) && !options.force) throw new UsageError(`--out ${options.out} already exists; give --force to replace it, or another --out`, 'out');
+  if (existsSync(options.out) && !lstatSync(options.out).isFile()) throw new UsageError(`--out ${options.out} is not a regular file; name a file for the config`, 'out');
   const canals = await readFeatureFile(options.canals, { inputCrs: options.inputCrs });
   const aquifer = await readFeatureFile(options.aquifer, { inputCrs: options.inputCrs });
   const lineAttributes = attributesOf(canals.features);
@@ -136,7 +141,7 @@ ${field('zones', 'recharge', 'areal recharge, in units.recharge')}
 ${settingLines()}
 }
 `;
-  writeAllOrNothing(dirname(options.out), [{ name: basename(options.out), content: text }]);
+  await writeAllOrNothing(dirname(options.out), [{ name: basename(options.out), content: text }]);
   io.err(`wrote ${options.out}; review it, then run doab check with --config ${options.out}\n`);
   return 0;
 }

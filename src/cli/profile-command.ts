@@ -1,7 +1,7 @@
 // `doab profile --run DIR --strip ID [--out DIR]`: the cross-section of one strip of an earlier
 // run, as an SVG drawing and a CSV of the water table.
 import type { Command } from 'commander';
-import { peakLabelText, profileFromRun, profileText, writeProfile } from '../index.js';
+import { checkOutputFolder, peakLabelText, profileFileName, profileFromRun, profileText, writeProfile } from '../index.js';
 import type { CliIo } from './io.js';
 
 export interface ProfileOptions {
@@ -11,9 +11,13 @@ export interface ProfileOptions {
 }
 
 export async function profileCommand(options: ProfileOptions, io: CliIo): Promise<number> {
-  const profile = await profileFromRun(options.run, options.strip);
   const out = options.out ?? options.run;
-  const written = writeProfile(out, profile);
+  // before any screening: the folder can take the two files, and they replace nothing but earlier profiles
+  const name = profileFileName(options.strip);
+  const names = new Set([`${name}.svg`, `${name}.csv`]);
+  checkOutputFolder(out, [], names, options.out === undefined ? '--run' : '--out', names);
+  const profile = await profileFromRun(options.run, options.strip);
+  const written = await writeProfile(out, profile);
   io.err(`wrote ${written.join(', ')} to ${out}\n`);
   io.out(profileText(profile, peakLabelText));
   return 0;

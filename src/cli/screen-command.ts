@@ -2,6 +2,7 @@
 import {
   applyFlags,
   checkOutputFolder,
+  filesOfInput,
   CAUTION,
   errorsOf,
   InputProblems,
@@ -39,7 +40,8 @@ export function runConfig(options: { config?: string; [flag: string]: unknown })
 
 export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
-  checkOutputFolder(options.out);
+  // before any work: never an output over an input, nor over a file doab did not write
+  checkOutputFolder(options.out, [options.canals, options.aquifer, options.config].flatMap((path) => (path ? filesOfInput(path) : [])));
   const config = runConfig(options);
   const district = await loadDistrict(options.canals, options.aquifer, config);
   const errors = errorsOf(district.problems);
@@ -52,7 +54,7 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   const result = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress });
   for (const warning of result.warnings) log(`warning: ${warning}`);
   log(`solved ${result.counts.solvedFacings} of ${result.counts.facingsByReason.paired} paired transect sides; ${result.counts.strips} strips`);
-  const { written, removed } = writeRun(options.out, result, {
+  const { written, removed } = await writeRun(options.out, result, {
     district,
     config,
     configFile: options.config ?? null,

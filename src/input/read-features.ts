@@ -29,6 +29,12 @@ export interface ReadOptions {
   inputCrs?: string;
 }
 
+/** Every file an input path stands for: a shapefile's .shp with the sidecars beside it, or the file itself. */
+export function filesOfInput(path: string): string[] {
+  if (extname(path).toLowerCase() !== '.shp') return [path];
+  return [path, ...['.shx', '.dbf', '.prj', '.cpg', '.qix', '.sbn', '.sbx'].map((extension) => sidecar(path, extension)).filter((file): file is string => file !== null)];
+}
+
 function readBytes(path: string, what = 'file'): Buffer {
   try {
     return readFileSync(path);

@@ -63,10 +63,20 @@ describe('doab init-config', () => {
     writeFileSync(config, '{}');
     const args = ['init-config', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', config];
     const refused = await runCliInProcess(args);
-    expect(refused.status).toBe(1);
-    expect(refused.stderr).toMatch(/already exists.*--force/);
+    expect(refused.status).toBe(2);
+    expect(refused.stderr).toMatch(/^doab: usage error: --out .* already exists.*--force/);
     expect(readFileSync(config, 'utf8')).toBe('{}');
     expect((await runCliInProcess([...args, '--force'])).status).toBe(0);
     expect(existsSync(config) && readFileSync(config, 'utf8').startsWith('// doab config')).toBe(true);
+    // an input is never the target, --force or not, whatever the path says
+    const input = join(dir, 'canals.geojson');
+    writeFileSync(input, readFileSync(join(PAIR, 'canals.geojson')));
+    const before = readFileSync(input);
+    for (const target of [input, join(dir, '.', 'canals.geojson')]) {
+      const refusedInput = await runCliInProcess(['init-config', '--canals', input, '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', target, '--force']);
+      expect(refusedInput.status).toBe(2);
+      expect(refusedInput.stderr).toMatch(/--out .* is your input/);
+    }
+    expect(readFileSync(input).equals(before)).toBe(true);
   });
 });

@@ -38,7 +38,7 @@ describe('the packed package', () => {
 const config = readConfig();
 const district = await loadDistrict(process.argv[2], process.argv[3], config);
 const result = screenLoaded(district, config);
-writeRun('out', result, { district, config });
+await writeRun('out', result, { district, config });
 console.log(JSON.stringify({ strips: result.strips.length, lossM3PerDay: result.totals.lossM3PerDay }));
 `,
     );
