@@ -18,6 +18,7 @@ import { roundNumber } from './output/format.js';
 import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from './output/layers.js';
 import { checkOutputFolder, writeRunFolder } from './output/output-folder.js';
 import { profileFileName, profileTable } from './output/profile-table.js';
+import { districtRasters } from './output/rasters.js';
 import { CAUTION, runRecord } from './output/run-record.js';
 import { orientFromLineA, renderProfileSvg } from './report/profile-svg.js';
 import { renderReport } from './report/report.js';
@@ -50,7 +51,7 @@ export { VERSION } from './shared/version.js';
 export { parseConfig, defaultConfig, type RunConfig } from './input/config.js';
 export { loadDistrict, type LoadedDistrict } from './input/load-district.js';
 export { readFeatureFile, filesOfInput, type InputFile } from './input/read-features.js';
-export { screenDistrict, type ScreenResult, type ProgressListener, type DistrictTotals } from './screening/screen.js';
+export { screenDistrict, type ScreenResult, type ProgressListener, type DistrictTotals, type LineFigure, type FigureMethod } from './screening/screen.js';
 export type { StripSummary, LineSummary } from './screening/aggregate.js';
 export type { Profile } from './screening/profile.js';
 export { checkOutputFolder, realPathOf } from './output/output-folder.js';
@@ -58,6 +59,8 @@ export { profileFileName } from './output/profile-table.js';
 export { writeAllOrNothing, type OutputFile } from './output/atomic-write.js';
 export { CAUTION } from './output/run-record.js';
 export { summaryText } from './output/summary.js';
+export { districtRasters, RASTER_NAMES, RASTER_NODATA } from './output/rasters.js';
+export type { DistrictResult, DistrictBalance, DistrictStripFigures } from './screening/district.js';
 export { renderReport, type ReportMeta } from './report/report.js';
 export { renderProfileSvg, peakLabelText } from './report/profile-svg.js';
 
@@ -112,6 +115,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
     { name: 'ranking.csv', content: rankingTable(result) },
   ];
   if (result.settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
+  if (result.district) for (const raster of districtRasters(result.district, result.crs)) files.push({ name: raster.name, content: [raster.content] });
   files.push({
     name: 'report.html',
     content: renderReport(result, {

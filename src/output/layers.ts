@@ -5,7 +5,7 @@ import { stringify } from 'csv-stringify/sync';
 import { FACING_REASON_NAMES } from '../geometry/index.js';
 import { SOLVE_STATUS_NAMES } from '../hydraulics/transect-solver.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
-import { lossPerKm, type StripSummary } from '../screening/aggregate.js';
+import type { StripSummary } from '../screening/aggregate.js';
 import { NOT_PAIRED } from '../screening/solve-facings.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { signedArea2 } from '../geometry/rings.js';
@@ -80,6 +80,10 @@ export function stripProperties(strip: StripSummary): Record<string, unknown> {
     risk: strip.risk ?? 'unsolved',
     risk_area_ha: roundNumber(strip.riskAreaHa),
     dupuit_ratio_min: roundNumber(strip.dupuitRatioMin),
+    // the district solve's figures inside the strip polygon (null when it did not run)
+    district_min_depth_m: strip.district ? roundNumber(strip.district.minDepthM) : null,
+    district_risk: strip.district ? (strip.district.risk ?? 'unsolved') : null,
+    district_risk_area_ha: strip.district ? roundNumber(strip.district.shallowAreaHa) : null,
     flags: strip.flags.join(';'),
   };
 }
@@ -110,12 +114,19 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
   return featureCollection(
     result.lines.map((line, i) => {
       const summary = result.lineSummaries[i];
+      const figure = result.lineFigures[i];
       // the input's attributes go out as they came in; the prototype-free copy keeps __proto__ a plain key
       const properties: Record<string, unknown> = Object.create(null);
       for (const key of Object.keys(line.properties)) properties[key] = line.properties[key];
       properties.length_m = roundNumber(summary.lengthM);
-      properties.net_loss_m3_d = roundNumber(summary.netLossM3PerDay);
-      properties.net_loss_m3_d_km = roundNumber(lossPerKm(summary));
+      // the figure a planner reads: the district solve's when it ran, with its method named
+      properties.net_loss_m3_d = roundNumber(figure.netLossM3PerDay);
+      properties.net_loss_m3_d_km = roundNumber(figure.netLossM3PerDayKm);
+      properties.loss_method = figure.method;
+      properties.coarse_cell_diff_m3_d = roundNumber(figure.coarseDiffM3PerDay);
+      properties.strip_net_loss_m3_d = roundNumber(figure.stripNetLossM3PerDay);
+      properties.strip_net_loss_m3_d_km = roundNumber(figure.stripNetLossM3PerDayKm);
+      properties.strip_diff_m3_d = figure.method === 'district' ? roundNumber(figure.stripNetLossM3PerDay - figure.netLossM3PerDay) : null;
       properties.paired_m = roundNumber(summary.pairedM);
       properties.unpaired_m = roundNumber(summary.unpairedM);
       properties.solved_sides_m = roundNumber(summary.solvedSidesM);

@@ -35,6 +35,37 @@ function describeInput(file: InputFacts) {
   return { path: file.path, format: file.format, source_crs: file.sourceCrs, sha256: file.sha256, bytes: file.bytes, features: file.features.length };
 }
 
+/** The district solve's grid, convergence, water balance and areas, or why it did not run. */
+function districtRecord(result: ScreenResult) {
+  const district = result.district;
+  if (!district) return { ran: false, reason: 'skipped (stripsOnly): every figure comes from the strips' };
+  const { grid, balance } = district;
+  return {
+    ran: true,
+    cell_m: district.cellM,
+    requested_cell_m: district.requestedCellM,
+    coarse_cell_m: district.coarseCellM,
+    columns: grid.columns,
+    rows: grid.rows,
+    origin_m: [grid.originX, grid.originY],
+    status: district.status,
+    linear_iterations: district.linearIterations,
+    picard_iterations: district.picardIterations,
+    dry_cells: district.dryCells,
+    water_balance: {
+      recharge_m3_d: roundNumber(balance.rechargeM3PerDay),
+      line_loss_m3_d: roundNumber(balance.lineLossM3PerDay),
+      line_gain_m3_d: roundNumber(balance.lineGainM3PerDay),
+      outer_edge_m3_d: 0,
+      residual_m3_d: roundNumber(balance.residualM3PerDay),
+      residual_relative: roundNumber(balance.residualRelative),
+    },
+    area_by_risk_ha: Object.fromEntries(Object.entries(district.areaByRiskHa).map(([risk, ha]) => [risk, roundNumber(ha)])),
+    line_and_bank_area_ha: roundNumber(district.lineAndBankAreaHa),
+    shallow_area_ha: roundNumber(district.shallowAreaHa),
+  };
+}
+
 export function runRecord(result: ScreenResult, meta: RunMeta): string {
   const { totals, counts, settings } = result;
   const record = {
@@ -58,17 +89,23 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
       strips_by_risk: totals.stripsByRisk,
     },
     totals: {
+      // loss, gain, net and risk area come from this method: the district solve when it ran
+      method: totals.method,
       loss_m3_d: roundNumber(totals.lossM3PerDay),
       loss_m3_yr: roundNumber(totals.lossM3PerYear),
       gain_m3_d: roundNumber(totals.gainM3PerDay),
       net_m3_d: roundNumber(totals.netM3PerDay),
       strip_loss_m3_d: roundNumber(totals.stripLossM3PerDay),
+      strip_lines_loss_m3_d: roundNumber(totals.stripLinesLossM3PerDay),
+      strip_lines_gain_m3_d: roundNumber(totals.stripLinesGainM3PerDay),
+      strip_risk_area_ha: roundNumber(totals.stripRiskAreaHa),
       paired_m: roundNumber(totals.pairedM),
       unpaired_m: roundNumber(totals.unpairedM),
       solved_sides_m: roundNumber(totals.solvedSidesM),
       sides_m: roundNumber(totals.sidesM),
       risk_area_ha: roundNumber(totals.riskAreaHa),
     },
+    district_solve: districtRecord(result),
     outputs: meta.outputs,
     warnings: [...meta.problems.filter((p) => p.severity === 'warning').map(formatProblem), ...result.warnings],
     skipped_features: meta.problems.filter((p) => p.severity === 'error').map((p) => ({

@@ -7,18 +7,39 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
   const { totals, counts } = result;
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
-  lines.push(
-    `Seepage loss from losing lines: ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), net of what they take in on other sides; ` +
-      `gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d; the strips' losses add to ${formatFixed(totals.stripLossM3PerDay, 0)} m3/d`,
-  );
-  lines.push(
-    `Paired ${formatFixed(totals.pairedM / 1000, 1)} km, unpaired ${formatFixed(totals.unpairedM / 1000, 1)} km; ` +
-      `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatFixed(totals.riskAreaHa, 1)} ha`,
-  );
-  lines.push(
-    `Line sides solved: ${formatFixed(totals.solvedSidesM / 1000, 1)} km of ${formatFixed(totals.sidesM / 1000, 1)} km; ` +
-      'unpaired and unsolved sides are not counted, so these losses are a lower bound',
-  );
+  const district = result.district;
+  if (district) {
+    const b = district.balance;
+    lines.push(
+      `District solve (2D, ${district.cellM} m cells, ${district.grid.columns} x ${district.grid.rows}; ${district.status}): ` +
+        `losing lines lose ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d`,
+    );
+    lines.push(
+      `Water balance: recharge ${formatFixed(b.rechargeM3PerDay, 0)} + line losses ${formatFixed(b.lineLossM3PerDay, 0)} - line gains ${formatFixed(b.lineGainM3PerDay, 0)} ` +
+        `= ${b.residualM3PerDay.toPrecision(2)} m3/d (no flow across the aquifer's outer edge)`,
+    );
+    lines.push(
+      `Area with water table < ${result.settings.risk.waterloggedDepthM} m below ground (district solve, banks left out): ${formatFixed(totals.riskAreaHa, 1)} ha; ` +
+        `by risk class: ${Object.entries(district.areaByRiskHa).map(([risk, ha]) => `${risk} ${formatFixed(ha, 1)} ha`).join(', ')}`,
+    );
+    lines.push(
+      `Strips alone: lines lose ${formatFixed(totals.stripLinesLossM3PerDay, 0)} m3/d and take in ${formatFixed(totals.stripLinesGainM3PerDay, 0)} m3/d over ` +
+        `${formatFixed(totals.solvedSidesM / 1000, 1)} of ${formatFixed(totals.sidesM / 1000, 1)} km of line sides solved; ${formatFixed(totals.stripRiskAreaHa, 1)} ha shallow in strips`,
+    );
+  } else {
+    lines.push(
+      `Seepage loss from losing lines (strips alone; no district solve): ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), net of what they take in on other sides; ` +
+        `gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d; the strips' losses add to ${formatFixed(totals.stripLossM3PerDay, 0)} m3/d`,
+    );
+    lines.push(
+      `Paired ${formatFixed(totals.pairedM / 1000, 1)} km, unpaired ${formatFixed(totals.unpairedM / 1000, 1)} km; ` +
+        `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatFixed(totals.riskAreaHa, 1)} ha`,
+    );
+    lines.push(
+      `Line sides solved: ${formatFixed(totals.solvedSidesM / 1000, 1)} km of ${formatFixed(totals.sidesM / 1000, 1)} km; ` +
+        'unpaired and unsolved sides are not counted, so these losses are a lower bound',
+    );
+  }
   const byRisk = totals.stripsByRisk;
   lines.push(`Strips by risk: ponded ${byRisk.ponded}, waterlogged ${byRisk.waterlogged}, potential ${byRisk.potential}, safe ${byRisk.safe}, unsolved ${byRisk.unsolved}`);
   const header = ['rank', 'strip', 'loss m3/d/km', 'loss m3/d', 'min depth m', 'risk', 'flags'];

@@ -3,12 +3,13 @@
 // neither side paired overlaid, a scale bar and a north arrow. Returns the SVG and its key (HTML).
 import { FACING_PAIRED } from '../geometry/index.js';
 import type { StripSummary } from '../screening/aggregate.js';
+import type { Grid } from '../geometry/grid.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { escapeHtml } from './escape.js';
 import { formatFixed, formatGrouped, roundDown125 } from '../output/format.js';
 import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES, patternId, stripPatternDefs, type StripClass } from './palette.js';
 import { fitView, pathData, type MapView } from './svg-path.js';
-import { lossPerKm } from '../screening/aggregate.js';
+import { depthImage } from './depth-image.js';
 
 export interface MapOptions {
   /** Drawing width in SVG units (about CSS pixels at 100% zoom); default 1000. */
@@ -48,9 +49,9 @@ function lineWidths(result: ScreenResult, view: MapView): LineWidths {
   return { minPx: Math.min(0.8, maxPx / 3), maxPx, top: widthScaleTop(result), unpairedPx: Math.min(7, Math.max(2, spacingPx / 2)) };
 }
 
-/** Loss per km of paired length (m^3/d/km), as in canals.geojson; null without paired length. */
+/** Loss per km (m^3/d/km) as canals.geojson gives it (the district solve's when it ran); null when unknown. */
 export function lineLossPerKm(result: ScreenResult, line: number): number | null {
-  const perKm = lossPerKm(result.lineSummaries[line]);
+  const perKm = result.lineFigures[line].netLossM3PerDayKm;
   return Number.isFinite(perKm) ? perKm : null;
 }
 
@@ -77,7 +78,7 @@ function stripClass(strip: StripSummary): StripClass {
   return strip.risk ?? 'unsolved';
 }
 
-function boundsOf(linesM: Float64Array[][], strips: StripSummary[]): [number, number, number, number] {
+function boundsOf(linesM: Float64Array[][], strips: StripSummary[], grid: Grid | null): [number, number, number, number] {
   let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
   const add = (coords: Float64Array) => {
     for (let i = 0; i < coords.length; i += 2) {
@@ -89,6 +90,7 @@ function boundsOf(linesM: Float64Array[][], strips: StripSummary[]): [number, nu
   };
   for (const parts of linesM) for (const part of parts) add(part);
   for (const strip of strips) add(strip.strip.ringM);
+  if (grid) add(Float64Array.from([grid.originX, grid.originY, grid.originX + grid.columns * grid.cellM, grid.originY + grid.rows * grid.cellM]));
   if (!Number.isFinite(minX)) return [0, 0, 1000, 1000];
   return [minX, minY, maxX, maxY];
 }
@@ -183,6 +185,10 @@ function mapKey(result: ScreenResult, lineWidth: LineWidths): string {
     .join('');
   return (
     `<div class="map-key"><h3>Strips, by smallest depth of the water table</h3><ul>${classes}</ul>` +
+    (result.district
+      ? `<p class="key-note">Under the strips (drawn paler), the district solve's depth of the water table over the whole aquifer, ` +
+        `${escapeHtml(result.district.cellM)} m cells, in the same colours by risk class; depth.tif holds its values.</p>`
+      : '') +
     `<h3>Lines</h3><ul>` +
     `<li>${keySwatchLine(LINE_COLOURS.canal, 2)}<span><b>canal</b>: solid</span></li>` +
     `<li>${keySwatchLine(LINE_COLOURS.drain, 1.2, ' stroke-dasharray="5 3"')}<span><b>drain</b>: dashed</span></li>` +
@@ -196,11 +202,27 @@ function mapKey(result: ScreenResult, lineWidth: LineWidths): string {
   );
 }
 
+/** The district solve's depth raster under everything else, as an inline PNG; '' when it did not run. */
+function depthRaster(result: ScreenResult, view: MapView): string {
+  const district = result.district;
+  if (!district) return '';
+  const { grid } = district;
+  const r = (v: number) => Math.round(v * 10) / 10;
+  const x = (grid.originX - view.minX) * view.pxPerM + view.padPx;
+  const y = (view.maxY - (grid.originY + grid.rows * grid.cellM)) * view.pxPerM + view.padPx;
+  const widthPx = grid.columns * grid.cellM * view.pxPerM, heightPx = grid.rows * grid.cellM * view.pxPerM;
+  const image = depthImage(district, result.settings.risk, Math.ceil(Math.max(widthPx, heightPx)));
+  return (
+    `<image class="map-depth" x="${r(x)}" y="${r(y)}" width="${r(widthPx)}" height="${r(heightPx)}" preserveAspectRatio="none" ` +
+    `href="${image.href}"><title>depth of the water table below ground by risk class, district solve at ${district.cellM} m cells</title></image>\n`
+  );
+}
+
 export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}): DistrictMap {
   const widthPx = options.widthPx ?? 1000;
   const minStepPx = options.minStepPx ?? 1;
   const linesM = result.geometries.map((geometry) => geometry.parts);
-  const view = fitView(boundsOf(linesM, result.strips), widthPx, PAD_PX, options.maxHeightPx ?? 1000, BAND_PX);
+  const view = fitView(boundsOf(linesM, result.strips, result.district?.grid ?? null), widthPx, PAD_PX, options.maxHeightPx ?? 1000, BAND_PX);
 
   const strips = result.strips
     .map(
@@ -216,8 +238,11 @@ export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}
     const line = result.lines[i];
     const lossPerKm = lineLossPerKm(result, i);
     const d = linesM[i].map((part) => pathData(view, part, minStepPx, false)).join('');
-    const title = `${line.id}${line.name ? ` ${line.name}` : ''} (${line.kind}): loss ${formatFixed(result.lineSummaries[i].netLossM3PerDay, 1)} m³/d, ` +
-      `${lossPerKm === null ? 'no paired length' : `${formatFixed(lossPerKm, 1)} m³/d per km paired`}`;
+    const figure = result.lineFigures[i];
+    const per = figure.method === 'district' ? 'per km (district solve)' : 'per km paired (strips)';
+    const title = `${line.id}${line.name ? ` ${line.name}` : ''} (${line.kind}): net loss ${formatFixed(figure.netLossM3PerDay, 1)} m³/d, ` +
+      `${lossPerKm === null ? 'not known' : `${formatFixed(lossPerKm, 1)} m³/d ${per}`}` +
+      (figure.method === 'district' ? `; strips alone ${formatFixed(figure.stripNetLossM3PerDay, 1)} m³/d` : '');
     return `<path class="map-${line.kind}" stroke-width="${Math.round(lineWidthPx(lossPerKm, widths) * 10) / 10}" d="${d}"><title>${escapeHtml(title)}</title></path>`;
   };
   const indices = result.lines.map((_, i) => i);
@@ -229,13 +254,15 @@ export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}
     .map(drawLine)
     .join('\n');
   const unpaired = unpairedPathData(result, view, minStepPx);
+  const raster = depthRaster(result, view);
 
   const svg =
     `<svg xmlns="http://www.w3.org/2000/svg" class="district-map" viewBox="0 0 ${view.widthPx} ${view.heightPx}" ` +
     `width="${view.widthPx}" height="${view.heightPx}" role="img" aria-label="Map of strips by risk class and lines by loss per km, grid north up">` +
     `<defs>${stripPatternDefs()}</defs>` +
     `<rect class="map-frame" x="0.5" y="0.5" width="${view.widthPx - 1}" height="${view.heightPx - 1}"/>\n` +
-    `<g class="map-strips">\n${strips}\n</g>\n` +
+    raster +
+    `<g class="map-strips${result.district ? ' over-raster' : ''}">\n${strips}\n</g>\n` +
     (unpaired ? `<path class="map-unpaired" stroke-width="${Math.round(widths.unpairedPx * 10) / 10}" d="${unpaired}"><title>unpaired reaches: neither side faces a partner line</title></path>\n` : '') +
     `<g class="map-lines">\n${drains}\n${canals}\n</g>\n` +
     `${scaleBar(view)}${northArrow(view)}</svg>`;

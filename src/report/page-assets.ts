@@ -44,6 +44,8 @@ h3{font-size:13px;margin:12px 0 4px}
 .key-note{color:var(--muted);font-size:12px;margin:4px 0}
 .map-frame{fill:#fbfbf8;stroke:#999}
 .strip-shape{stroke:#3a3a3a;stroke-width:.4;fill-opacity:.9}
+.over-raster .strip-shape{fill-opacity:.35;stroke-width:.8}
+.map-depth{image-rendering:pixelated;opacity:.8}
 .strip-shape:hover{stroke:#000;stroke-width:2}
 ${STRIP_FILLS}
 .map-canal,.map-drain{fill:none;stroke-linecap:round;stroke-linejoin:round}

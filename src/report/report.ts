@@ -42,7 +42,8 @@ export const ASSUMPTIONS: readonly string[] = [
   'Lines fully penetrate the aquifer and meet it without entry resistance (no lining, no clogged bed); real losses through a silted bed can be much smaller.',
   'Zones are taken in series across each transect, each with one hydraulic conductivity, recharge and ground level.',
   'All elevations (stages, base, ground) are in one vertical datum.',
-  'Only paired, solved line sides are counted: a side with no partner, outside the aquifer or unsolved adds nothing, so the losses are a lower bound.',
+  'Only paired, solved line sides are counted by the strips: a side with no partner, outside the aquifer or unsolved adds nothing to their figures, so the strip losses are a lower bound.',
+  'The district solve (when it ran) takes every line as a fixed head burned into the cells it crosses, with no bed resistance; its figures depend on the cell size (each line carries the change at twice the cell), and no water flows across the aquifer\'s outer edge.',
   'Where the water table reaches the ground, water that would seep out at the surface is not modelled: losses on such strips (ponded) are not reliable.',
 ];
 
@@ -59,22 +60,40 @@ function totalCard(figure: string, what: string): string {
 function summarySection(result: ScreenResult, inputWarnings: string[]): string {
   const { totals, counts, settings } = result;
   const canals = result.lines.filter((line) => line.kind === 'canal').length;
+  const district = result.district;
+  const source = district ? 'district solve' : 'strips alone';
   const cards = [
-    totalCard(`${formatGrouped(totals.lossM3PerDay)} m³/d`, 'seepage loss from the lines that lose water'),
+    totalCard(`${formatGrouped(totals.lossM3PerDay)} m³/d`, `seepage loss from the lines that lose water (${source})`),
     totalCard(`${formatGrouped(totals.lossM3PerYear)} m³/yr`, 'the same loss over a year'),
-    totalCard(`${formatGrouped(totals.gainM3PerDay)} m³/d`, 'taken in from the ground by gaining lines (drains, mostly)'),
+    totalCard(`${formatGrouped(totals.gainM3PerDay)} m³/d`, `taken in from the ground by gaining lines, drains mostly (${source})`),
     totalCard(`${formatGrouped(totals.netM3PerDay)} m³/d`, 'net seepage of all lines, loss less gain'),
+    ...(district
+      ? [
+          totalCard(`${formatGrouped(district.balance.rechargeM3PerDay)} m³/d`, 'recharge over the aquifer (district water balance)'),
+          totalCard(
+            `${district.balance.residualM3PerDay.toPrecision(2)} m³/d`,
+            'water balance residual: recharge + line losses - line gains, no flow across the outer edge',
+          ),
+          totalCard(`${formatGrouped(totals.stripLinesLossM3PerDay)} m³/d`, 'loss of the losing lines by the strips alone, for comparison'),
+        ]
+      : []),
     totalCard(`${formatFixed(totals.pairedM / 1000, 1)} km`, 'line length with at least one side paired'),
     totalCard(`${formatFixed(totals.unpairedM / 1000, 1)} km`, 'line length with neither side paired'),
     totalCard(
       `${formatFixed(totals.solvedSidesM / 1000, 1)} of ${formatFixed(totals.sidesM / 1000, 1)} km`,
-      'line sides solved (each line has two); the rest add no loss',
+      district ? 'line sides the strips solved (the district solve covers every side)' : 'line sides solved (each line has two); the rest add no loss',
     ),
     totalCard(
       `${formatGrouped(totals.riskAreaHa, 1)} ha`,
-      `area where the water table is less than ${escapeHtml(settings.risk.waterloggedDepthM)} m below ground`,
+      `area where the water table is less than ${escapeHtml(settings.risk.waterloggedDepthM)} m below ground (${source}${district ? ', banks left out' : ''})`,
     ),
   ].join('');
+  const method = district
+    ? `<p class="run-line">Losses, gains and areas above come from the district solve: steady 2D flow over the whole aquifer on ${escapeHtml(district.cellM)} m cells ` +
+      `(${formatGrouped(district.grid.columns)} x ${formatGrouped(district.grid.rows)}, ${escapeHtml(district.status)}); each line's figure at twice the cell is in canals.geojson ` +
+      `(coarse_cell_diff_m3_d), and the strips' own figures beside it (strip_net_loss_m3_d). Area by risk class: ` +
+      `${Object.entries(district.areaByRiskHa).map(([risk, ha]) => `${escapeHtml(risk)} ${formatGrouped(ha, 1)} ha`).join(', ')}.</p>`
+    : '<p class="run-line">The district solve did not run (stripsOnly): every figure comes from the strips alone, which miss junctions, line ends and unpaired sides.</p>';
   const riskRows = STRIP_CLASSES.map(
     (kind) =>
       `<tr><td><svg class="key-swatch" width="22" height="14" viewBox="0 0 22 14" aria-hidden="true"><rect x="1" y="1" width="20" height="12" ` +
@@ -87,7 +106,7 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
     ? `<ul class="plain warnings">${allWarnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('')}</ul>`
     : '<p>None.</p>';
   return (
-    `<section id="summary"><h2>District summary</h2><div class="totals-grid">${cards}</div>` +
+    `<section id="summary"><h2>District summary</h2><div class="totals-grid">${cards}</div>${method}` +
     `<h3>Strips by risk class</h3><table class="facts risk-counts"><tbody>${riskRows}` +
     `<tr><td></td><th scope="row">all strips</th><td class="num">${formatGrouped(counts.strips)}</td></tr></tbody></table>` +
     `<p>${formatGrouped(counts.lines)} lines (${formatGrouped(canals)} canals, ${formatGrouped(counts.lines - canals)} drains), ` +

@@ -4,6 +4,7 @@
 import { FACING_PAIRED, FACING_REASON_NAMES, type FacingTable, type StationTable, type Strip } from '../geometry/index.js';
 import { SOLVE_OK, SOLVE_STATUS_NAMES } from '../hydraulics/transect-solver.js';
 import type { LineRecord } from './district-inputs.js';
+import type { DistrictStripFigures } from './district.js';
 import { FLAG_NARROW, FLAG_UNEVEN_BASE, FLAG_ZONE_OVERLAP, NOT_PAIRED, type FacingResults } from './solve-facings.js';
 import { riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 
@@ -34,6 +35,8 @@ export interface StripSummary {
   /** Facing indices of a's and b's transects in this strip. */
   facingsA: Uint32Array;
   facingsB: Uint32Array;
+  /** The district solve's figures inside the strip's polygon; null when it did not run. */
+  district: DistrictStripFigures | null;
 }
 
 export interface LineSummary {
@@ -120,6 +123,7 @@ export function summariseStrip(
     flags,
     facingsA,
     facingsB,
+    district: null,
   };
 }
 

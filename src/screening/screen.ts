@@ -17,13 +17,33 @@ import {
 } from '../geometry/index.js';
 import { boundsOfParts, chooseWorkCrs, projectPositions, type WorkCrs } from '../geometry/work-crs.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
-import { summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
+import { lossPerKm, summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
+import { districtSolve, type DistrictResult } from './district.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { NOT_PAIRED, solveFacings, type FacingResults } from './solve-facings.js';
 import { SOLVE_OK } from '../hydraulics/transect-solver.js';
 import { RISK_CLASSES, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 
+/** Where the figures a planner reads came from: the 2D district solve, or the strips alone. */
+export type FigureMethod = 'district' | 'strips';
+
+/** The figures of one line that a planner reads, and the strip figures beside them. */
+export interface LineFigure {
+  /** Net loss (m^3/d): the district solve's when it ran and the line holds cells of its grid, else the strips'. */
+  netLossM3PerDay: number;
+  /** Per km: of the whole line for the district solve, of paired length for the strips (m^3/d/km). */
+  netLossM3PerDayKm: number;
+  method: FigureMethod;
+  /** The strips' figure (over paired, solved sides only). */
+  stripNetLossM3PerDay: number;
+  stripNetLossM3PerDayKm: number;
+  /** The district solve at twice the cell less the figure (m^3/d): its numerical uncertainty; NaN from strips. */
+  coarseDiffM3PerDay: number;
+}
+
 export interface DistrictTotals {
+  /** Where loss, gain, net and risk area come from. */
+  method: FigureMethod;
   /** What the lines that lose water lose to the ground, summed over those lines (m^3/d). */
   lossM3PerDay: number;
   lossM3PerYear: number;
@@ -38,7 +58,13 @@ export interface DistrictTotals {
   sidesM: number;
   /** Sum over strips of the positive losses of both lines (ranking.csv's loss_m3_d), m^3/d. */
   stripLossM3PerDay: number;
+  /** Loss, gain and net of the lines by the strips alone (m^3/d), beside the district's. */
+  stripLinesLossM3PerDay: number;
+  stripLinesGainM3PerDay: number;
+  /** Area with the water table less than the waterlogging depth below ground (ha): the district raster's when it ran. */
   riskAreaHa: number;
+  /** The same summed over strips. */
+  stripRiskAreaHa: number;
   stripsByRisk: Record<RiskClass | 'unsolved', number>;
 }
 
@@ -68,6 +94,10 @@ export interface ScreenResult {
   /** Strips in ranked order. */
   strips: StripSummary[];
   lineSummaries: LineSummary[];
+  /** Per line, the figures a planner reads (district solve when it ran) with the strips' beside them. */
+  lineFigures: LineFigure[];
+  /** The district solve; null when skipped (stripsOnly). */
+  district: DistrictResult | null;
   totals: DistrictTotals;
   counts: ScreenCounts;
 }
@@ -116,6 +146,27 @@ export function screenDistrict(
   const lineSummaries = summariseLines(lines, lineLengthsM, stations, facings, results);
   onProgress('strips', 1, 1);
 
+  let district: DistrictResult | null = null;
+  if (settings.stripsOnly) {
+    warnings.push(
+      'district solve skipped (stripsOnly): every loss and depth comes from the strips alone, which miss junctions, line ends and unpaired sides',
+    );
+  } else {
+    onProgress('district solve', 0, 1);
+    district = districtSolve(
+      { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM) },
+      settings,
+    );
+    warnings.push(...district.warnings);
+    district.strips.forEach((figures, i) => {
+      const strip = strips[i];
+      strip.district = figures;
+      if (Math.abs(strip.minDepthM - figures.minDepthM) > settings.districtDepthToleranceM) strip.flags.push('district-differs');
+    });
+    onProgress('district solve', 1, 1);
+  }
+  const lineFigures = lines.map((_, i) => lineFigure(lineSummaries[i], district, i));
+
   return {
     settings,
     crs,
@@ -130,7 +181,9 @@ export function screenDistrict(
     results,
     strips,
     lineSummaries,
-    totals: districtTotals(lineSummaries, strips),
+    lineFigures,
+    district,
+    totals: districtTotals(lineSummaries, lineFigures, strips, district),
     counts: {
       lines: lines.length,
       zones: zones.length,
@@ -165,12 +218,42 @@ function descendingNaNLast(a: number, b: number): number {
   return b - a;
 }
 
-function districtTotals(summaries: LineSummary[], strips: StripSummary[]): DistrictTotals {
-  let loss = 0, gain = 0, paired = 0, unpaired = 0, riskArea = 0, solvedSides = 0, sides = 0, stripLoss = 0;
-  for (const summary of summaries) {
+function lineFigure(summary: LineSummary, district: DistrictResult | null, line: number): LineFigure {
+  const stripPerKm = lossPerKm(summary);
+  const districtLoss = district ? district.lineLossM3PerDay[line] : NaN;
+  if (district && Number.isFinite(districtLoss)) {
+    return {
+      netLossM3PerDay: districtLoss,
+      netLossM3PerDayKm: summary.lengthM > 0 ? districtLoss / (summary.lengthM / 1000) : NaN,
+      method: 'district',
+      stripNetLossM3PerDay: summary.netLossM3PerDay,
+      stripNetLossM3PerDayKm: stripPerKm,
+      coarseDiffM3PerDay: district.lineLossCoarseM3PerDay[line] - districtLoss,
+    };
+  }
+  return {
+    netLossM3PerDay: summary.netLossM3PerDay,
+    netLossM3PerDayKm: stripPerKm,
+    method: 'strips',
+    stripNetLossM3PerDay: summary.netLossM3PerDay,
+    stripNetLossM3PerDayKm: stripPerKm,
+    coarseDiffM3PerDay: NaN,
+  };
+}
+
+function districtTotals(summaries: LineSummary[], figures: LineFigure[], strips: StripSummary[], district: DistrictResult | null): DistrictTotals {
+  let loss = 0, gain = 0, stripLinesLoss = 0, stripLinesGain = 0, paired = 0, unpaired = 0, riskArea = 0, solvedSides = 0, sides = 0, stripLoss = 0;
+  for (let i = 0; i < summaries.length; i++) {
+    const summary = summaries[i];
     // a line with no solved side has no loss to add (NaN): neither loss nor gain
-    if (summary.netLossM3PerDay > 0) loss += summary.netLossM3PerDay;
-    else if (summary.netLossM3PerDay < 0) gain -= summary.netLossM3PerDay;
+    if (summary.netLossM3PerDay > 0) stripLinesLoss += summary.netLossM3PerDay;
+    else if (summary.netLossM3PerDay < 0) stripLinesGain -= summary.netLossM3PerDay;
+    // with the district solve, its figures only: a line it did not reach adds nothing (and is warned of)
+    const figure = figures[i];
+    if (!district || figure.method === 'district') {
+      if (figure.netLossM3PerDay > 0) loss += figure.netLossM3PerDay;
+      else if (figure.netLossM3PerDay < 0) gain -= figure.netLossM3PerDay;
+    }
     paired += summary.pairedM;
     unpaired += summary.unpairedM;
     solvedSides += summary.solvedSidesM;
@@ -184,6 +267,7 @@ function districtTotals(summaries: LineSummary[], strips: StripSummary[]): Distr
     stripsByRisk[strip.risk ?? 'unsolved']++;
   }
   return {
+    method: district ? 'district' : 'strips',
     lossM3PerDay: loss,
     lossM3PerYear: m3PerDayToM3PerYear(loss),
     gainM3PerDay: gain,
@@ -193,7 +277,10 @@ function districtTotals(summaries: LineSummary[], strips: StripSummary[]): Distr
     solvedSidesM: solvedSides,
     sidesM: sides,
     stripLossM3PerDay: stripLoss,
-    riskAreaHa: riskArea,
+    stripLinesLossM3PerDay: stripLinesLoss,
+    stripLinesGainM3PerDay: stripLinesGain,
+    riskAreaHa: district ? district.shallowAreaHa : riskArea,
+    stripRiskAreaHa: riskArea,
     stripsByRisk,
   };
 }

@@ -1,4 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest';
+import { formatGrouped } from '../../src/output/format.js';
 import { FACING_PAIRED } from '../../src/geometry/index.js';
 import { rankingTable, stripProperties } from '../../src/output/layers.js';
 import { escapeHtml } from '../../src/report/escape.js';
@@ -49,7 +50,9 @@ describe('renderReport on the demo district', () => {
     const urls = [...html.matchAll(/https?:\/\/[^\s"'<>)]*/g)].map((m) => m[0]);
     expect(urls.length).toBeGreaterThan(0);
     expect(new Set(urls)).toEqual(new Set(['http://www.w3.org/2000/svg']));
-    expect(html).not.toMatch(/<link\b|<img\b|<iframe\b|@import|src=|href=/i);
+    // the one href is the depth raster's inline PNG, which the CSP's img-src data: allows
+    expect(html).not.toMatch(/<link\b|<img\b|<iframe\b|@import|src=|href=(?!"data:image\/png;base64,[A-Za-z0-9+/=]+")/i);
+    expect(count(html, /href=/g)).toBe(1);
     expect(html).toMatch(/<meta http-equiv="Content-Security-Policy" content="default-src 'none';/);
     expect(count(html, /<script\b/g)).toBe(1);
   });
@@ -92,9 +95,16 @@ describe('renderReport on the demo district', () => {
   it('states the totals, the classes, the settings, the inputs and the cautions', () => {
     const byRisk = result.totals.stripsByRisk;
     expect(byRisk).toEqual({ unsolved: 0, ponded: 4, waterlogged: 19, potential: 6, safe: 2 });
-    // 12444.5 m3/d, grouped with a thin space
-    expect(html).toContain('12\u2009445 m³/d');
-    expect(html).toContain('4\u2009545\u2009366 m³/yr');
+    // the strips alone: 12444.5 m3/d, grouped with a thin space, shown for comparison
+    expect(html).toContain('12\u2009445 m³/d</span><span class="what">loss of the losing lines by the strips alone');
+    // the totals a planner reads come from the district solve, whose lines take in, net, what
+    // falls on the aquifer as recharge: no water crosses its outer edge (mass balance [derived])
+    const district = result.district!;
+    expect(result.totals.method).toBe('district');
+    expect(result.totals.netM3PerDay / -district.balance.rechargeM3PerDay).toBeCloseTo(1, 6);
+    expect(html).toContain(`${formatGrouped(result.totals.lossM3PerYear)} m³/yr`);
+    expect(html).toMatch(/seepage loss from the lines that lose water \(district solve\)/);
+    expect(html).toContain('<image class="map-depth"');
     expect(html).toContain('105.3 km');
     expect(html).toContain('16.1 km');
     for (const [kind, label] of [['ponded', 'ponded'], ['waterlogged', 'waterlogged'], ['potential', 'potentially waterlogged'], ['safe', 'safe']] as const) {

@@ -100,7 +100,7 @@ describe('doab screen on lines whose ids look like formulas', () => {
   it('writes only inside --out, every file complete, and leaves the inputs as they were', () => {
     const after = hashTree(dir);
     const outputs = Object.keys(after).filter((path) => path.startsWith('out/'));
-    expect(outputs.sort()).toEqual(['out/canals.geojson', 'out/ranking.csv', 'out/report.html', 'out/run.json', 'out/strips.geojson']);
+    expect(outputs.sort()).toEqual(['out/canals.geojson', 'out/depth.tif', 'out/ranking.csv', 'out/report.html', 'out/run.json', 'out/strips.geojson', 'out/water-table.tif']);
     const inputsAfter = Object.fromEntries(Object.entries(after).filter(([path]) => !path.startsWith('out/')));
     expect(inputsAfter).toEqual(before);
     expect(readJson(join(out, 'run.json')).inputs.canals.sha256).toBe(createHash('sha256').update(readFileSync(join(inputs, 'canals.geojson'))).digest('hex'));

@@ -1,0 +1,348 @@
+// The district solve joined to a screening: zones and lines (already in metres) to a grid, the 2D
+// steady Dupuit-Forchheimer solve over it, and back to figures a planner reads: each line's net
+// loss (both sides, ends and junctions), the water balance, the water-table and depth rasters, the
+// area in each risk class, and the district's figures inside every strip. The same solve at twice
+// the cell gives each line's numerical uncertainty. Geometry and hydraulics meet only here.
+import { burnLines, type BurnedLines } from '../geometry/grid-burn.js';
+import { fillZones, polygonCells } from '../geometry/grid-fill.js';
+import { gridOver, gridSize, zonesExtent, type Grid } from '../geometry/grid.js';
+import type { LineTable } from '../geometry/lines.js';
+import type { ZonePolygons } from '../geometry/zones.js';
+import { CELL_FIXED, CELL_FREE, CELL_OUTSIDE, solveDistrict, type DistrictGrid, type DistrictSolveStatus } from '../hydraulics/district-solver.js';
+import { UsageError } from '../shared/errors.js';
+import { RISK_CLASSES, riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
+import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
+
+/**
+ * Bytes the district solve holds per cell of its grid: the solver's arrays (about 110, measured by
+ * bench/district-solver.bench.ts), the grid's inputs (33), zones and burned lines (24), the
+ * heads and rasters (16) and masks (6), and the solve at twice the cell (a quarter as many), rounded up.
+ */
+export const DISTRICT_BYTES_PER_CELL = 250;
+/** The cell is doubled at most this many times to fit the memory budget; beyond it the run is refused. */
+export const MAX_CELL_DOUBLINGS = 3;
+
+export interface DistrictInputs {
+  lines: LineRecord[];
+  zones: ZoneRecord[];
+  lineTable: LineTable;
+  lineLengthsM: Float64Array;
+  zonePolygons: ZonePolygons;
+  /** Strip rings in metres, for the district's figures inside each strip. */
+  stripRings: Float64Array[];
+}
+
+export interface DistrictStripFigures {
+  /** Smallest depth inside the strip, banks left out (m); NaN when no cell counts. */
+  minDepthM: number;
+  /** Area inside the strip where the depth is less than the waterlogging depth (ha). */
+  shallowAreaHa: number;
+  risk: RiskClass | null;
+}
+
+export interface DistrictBalance {
+  /** Recharge over the aquifer (m^3/d; negative for a net loss to evaporation or pumping). */
+  rechargeM3PerDay: number;
+  /** What losing lines give the aquifer, and gaining lines take from it (both >= 0, m^3/d). */
+  lineLossM3PerDay: number;
+  lineGainM3PerDay: number;
+  /** recharge + loss - gain: 0 for an exact solve (m^3/d); there is no flow across the outer edge. */
+  residualM3PerDay: number;
+  /** |residual| over the largest of the three terms. */
+  residualRelative: number;
+}
+
+export interface DistrictResult {
+  grid: Grid;
+  /** The cell asked for, and the cell used (larger when the memory budget called for it), m. */
+  requestedCellM: number;
+  cellM: number;
+  status: DistrictSolveStatus;
+  linearIterations: number;
+  picardIterations: number;
+  /** Water table per cell (m; NaN outside the aquifer); row 0 is the southernmost. */
+  waterTableM: Float64Array;
+  /** Ground minus water table per cell (m; NaN outside). */
+  depthM: Float64Array;
+  /** CELL_OUTSIDE, CELL_FREE or CELL_FIXED per cell. */
+  cellKind: Uint8Array;
+  /** Each line's net loss (m^3/d, positive when it loses); NaN for a line with no cell in the aquifer. */
+  lineLossM3PerDay: Float64Array;
+  /** The same at twice the cell; the difference is the figure's numerical uncertainty. */
+  lineLossCoarseM3PerDay: Float64Array;
+  coarseCellM: number;
+  /** Number of cells each line holds. */
+  lineCells: Uint32Array;
+  balance: DistrictBalance;
+  /** Area of each risk class, and of line and bank cells left out of the classes (ha). */
+  areaByRiskHa: Record<RiskClass, number>;
+  lineAndBankAreaHa: number;
+  /** Area with the water table less than the waterlogging depth below ground (ha). */
+  shallowAreaHa: number;
+  strips: DistrictStripFigures[];
+  dryCells: number;
+  warnings: string[];
+}
+
+/** The cell the memory budget allows: the asked cell, doubled up to MAX_CELL_DOUBLINGS times; refuses beyond. */
+export function chooseCell(extent: readonly [number, number, number, number], settings: ScreenSettings): { cellM: number; cells: number } {
+  const budgetBytes = settings.districtMemoryMB * 1024 * 1024;
+  let cellM = settings.districtCellM;
+  for (let doubling = 0; doubling <= MAX_CELL_DOUBLINGS; doubling++, cellM *= 2) {
+    const { cells } = gridSize(extent, cellM);
+    if (cells * DISTRICT_BYTES_PER_CELL <= budgetBytes) return { cellM, cells };
+  }
+  const asked = gridSize(extent, settings.districtCellM);
+  const neededMB = Math.ceil((asked.cells * DISTRICT_BYTES_PER_CELL) / 2 ** 20);
+  const coarsest = settings.districtCellM * 2 ** MAX_CELL_DOUBLINGS;
+  throw new UsageError(
+    `districtMemoryMB: the district solve over ${formatCount(asked.cells)} cells of ${settings.districtCellM} m needs about ${neededMB} MB, ` +
+      `more than the budget of ${settings.districtMemoryMB} MB even at a ${coarsest} m cell; raise --memory-mb, set a coarser --cell, or use --strips-only`,
+    'districtMemoryMB',
+  );
+}
+
+function formatCount(n: number): string {
+  return Number.isFinite(n) ? String(Math.round(n)) : 'infinitely many';
+}
+
+interface GridSolve {
+  grid: Grid;
+  cellKind: Uint8Array;
+  groundM: Float64Array;
+  burned: BurnedLines;
+  waterTableM: Float64Array;
+  fixedCells: Uint32Array;
+  exchangeM3PerDay: Float64Array;
+  status: DistrictSolveStatus;
+  linearIterations: number;
+  picardIterations: number;
+  totalRechargeM3PerDay: number;
+  dryCells: number;
+  /** Aquifer cells that no line reaches (no steady state): left out, area in m^2. */
+  cutOffAreaM2: number;
+  /** Line cells whose stage is at or below the base under them. */
+  dryLineCells: number;
+}
+
+function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
+  const { lines, zones, lineTable, lineLengthsM, zonePolygons } = inputs;
+  const grid = gridOver(zonesExtent(zonePolygons), cellM);
+  const zoneOf = fillZones(grid, zonePolygons).zone;
+  const burned = burnLines(grid, lineTable);
+  const n = grid.cells;
+  const cellKind = new Uint8Array(n);
+  const kMPerDay = new Float64Array(n), rechargeMPerDay = new Float64Array(n), baseM = new Float64Array(n), fixedHeadM = new Float64Array(n);
+  const groundM = new Float64Array(n).fill(NaN);
+  let dryLineCells = 0;
+  for (let g = 0; g < n; g++) {
+    const z = zoneOf[g];
+    if (z < 0) continue;
+    const zone = zones[z];
+    kMPerDay[g] = zone.kMPerDay;
+    rechargeMPerDay[g] = zone.rechargeMPerDay;
+    baseM[g] = zone.baseM;
+    groundM[g] = zone.groundM;
+    const l = burned.line[g];
+    if (l >= 0) {
+      cellKind[g] = CELL_FIXED;
+      fixedHeadM[g] = stageAtChainage(lines[l], burned.chainageM[g], lineLengthsM[l]);
+      if (fixedHeadM[g] <= zone.baseM) dryLineCells++;
+    } else cellKind[g] = CELL_FREE;
+  }
+  const cutOff = leaveOutUnreached(grid, cellKind);
+  const districtGrid: DistrictGrid = { columns: grid.columns, rows: grid.rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM };
+  const solution = solveDistrict(districtGrid);
+  return {
+    grid,
+    cellKind,
+    groundM,
+    burned,
+    waterTableM: solution.headM,
+    fixedCells: solution.fixedCells,
+    exchangeM3PerDay: solution.exchangeM3PerDay,
+    status: solution.status,
+    linearIterations: solution.linearIterations,
+    picardIterations: solution.picardIterations,
+    totalRechargeM3PerDay: solution.totalRechargeM3PerDay,
+    dryCells: solution.dryCellCount,
+    cutOffAreaM2: cutOff * cellM * cellM,
+    dryLineCells,
+  };
+}
+
+/** Free cells joined to no line cell have no steady water table: marks them outside; returns how many. */
+function leaveOutUnreached(grid: Grid, cellKind: Uint8Array): number {
+  const { columns, cells } = grid;
+  const reached = new Uint8Array(cells);
+  const stack = new Int32Array(cells);
+  let top = 0;
+  for (let g = 0; g < cells; g++) if (cellKind[g] === CELL_FIXED) { reached[g] = 1; stack[top++] = g; }
+  while (top > 0) {
+    const g = stack[--top];
+    const col = g % columns;
+    for (let side = 0; side < 4; side++) {
+      let gj: number;
+      if (side === 0) { if (col === 0) continue; gj = g - 1; }
+      else if (side === 1) { if (col + 1 === columns) continue; gj = g + 1; }
+      else if (side === 2) { if (g < columns) continue; gj = g - columns; }
+      else { if (g + columns >= cells) continue; gj = g + columns; }
+      if (cellKind[gj] === CELL_FREE && !reached[gj]) { reached[gj] = 1; stack[top++] = gj; }
+    }
+  }
+  let cutOff = 0;
+  for (let g = 0; g < cells; g++) {
+    if (cellKind[g] === CELL_FREE && !reached[g]) { cellKind[g] = CELL_OUTSIDE; cutOff++; }
+  }
+  return cutOff;
+}
+
+function lineLosses(solve: GridSolve, lineCount: number): { loss: Float64Array; cells: Uint32Array } {
+  const loss = new Float64Array(lineCount);
+  const cells = new Uint32Array(lineCount);
+  // fixed cells ascend, so every line's sum runs in one fixed order
+  for (let k = 0; k < solve.fixedCells.length; k++) {
+    const l = solve.burned.line[solve.fixedCells[k]];
+    loss[l] += solve.exchangeM3PerDay[k];
+    cells[l]++;
+  }
+  for (let l = 0; l < lineCount; l++) if (cells[l] === 0) loss[l] = NaN;
+  return { loss, cells };
+}
+
+/**
+ * Cells a bank covers: within bankWidthM of a line, taken as within bankWidthM + half a cell
+ * diagonal of a line cell's centre (the line passes somewhere in that cell). Line cells included.
+ */
+function bankMask(grid: Grid, cellKind: Uint8Array, bankWidthM: number): Uint8Array {
+  const { columns, rows, cellM } = grid;
+  const mask = new Uint8Array(grid.cells);
+  const reachM = bankWidthM + (cellM * Math.SQRT2) / 2;
+  const r = Math.floor(reachM / cellM);
+  for (let g = 0; g < grid.cells; g++) {
+    if (cellKind[g] !== CELL_FIXED) continue;
+    mask[g] = 1;
+    if (bankWidthM === 0) continue;
+    const row = Math.floor(g / columns), col = g % columns;
+    for (let dr = -r; dr <= r; dr++) {
+      const rr = row + dr;
+      if (rr < 0 || rr >= rows) continue;
+      for (let dc = -r; dc <= r; dc++) {
+        const cc = col + dc;
+        if (cc < 0 || cc >= columns) continue;
+        if (Math.hypot(dr, dc) * cellM <= reachM) mask[rr * columns + cc] = 1;
+      }
+    }
+  }
+  return mask;
+}
+
+/**
+ * Solves the district at the cell the settings and memory budget allow, and at twice that cell;
+ * throws a UsageError naming districtMemoryMB before allocating a grid that would not fit.
+ */
+export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings): DistrictResult {
+  const extent = zonesExtent(inputs.zonePolygons);
+  const { cellM } = chooseCell(extent, settings);
+  const warnings: string[] = [];
+  if (cellM !== settings.districtCellM) {
+    warnings.push(
+      `district solve at a ${cellM} m cell, coarser than the ${settings.districtCellM} m asked (districtCellM): ` +
+        `the grid at ${settings.districtCellM} m would need more than the ${settings.districtMemoryMB} MB of districtMemoryMB`,
+    );
+  }
+  const fine = solveAt(inputs, cellM);
+  const coarse = solveAt(inputs, 2 * cellM);
+  const lineCount = inputs.lines.length;
+  const { loss, cells: lineCells } = lineLosses(fine, lineCount);
+  const lineLossCoarseM3PerDay = lineLosses(coarse, lineCount).loss;
+
+  const { grid, cellKind, groundM, waterTableM } = fine;
+  const areaHa = (cellM * cellM) / 10_000;
+  const depthM = new Float64Array(grid.cells).fill(NaN);
+  for (let g = 0; g < grid.cells; g++) if (cellKind[g] !== CELL_OUTSIDE) depthM[g] = groundM[g] - waterTableM[g];
+  // outside cells left out of the solve (cut off from every line) have no water table
+  for (let g = 0; g < grid.cells; g++) if (cellKind[g] === CELL_OUTSIDE) waterTableM[g] = NaN;
+
+  const banks = bankMask(grid, cellKind, settings.bankWidthM);
+  const areaByRiskHa = Object.fromEntries(RISK_CLASSES.map((risk) => [risk, 0])) as Record<RiskClass, number>;
+  let lineAndBankAreaHa = 0, shallowAreaHa = 0;
+  for (let g = 0; g < grid.cells; g++) {
+    if (cellKind[g] === CELL_OUTSIDE) continue;
+    if (banks[g]) { lineAndBankAreaHa += areaHa; continue; }
+    areaByRiskHa[riskClass(depthM[g], settings.risk)] += areaHa;
+    if (depthM[g] < settings.risk.waterloggedDepthM) shallowAreaHa += areaHa;
+  }
+
+  const stripCells = polygonCells(grid, inputs.stripRings.map((ring) => [ring]));
+  const strips: DistrictStripFigures[] = inputs.stripRings.map((_, s) => {
+    let minDepthM = Infinity, shallow = 0;
+    for (let k = stripCells.start[s]; k < stripCells.start[s + 1]; k++) {
+      const g = stripCells.cell[k];
+      if (cellKind[g] !== CELL_FREE || banks[g]) continue;
+      if (depthM[g] < minDepthM) minDepthM = depthM[g];
+      if (depthM[g] < settings.risk.waterloggedDepthM) shallow += areaHa;
+    }
+    const counted = Number.isFinite(minDepthM);
+    return { minDepthM: counted ? minDepthM : NaN, shallowAreaHa: shallow, risk: counted ? riskClass(minDepthM, settings.risk) : null };
+  });
+
+  let lossSum = 0, gainSum = 0;
+  for (let k = 0; k < fine.exchangeM3PerDay.length; k++) {
+    const e = fine.exchangeM3PerDay[k];
+    if (e > 0) lossSum += e;
+    else gainSum -= e;
+  }
+  const residual = fine.totalRechargeM3PerDay + lossSum - gainSum;
+  const largest = Math.max(Math.abs(fine.totalRechargeM3PerDay), lossSum, gainSum);
+  const balance: DistrictBalance = {
+    rechargeM3PerDay: fine.totalRechargeM3PerDay,
+    lineLossM3PerDay: lossSum,
+    lineGainM3PerDay: gainSum,
+    residualM3PerDay: residual,
+    residualRelative: largest > 0 ? Math.abs(residual) / largest : 0,
+  };
+
+  if (fine.status !== 'converged') warnings.push(`district solve did not converge (${fine.status}): its figures are not reliable`);
+  if (coarse.status !== 'converged') warnings.push(`district solve at twice the cell did not converge (${coarse.status}): the uncertainty of line losses is not reliable`);
+  if (balance.residualRelative > 1e-6) warnings.push(`district water balance does not close: residual ${balance.residualM3PerDay.toPrecision(3)} m3/d`);
+  if (fine.cutOffAreaM2 > 0) {
+    warnings.push(`${(fine.cutOffAreaM2 / 10_000).toFixed(1)} ha of aquifer reach no line and were left out of the district solve (no steady water table without a line)`);
+  }
+  if (areaByRiskHa.ponded > 0) {
+    warnings.push(
+      `${areaByRiskHa.ponded.toFixed(1)} ha where the district solve puts the water table at or above ground: ` +
+        'water that would seep out at the surface is not modelled, so the water table there and the gains of lines nearby are overestimated',
+    );
+  }
+  if (fine.dryCells > 0) warnings.push(`${fine.dryCells} cells of the district solve are dry (the water table down to the base): Dupuit-Forchheimer does not describe them`);
+  if (fine.dryLineCells > 0) warnings.push(`${fine.dryLineCells} line cells have a stage at or below the aquifer base: they hold a dry line`);
+  const missing = inputs.lines.filter((_, l) => lineCells[l] === 0).map((line) => line.id);
+  if (missing.length > 0) {
+    warnings.push(`${missing.length} line${missing.length === 1 ? '' : 's'} hold no cell of the district grid inside the aquifer (${missing.slice(0, 5).join(', ')}${missing.length > 5 ? ', ...' : ''}): their figures come from the strips`);
+  }
+  if (fine.burned.sharedCells > 0) warnings.push(`${fine.burned.sharedCells} district cells are passed by more than one line (junctions, close lines): each went to the nearest line`);
+
+  return {
+    grid,
+    requestedCellM: settings.districtCellM,
+    cellM,
+    status: fine.status,
+    linearIterations: fine.linearIterations,
+    picardIterations: fine.picardIterations,
+    waterTableM,
+    depthM,
+    cellKind,
+    lineLossM3PerDay: loss,
+    lineLossCoarseM3PerDay,
+    coarseCellM: 2 * cellM,
+    lineCells,
+    balance,
+    areaByRiskHa,
+    lineAndBankAreaHa,
+    shallowAreaHa,
+    strips,
+    dryCells: fine.dryCells,
+    warnings,
+  };
+}
