@@ -12,6 +12,7 @@ import { CELL_FIXED, CELL_FREE, CELL_OUTSIDE, solveDistrict, type DistrictGrid, 
 import { UsageError } from '../shared/errors.js';
 import { RISK_CLASSES, riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
+import { lineFaceScales } from './line-faces.js';
 
 /**
  * Bytes the district solve holds per cell of its grid: the solver's arrays (about 110, measured by
@@ -151,7 +152,9 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     } else cellKind[g] = CELL_FREE;
   }
   const cutOff = leaveOutUnreached(grid, cellKind);
-  const districtGrid: DistrictGrid = { columns: grid.columns, rows: grid.rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM };
+  // each line where it runs in its cells, not at their centres (the subgrid correction)
+  const fixedFaceScale = lineFaceScales(grid, cellKind, burned, lineTable);
+  const districtGrid: DistrictGrid = { columns: grid.columns, rows: grid.rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale };
   const solution = solveDistrict(districtGrid);
   return {
     grid,

@@ -158,6 +158,7 @@ export function screenDistrict(
       settings,
     );
     warnings.push(...district.warnings);
+    if (crs.epsg === null) warnings.push(`the rasters are written with no EPSG code: the work CRS is a proj4 string (${crs.proj4Def}), kept in their citation and in run.json`);
     district.strips.forEach((figures, i) => {
       const strip = strips[i];
       strip.district = figures;
