@@ -10,7 +10,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { configFromValue, defaultConfig, parseConfig, type RunConfig } from './input/config.js';
 import { loadDistrict, type LoadedDistrict } from './input/load-district.js';
-import { filesOfInput } from './input/read-features.js';
+import { filesOfInput, hashInput } from './input/read-features.js';
 import { readTextFile } from './input/read-text.js';
 import type { OutputFile } from './output/atomic-write.js';
 import { writeAllOrNothing } from './output/atomic-write.js';
@@ -23,12 +23,13 @@ import { CAUTION, runRecord } from './output/run-record.js';
 import { orientFromLineA, renderProfileSvg } from './report/profile-svg.js';
 import { renderReport } from './report/report.js';
 import { keyFacing, profileOfFacing, type Profile } from './screening/profile.js';
+import { checkRunBudget } from './screening/budget.js';
 import { screenDistrict, type ProgressListener, type ScreenResult } from './screening/screen.js';
 import type { StripSummary } from './screening/aggregate.js';
 import { DataError, errorsOf, formatProblem, InputProblems, type Problem } from './shared/errors.js';
 import { VERSION } from './shared/version.js';
 
-export { DataError, UsageError, InputProblems, errorsOf, problemLines, formatProblem, describePlace, type Problem, type DataProblemPlace } from './shared/errors.js';
+export { DataError, UsageError, InputProblems, errorsOf, problemLines, PROBLEMS_SHOWN, formatProblem, describePlace, type Problem, type DataProblemPlace } from './shared/errors.js';
 export {
   SETTINGS,
   SETTING_KEYS,
@@ -58,9 +59,9 @@ export { checkOutputFolder, realPathOf } from './output/output-folder.js';
 export { profileFileName } from './output/profile-table.js';
 export { writeAllOrNothing, type OutputFile } from './output/atomic-write.js';
 export { CAUTION } from './output/run-record.js';
-export { summaryText } from './output/summary.js';
 export { districtRasters, RASTER_NAMES, RASTER_NODATA } from './output/rasters.js';
 export type { DistrictResult, DistrictBalance, DistrictStripFigures } from './screening/district.js';
+export { summaryText } from './output/summary.js';
 export { renderReport, type ReportMeta } from './report/report.js';
 export { renderProfileSvg, peakLabelText } from './report/profile-svg.js';
 
@@ -88,6 +89,7 @@ export function stoppingProblems(district: LoadedDistrict, options: { skipInvali
 export function screenLoaded(district: LoadedDistrict, config: RunConfig, options: ScreenOptions = {}): ScreenResult {
   const stopping = stoppingProblems(district, options);
   if (stopping) throw new InputProblems(stopping);
+  checkRunBudget(district.lines, config.settings);
   return screenDistrict(district.lines, district.zones, config.settings, options.onProgress);
 }
 
@@ -205,15 +207,19 @@ export async function profileFromRun(runDir: string, stripId: string): Promise<S
       );
     }
   }
-  const district = await loadDistrict(canals.path, aquifer.path, config);
-  for (const [input, file] of [[canals, district.canals], [aquifer, district.aquifer]] as const) {
-    if (file && file.sha256 !== input.sha256) {
+  // the bytes are checked against the record before anything reads them as data, so a record that
+  // points at another file (a system file, say) never has it parsed or quoted
+  for (const input of [canals, aquifer]) {
+    const { maxInputMB, maxUnzippedMB, maxZipRatio } = config.settings;
+    const sha256 = hashInput(input.path, { maxInputMB, maxUnzippedMB, maxZipRatio });
+    if (sha256 !== input.sha256) {
       throw new DataError(
         { file: input.path },
-        `changed since the run in ${recordPath} (SHA-256 now ${file.sha256}, recorded ${input.sha256}); screen it again before drawing a profile`,
+        `changed since the run in ${recordPath} (SHA-256 now ${sha256}, recorded ${input.sha256}); screen it again before drawing a profile`,
       );
     }
   }
+  const district = await loadDistrict(canals.path, aquifer.path, config);
   const skipped = Array.isArray(record.skipped_features) ? record.skipped_features.length : 0;
   // the run itself stopped on errors unless it skipped them (--skip-invalid)
   const result = screenLoaded(district, config, { skipInvalid: skipped > 0 });

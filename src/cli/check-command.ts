@@ -1,5 +1,5 @@
 // `doab check`: validate both inputs without computing; print every problem, errors first.
-import { errorsOf, loadDistrict, problemLines } from '../index.js';
+import { errorsOf, loadDistrict, problemLines, PROBLEMS_SHOWN } from '../index.js';
 import type { CliIo } from './io.js';
 import { runConfig } from './screen-command.js';
 
@@ -16,7 +16,7 @@ export async function checkCommand(options: CheckOptions, io: CliIo): Promise<nu
   const district = await loadDistrict(options.canals, options.aquifer, config);
   const errors = errorsOf(district.problems);
   const warnings = district.problems.filter((problem) => problem.severity === 'warning');
-  io.out(problemLines([...errors, ...warnings]));
+  io.out(problemLines([...errors, ...warnings], PROBLEMS_SHOWN));
   io.out(
     `${options.canals}: ${district.canals?.features.length ?? 0} features (${district.lines.length} valid lines); ` +
       `${options.aquifer}: ${district.aquifer?.features.length ?? 0} features (${district.zones.length} valid zones)\n`,

@@ -1,7 +1,7 @@
 // Command-line wiring only: parse options, call the commands, map failures to exit codes
 // (0 done, 1 bad data, 2 bad usage, 3 internal error). Tests call main() or run it as a child process.
 import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
-import { DataError, InputProblems, problemLines, SETTINGS, SETTING_KEYS, UsageError, VERSION, type SettingSpec } from '../index.js';
+import { DataError, InputProblems, problemLines, PROBLEMS_SHOWN, SETTINGS, SETTING_KEYS, UsageError, VERSION, type SettingSpec } from '../index.js';
 import { checkCommand, type CheckOptions } from './check-command.js';
 import { initConfigCommand, type InitConfigOptions } from './init-config-command.js';
 import type { CliIo } from './io.js';
@@ -89,7 +89,7 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
       return error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help' ? 0 : 2;
     }
     if (error instanceof InputProblems) {
-      io.err(problemLines(error.problems));
+      io.err(problemLines(error.problems, PROBLEMS_SHOWN));
       io.err(`doab: stopped: ${error.message}; nothing was written\n`);
       return 1;
     }

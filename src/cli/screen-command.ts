@@ -9,6 +9,7 @@ import {
   loadDistrict,
   stoppingProblems,
   problemLines,
+  PROBLEMS_SHOWN,
   readConfig,
   screenLoaded,
   summaryText,
@@ -48,8 +49,8 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   const stopping = stoppingProblems(district, options);
   if (stopping) throw new InputProblems(stopping);
   const warnings = district.problems.filter((problem) => problem.severity === 'warning');
-  if (warnings.length > 0) log(problemLines(warnings).trimEnd());
-  if (errors.length > 0) log(`skipping ${errors.length} invalid feature${errors.length === 1 ? '' : 's'} (--skip-invalid):\n${problemLines(errors).trimEnd()}`);
+  if (warnings.length > 0) log(problemLines(warnings, PROBLEMS_SHOWN).trimEnd());
+  if (errors.length > 0) log(`skipping ${errors.length} invalid feature${errors.length === 1 ? '' : 's'} (--skip-invalid):\n${problemLines(errors, PROBLEMS_SHOWN).trimEnd()}`);
   log(`read ${district.lines.length} lines from ${options.canals} and ${district.zones.length} zones from ${options.aquifer}`);
   const result = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress });
   for (const warning of result.warnings) log(`warning: ${warning}`);

@@ -4,8 +4,8 @@ import type { StationTable } from './stations.js';
 import { FACING_PAIRED, type FacingTable } from './transects.js';
 
 /**
- * The land between two facing reaches. Line a is the one whose id sorts first (ties: lower
- * index), except for the rare strip made only of b's facings (then stationsB is empty).
+ * The land between two facing reaches. Line a is the one whose first vertex lies further west (then
+ * south; never chosen by id or feature order), except for the rare strip made only of b's facings (then stationsB is empty).
  */
 export interface Strip {
   id: string;
@@ -85,8 +85,9 @@ function findRuns(line: number, side: 0 | 1, from: number, to: number, stations:
 
 /**
  * Groups paired facings into strips, one per facing stretch of each pair of lines; every paired
- * facing ends up in exactly one strip. Ids are `${idA}|${idB}|${k}`, k counting that pair's strips
- * in chainage order, so the same input always gives the same ids.
+ * facing ends up in exactly one strip. Line a of a strip is the one whose first vertex lies further
+ * west (then south), whatever the ids or the order of the features. Ids are `${idA}|${idB}|${k}`, k
+ * counting that pair's strips in chainage order, so the same input always gives the same ids.
  * Example: buildStrips(lines, stations, castTransects(lines, stations, opts))[0].spacingMeanM
  */
 export function buildStrips(lines: LineGeometry[] | LineTable, stations: StationTable, facings: FacingTable, options: StripOptions = {}): Strip[] {
@@ -96,7 +97,10 @@ export function buildStrips(lines: LineGeometry[] | LineTable, stations: Station
   const table = asLineTable(lines);
   const ranges = stationRanges(stations, table.lineCount);
   const ids = table.ids;
-  const first = (a: number, b: number): boolean => ids[a] < ids[b] || (ids[a] === ids[b] && a < b);
+  // which of two facing lines is a: by where the lines lie, never by their ids or the order of the
+  // features, so that renaming or reordering the lines gives the same strips
+  const rank = geometricRank(table);
+  const first = (a: number, b: number): boolean => rank[a] < rank[b];
   const paired = (k: number): boolean => facings.reason[k] === FACING_PAIRED && facings.partner[k] >= 0;
 
   const runsOf = (eligible: (k: number) => boolean): Run[] => {
@@ -104,7 +108,7 @@ export function buildStrips(lines: LineGeometry[] | LineTable, stations: Station
     for (let l = 0; l < table.lineCount; l++) {
       const own = [...findRuns(l, 0, ranges[l], ranges[l + 1], stations, facings, jump, eligible), ...findRuns(l, 1, ranges[l], ranges[l + 1], stations, facings, jump, eligible)];
       own.sort((p, q) => p.startM - q.startM || p.side - q.side);
-      all.push(...own);
+      for (const item of own) all.push(item);
     }
     return all;
   };
@@ -154,6 +158,27 @@ export function buildStrips(lines: LineGeometry[] | LineTable, stations: Station
     strips.push(makeStrip(`${key}|${k}`, r, bs, stations, facings, table));
   }
   return strips;
+}
+
+/**
+ * Each line's place in an order of the lines by their geometry alone: first vertex (west, then south), then
+ * last vertex, then length; ids and feature order break ties only between lines that lie exactly alike.
+ */
+function geometricRank(table: LineTable): Uint32Array {
+  const n = table.lineCount;
+  const key = new Float64Array(5 * n);
+  for (let l = 0; l < n; l++) {
+    const firstVertex = table.partVertexStart[table.linePartStart[l]];
+    const lastVertex = table.partVertexStart[table.linePartStart[l + 1]] - 1;
+    key.set([table.x[firstVertex], table.y[firstVertex], table.x[lastVertex], table.y[lastVertex], table.chainageM[lastVertex]], 5 * l);
+  }
+  const order = Array.from({ length: n }, (_, l) => l).sort((a, b) => {
+    for (let j = 0; j < 5; j++) if (key[5 * a + j] !== key[5 * b + j]) return key[5 * a + j] - key[5 * b + j];
+    return table.ids[a] < table.ids[b] ? -1 : table.ids[a] > table.ids[b] ? 1 : a - b;
+  });
+  const rank = new Uint32Array(n);
+  order.forEach((line, position) => (rank[line] = position));
+  return rank;
 }
 
 function makeStrip(id: string, r: Run, bs: number[], stations: StationTable, f: FacingTable, table: LineTable): Strip {

@@ -1,7 +1,7 @@
 // Read and validate both inputs, collecting every problem: what `doab check` prints and what
 // `doab screen` refuses to go on with (unless told to skip the bad features).
 import { DataError, describePlace, type Problem } from '../shared/errors.js';
-import { readFeatureFile, type InputFile } from './read-features.js';
+import { readFeatureFile, type InputFile, type ReadOptions } from './read-features.js';
 import type { RunConfig } from './config.js';
 import { crossCheck } from '../screening/cross-checks.js';
 import { checkLines, checkZones, type LineRecord, type ZoneRecord } from '../screening/district-inputs.js';
@@ -14,9 +14,9 @@ export interface LoadedDistrict {
   problems: Problem[];
 }
 
-async function readOrProblem(path: string, inputCrs: string | undefined, problems: Problem[]): Promise<InputFile | null> {
+async function readOrProblem(path: string, options: ReadOptions, problems: Problem[]): Promise<InputFile | null> {
   try {
-    const file = await readFeatureFile(path, { inputCrs });
+    const file = await readFeatureFile(path, options);
     for (const warning of file.warnings) problems.push({ severity: 'warning', place: { file: path }, message: warning });
     return file;
   } catch (error) {
@@ -28,23 +28,24 @@ async function readOrProblem(path: string, inputCrs: string | undefined, problem
 
 export async function loadDistrict(canalsPath: string, aquiferPath: string, config: RunConfig): Promise<LoadedDistrict> {
   const problems: Problem[] = [];
-  const inputCrs = config.settings.inputCrs ?? undefined;
-  const canals = await readOrProblem(canalsPath, inputCrs, problems);
-  const aquifer = await readOrProblem(aquiferPath, inputCrs, problems);
+  const { inputCrs, maxInputMB, maxUnzippedMB, maxZipRatio } = config.settings;
+  const options: ReadOptions = { inputCrs: inputCrs ?? undefined, maxInputMB, maxUnzippedMB, maxZipRatio };
+  const canals = await readOrProblem(canalsPath, options, problems);
+  const aquifer = await readOrProblem(aquiferPath, options, problems);
   let lines: LineRecord[] = [];
   let zones: ZoneRecord[] = [];
   if (canals) {
     const checked = checkLines(canalsPath, canals.features, config.rules);
     lines = checked.records;
-    problems.push(...checked.problems);
+    for (const item of checked.problems) problems.push(item);
   }
   if (aquifer) {
     const checked = checkZones(aquiferPath, aquifer.features, config.rules);
     zones = checked.records;
-    problems.push(...checked.problems);
+    for (const item of checked.problems) problems.push(item);
   }
   const cross = crossCheck(lines, zones, { lines: canalsPath, zones: aquiferPath }, config.settings.crs);
-  problems.push(...cross.problems);
+  for (const item of cross.problems) problems.push(item);
   lines = lines.filter((_, i) => !cross.badLines.has(i));
   return { canals, aquifer, lines, zones, problems };
 }

@@ -2,11 +2,12 @@
 // with the bytes' SHA-256 for the run record. GeoJSON, GeoJSON text sequences, shapefiles and
 // zipped shapefiles; the source CRS from the .prj, a legacy `crs` member or --input-crs.
 import { createHash } from 'node:crypto';
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, statSync } from 'node:fs';
 import { basename, dirname, extname, join } from 'node:path';
 import { unzipSync } from 'fflate';
 import * as shapefile from 'shapefile';
 import { DataError } from '../shared/errors.js';
+import { DEFAULT_SETTINGS } from '../shared/settings.js';
 import { parseGeoJsonText } from './read-geojson.js';
 import { resolveSourceCrs, type SourceCrs } from './source-crs.js';
 
@@ -27,7 +28,13 @@ export interface InputFile {
 export interface ReadOptions {
   /** Overrides whatever the file declares. */
   inputCrs?: string;
+  /** Budgets checked before anything is allocated for a file (defaults: the settings table's). */
+  maxInputMB?: number;
+  maxUnzippedMB?: number;
+  maxZipRatio?: number;
 }
+
+const MB = 1024 * 1024;
 
 /** Every file an input path stands for: a shapefile's .shp with the sidecars beside it, or the file itself. */
 export function filesOfInput(path: string): string[] {
@@ -35,7 +42,23 @@ export function filesOfInput(path: string): string[] {
   return [path, ...['.shx', '.dbf', '.prj', '.cpg', '.qix', '.sbn', '.sbx'].map((extension) => sidecar(path, extension)).filter((file): file is string => file !== null)];
 }
 
-function readBytes(path: string, what = 'file'): Buffer {
+function readBytes(path: string, what = 'file', maxInputMB = DEFAULT_SETTINGS.maxInputMB): Buffer {
+  let size: number;
+  try {
+    const stats = statSync(path);
+    // /dev/zero, a pipe or a socket never ends, or ends where it likes: only regular files are inputs
+    if (stats.isDirectory()) throw Object.assign(new Error(), { code: 'EISDIR' });
+    if (!stats.isFile()) throw new DataError({ file: path }, 'not a regular file (a device, pipe or socket); give a file');
+    size = stats.size;
+  } catch (error) {
+    if (error instanceof DataError) throw error;
+    const code = (error as NodeJS.ErrnoException).code;
+    const why = code === 'ENOENT' ? `${what} not found` : code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (${code ?? String(error)})`;
+    throw new DataError({ file: path }, why);
+  }
+  if (size > maxInputMB * MB) {
+    throw new DataError({ file: path }, `is ${(size / MB).toFixed(0)} MB, more than the ${maxInputMB} MB an input may be (setting maxInputMB, --max-input-mb)`);
+  }
   try {
     return readFileSync(path);
   } catch (error) {
@@ -48,13 +71,13 @@ function readBytes(path: string, what = 'file'): Buffer {
 export async function readFeatureFile(path: string, options: ReadOptions = {}): Promise<InputFile> {
   const extension = extname(path).toLowerCase();
   const raw =
-    extension === '.shp' ? readShapefileFromDisk(path) : extension === '.zip' ? readZippedShapefile(path) : null;
+    extension === '.shp' ? readShapefileFromDisk(path, options) : extension === '.zip' ? readZippedShapefile(path, options) : null;
   let file: Omit<InputFile, 'features' | 'sourceCrs' | 'warnings'> & { features: unknown[]; declaredCrs: string | null };
   if (raw) {
     const features = await parseShapefile(raw.label, raw.shp, raw.dbf, raw.encoding);
     file = { path, format: raw.format, sha256: raw.sha256, bytes: raw.bytes, features, declaredCrs: raw.prj };
   } else {
-    const buffer = readBytes(path);
+    const buffer = readBytes(path, 'file', options.maxInputMB);
     if (buffer.length === 0) throw new DataError({ file: path }, 'the file is empty (0 bytes)');
     const parsed = parseGeoJsonText(path, buffer.toString('utf8'));
     file = {
@@ -90,6 +113,14 @@ export async function readFeatureFile(path: string, options: ReadOptions = {}): 
   };
 }
 
+/** The SHA-256 an input file would be recorded with, from its bytes alone: nothing is parsed or quoted. */
+export function hashInput(path: string, options: ReadOptions = {}): string {
+  const extension = extname(path).toLowerCase();
+  if (extension === '.shp') return readShapefileFromDisk(path, options).sha256;
+  if (extension === '.zip') return readZippedShapefile(path, options).sha256;
+  return createHash('sha256').update(readBytes(path, 'file', options.maxInputMB)).digest('hex');
+}
+
 interface RawShapefile {
   label: string;
   format: InputFormat;
@@ -109,11 +140,11 @@ function sidecar(shpPath: string, extension: string): string | null {
   return null;
 }
 
-function readShapefileFromDisk(path: string): RawShapefile {
-  const shp = readBytes(path);
+function readShapefileFromDisk(path: string, options: ReadOptions): RawShapefile {
+  const shp = readBytes(path, 'file', options.maxInputMB);
   const dbfPath = sidecar(path, '.dbf');
   if (!dbfPath) throw new DataError({ file: path }, 'the .dbf file with the attributes is missing beside the .shp (a shapefile needs .shp, .shx and .dbf)');
-  const dbf = readBytes(dbfPath);
+  const dbf = readBytes(dbfPath, 'file', options.maxInputMB);
   const prjPath = sidecar(path, '.prj');
   const cpgPath = sidecar(path, '.cpg');
   const prj = prjPath ? readText(prjPath, readBytes(prjPath)) : null;
@@ -121,14 +152,33 @@ function readShapefileFromDisk(path: string): RawShapefile {
   return finish(path, 'shapefile', shp, dbf, prj, cpg, cpgPath ?? path);
 }
 
-function readZippedShapefile(path: string): RawShapefile {
-  const buffer = readBytes(path);
+function readZippedShapefile(path: string, options: ReadOptions): RawShapefile {
+  const buffer = readBytes(path, 'file', options.maxInputMB);
+  const maxUnzippedMB = options.maxUnzippedMB ?? DEFAULT_SETTINGS.maxUnzippedMB;
+  const maxRatio = options.maxZipRatio ?? DEFAULT_SETTINGS.maxZipRatio;
   let entries: Record<string, Uint8Array>;
+  let declaredBytes = 0;
+  let refused: string | null = null;
   try {
-    entries = unzipSync(new Uint8Array(buffer));
+    // the archive's own directory says what each member expands to: checked before any is expanded
+    entries = unzipSync(new Uint8Array(buffer), {
+      filter: (member) => {
+        if (member.name.startsWith('__MACOSX/') || refused) return false;
+        declaredBytes += member.originalSize;
+        const ratio = member.originalSize / Math.max(member.size, 1);
+        if (ratio > maxRatio) refused = `${member.name} would expand ${ratio.toFixed(0)} times (${(member.originalSize / MB).toFixed(0)} MB from ${member.size} bytes), more than the ${maxRatio} times a member may (setting maxZipRatio): a zip bomb?`;
+        else if (declaredBytes > maxUnzippedMB * MB) refused = `its members would expand to more than the ${maxUnzippedMB} MB an archive may (setting maxUnzippedMB)`;
+        return !refused;
+      },
+    });
   } catch (error) {
+    if (refused) throw new DataError({ file: path }, `refused: ${refused}`);
     throw new DataError({ file: path }, `not a readable zip archive (${(error as Error).message})`);
   }
+  if (refused) throw new DataError({ file: path }, `refused: ${refused}`);
+  // a member whose directory entry lies about its size is bounded by what it declared; check what came out too
+  const expanded = Object.values(entries).reduce((sum, bytes) => sum + bytes.length, 0);
+  if (expanded > maxUnzippedMB * MB) throw new DataError({ file: path }, `refused: its members expand to ${(expanded / MB).toFixed(0)} MB, more than the ${maxUnzippedMB} MB an archive may (setting maxUnzippedMB)`);
   const names = Object.keys(entries).filter((name) => !name.startsWith('__MACOSX/'));
   const shps = names.filter((name) => /\.shp$/i.test(name));
   if (shps.length === 0) throw new DataError({ file: path }, 'the zip archive holds no .shp file');

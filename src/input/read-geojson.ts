@@ -62,7 +62,7 @@ function parseSequence(path: string, text: string): unknown[] {
     if (value !== null && typeof value === 'object' && (value as { type?: unknown }).type === 'FeatureCollection') {
       const inner = (value as { features?: unknown }).features;
       if (!Array.isArray(inner)) throw new DataError({ file: path }, `record ${index} of the GeoJSON text sequence is a FeatureCollection without a "features" list`);
-      features.push(...inner);
+      for (const item of inner) features.push(item);
     } else {
       features.push(value);
     }

@@ -70,7 +70,7 @@ export function crossCheck(
     }
   });
 
-  problems.push(...holesBetweenZones(shapes, files.zones));
+  for (const item of holesBetweenZones(shapes, files.zones)) problems.push(item);
 
   const crs = lines.length > 0 ? chooseWorkCrs(boundsOfParts(lines.map((line) => line.partsLonLat)), workCrs ?? undefined).crs : null;
   lines.forEach((line, lineNumber) => {

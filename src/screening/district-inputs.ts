@@ -84,20 +84,47 @@ function showPosition(position: unknown): string {
   return `[${position.map(showValue).join(',')}]`;
 }
 
+/** A value of the user's as a message shows it: never more than SHOWN_CHARS of it, whatever its size. */
+const SHOWN_CHARS = 120;
+
+function cut(text: string): string {
+  return text.length > SHOWN_CHARS ? `${text.slice(0, SHOWN_CHARS)}... (${text.length} characters in all)` : text;
+}
+
 function showValue(value: unknown): string {
   if (typeof value === 'number' && !Number.isFinite(value)) return String(value);
+  if (nestingDepth(value, MAX_NESTING) > MAX_NESTING) return `(nested more than ${MAX_NESTING} levels deep)`;
   try {
-    return JSON.stringify(value) ?? String(value);
+    return cut(JSON.stringify(value) ?? String(value));
   } catch {
     return Object.prototype.toString.call(value);
   }
 }
 
+/** How deep lists and objects nest in a value, counted no further than `limit` + 1 (no recursion: a hostile value may nest 100,000 deep). */
+function nestingDepth(value: unknown, limit: number): number {
+  let deepest = 0;
+  const stack: [unknown, number][] = [[value, 0]];
+  while (stack.length > 0) {
+    const [item, depth] = stack.pop()!;
+    if (item === null || typeof item !== 'object') continue;
+    if (depth + 1 > deepest) deepest = depth + 1;
+    if (deepest > limit) return deepest;
+    for (const child of Array.isArray(item) ? item : Object.values(item)) if (child !== null && typeof child === 'object') stack.push([child, depth + 1]);
+  }
+  return deepest;
+}
+
+// An attribute nested deeper than this is no attribute a GIS writes; writing it back would overflow the stack
+const MAX_NESTING = 32;
+// Names that would reach an object's prototype, refused wherever a user names a key
+const FORBIDDEN_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
+
 function describeValue(value: unknown): string {
   if (typeof value === 'string') {
     if (/^\s*[-+]?\d+,\d+\s*$/.test(value)) return `text "${value}" (a decimal comma? write ${value.trim().replace(',', '.')} as a number)`;
     if (value.trim() !== '' && Number.isFinite(Number(value))) return `text "${value}" (a number stored as text; store it as a number)`;
-    return `text "${value}"`;
+    return `text "${cut(value)}"`;
   }
   return `${Array.isArray(value) ? 'a list' : typeof value} ${showValue(value)}`;
 }
@@ -217,9 +244,17 @@ function checkAll<T>(
       const earlier = seen.get(view.id);
       if (earlier !== undefined) throw new FeatureProblem(idField, `duplicate id "${view.id}" (also feature ${earlier})`);
       seen.set(view.id, index);
+      // what the writers would choke on is refused here, so doab check reports it before a screen fails on it
+      for (const [key, value] of Object.entries(view.properties)) {
+        attempt(() => {
+          if (FORBIDDEN_KEYS.has(key)) throw new FeatureProblem(key, `an attribute named "${key}" is refused (it would reach an object's prototype); rename it`);
+          if (nestingDepth(value, MAX_NESTING) > MAX_NESTING) throw new FeatureProblem(key, `the value nests lists or objects more than ${MAX_NESTING} levels deep; an attribute should be a number or text`);
+        });
+      }
       const record = build(view, (field, message) => warnings.push({ severity: 'warning', place: place(field), message }), attempt);
       if (errors.length === 0) records.push(record);
-      problems.push(...errors, ...warnings);
+      for (const problem of errors) problems.push(problem);
+      for (const problem of warnings) problems.push(problem);
     } catch (error) {
       if (!(error instanceof FeatureProblem)) throw error;
       problems.push({ severity: 'error', place: place(error.field), message: error.message });

@@ -63,6 +63,13 @@ export function errorsOf(problems: Problem[]): Problem[] {
   return problems.filter((problem) => problem.severity === 'error');
 }
 
-export function problemLines(problems: Problem[]): string {
-  return problems.map((problem) => `${formatProblem(problem)}\n`).join('');
+/** One line per problem, the first `limit` of them, then a line that counts the rest. */
+export function problemLines(problems: Problem[], limit = Infinity): string {
+  const shown = problems.length > limit ? problems.slice(0, limit) : problems;
+  let text = shown.map((problem) => `${formatProblem(problem)}\n`).join('');
+  if (problems.length > shown.length) text += `... and ${problems.length - shown.length} more problem${problems.length - shown.length === 1 ? '' : 's'} like these (the first ${shown.length} are listed)\n`;
+  return text;
 }
+
+/** How many problems a terminal is shown before the rest are counted. */
+export const PROBLEMS_SHOWN = 100;

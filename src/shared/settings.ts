@@ -38,6 +38,13 @@ export interface ScreenSettings {
   districtMemoryMB: number;
   /** A strip whose smallest depth differs from the district solve's inside it by more than this is flagged (m). */
   districtDepthToleranceM: number;
+  /** Largest input file read (MB); a JavaScript string holds at most about 512 MiB, so no more than 500 until inputs stream. */
+  maxInputMB: number;
+  /** Largest a zipped input may expand to (MB), and the largest expansion ratio of its members. */
+  maxUnzippedMB: number;
+  maxZipRatio: number;
+  /** Most stations a run may place (each costs memory in every stage after it). */
+  maxStations: number;
   risk: RiskThresholds;
 }
 
@@ -62,6 +69,16 @@ export const finite: Checker = (value, key) => {
 const angle: Checker = (value, key) => {
   const v = positive(value, key) as number;
   if (v >= 90) throw new Error(`"${key}" must be below 90 degrees, found ${v}`);
+  return v;
+};
+const inputMegabytes: Checker = (value, key) => {
+  const v = positive(value, key) as number;
+  if (v > 500) throw new Error(`"${key}" can be at most 500 (MB): a file is read as one text, and JavaScript text holds at most about 512 MiB; found ${v}`);
+  return v;
+};
+const count: Checker = (value, key) => {
+  const v = positive(value, key) as number;
+  if (!Number.isInteger(v)) throw new Error(`"${key}" must be a whole number, found ${v}`);
   return v;
 };
 const nullableText: Checker = (value, key) => {
@@ -118,6 +135,10 @@ export const SETTINGS: Readonly<Record<SettingKey, SettingSpec>> = Object.freeze
   districtCellM: { default: DEFAULT_DISTRICT_CELL_M, check: positive, type: 'number', unit: 'm', doc: 'cell size of the district solve (also solved at twice this size for its uncertainty)', flag: '--cell <m>' },
   districtMemoryMB: { default: 2048, check: positive, type: 'number', unit: 'MB', doc: 'memory the district solve may use; a grid that needs more is solved at a coarser cell, and said', flag: '--memory-mb <mb>' },
   districtDepthToleranceM: { default: 0.5, check: positive, type: 'number', unit: 'm', doc: "strips whose smallest depth differs from the district solve's inside them by more than this are flagged", advanced: true },
+  maxInputMB: { default: 500, check: inputMegabytes, type: 'number', unit: 'MB', doc: 'largest input file doab reads (at most 500)', flag: '--max-input-mb <mb>', advanced: true },
+  maxUnzippedMB: { default: 1000, check: positive, type: 'number', unit: 'MB', doc: 'largest a zipped shapefile may expand to', advanced: true },
+  maxZipRatio: { default: 100, check: positive, type: 'number', unit: '', doc: 'largest expansion ratio of a member of a zipped shapefile (a zip bomb expands thousands of times)', advanced: true },
+  maxStations: { default: 5_000_000, check: count, type: 'number', unit: '', doc: 'most stations a run may place; a finer --step over a longer network needs more', flag: '--max-stations <n>', advanced: true },
   'risk.waterloggedDepthM': { default: 2, check: positive, type: 'number', unit: 'm', doc: 'a water table less deep than this below ground is waterlogged' },
   'risk.potentialDepthM': { default: 3, check: positive, type: 'number', unit: 'm', doc: 'between the waterlogged depth and this depth the land is potentially waterlogged' },
 });

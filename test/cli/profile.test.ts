@@ -153,11 +153,11 @@ describe('doab profile (through the CLI)', () => {
 
   it('writes the profile files and exits 0', () => {
     const out = freshDir('profile-cli-out');
-    const result = runCli(['profile', '--run', run, '--strip', 'C-01|D-02|0', '--out', out]);
+    const result = runCli(['profile', '--run', run, '--strip', 'D-02|C-01|0', '--out', out]);
     expect(result.status, result.stderr).toBe(0);
-    expect(existsSync(join(out, 'profile-C-01_D-02_0.svg'))).toBe(true);
-    expect(readFileSync(join(out, 'profile-C-01_D-02_0.csv'), 'utf8')).toMatch(/^x_m,water_table_m,ground_m,base_m\n0,/);
-    expect(result.stdout).toMatch(/^Strip C-01\|D-02\|0: key transect from C-01 to D-02/);
+    expect(existsSync(join(out, 'profile-D-02_C-01_0.svg'))).toBe(true);
+    expect(readFileSync(join(out, 'profile-D-02_C-01_0.csv'), 'utf8')).toMatch(/^x_m,water_table_m,ground_m,base_m\n0,/);
+    expect(result.stdout).toMatch(/^Strip D-02\|C-01\|0: key transect from D-02 to C-01/);
   });
 
   it('exits 1 with the valid ids for an unknown strip, and 2 without --strip', () => {
@@ -172,7 +172,7 @@ describe('doab profile (through the CLI)', () => {
   it('exits 1 naming the input that changed since the run', () => {
     const canals = join(data, 'canals.geojson');
     writeFileSync(canals, readFileSync(canals, 'utf8').replace('Heron Main Canal', 'Heron Main Canal (renamed)'));
-    const changed = runCli(['profile', '--run', run, '--strip', 'C-01|D-02|0']);
+    const changed = runCli(['profile', '--run', run, '--strip', 'D-02|C-01|0']);
     expect(changed.status).toBe(1);
     expect(changed.stderr).toContain(`doab: error: ${canals}: changed since the run`);
   });

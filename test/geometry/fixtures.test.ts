@@ -124,8 +124,9 @@ describe('geometry fixtures', () => {
     expect(tRight.map((f) => f.transectLengthM)).toEqual(tRight.map((f) => expect.closeTo(f.chainageM, 3)));
     expect(tRight.every((f) => f.reason === 'not-parallel' && Math.abs(f.angleDeg - 45) < 1e-4)).toBe(true);
     expect(run.strips.map((s) => [s.id, s.stationsA.length, s.stationsB.length])).toEqual([
-      ['a|b|0', 11, 11],
-      ['a|b|1', 7, 7],
+      // b starts further west than a, so b is the strips' line a (geometry, not ids)
+      ['b|a|0', 11, 11],
+      ['b|a|1', 7, 7],
     ]);
   });
 
@@ -150,8 +151,8 @@ describe('geometry fixtures', () => {
     expect(facingsOf(run, 'south', 0).every((f) => f.partner === 'middle')).toBe(true);
     expect(facingsOf(run, 'north', 1).every((f) => f.partner === 'middle')).toBe(true);
     expect(run.strips.map((s) => [s.id, s.sideA, s.stationsA.length, s.stationsB.length, Math.round(s.spacingMeanM * 1000) / 1000])).toEqual([
-      ['middle|north|0', 0, 20, 20, 350],
-      ['middle|south|0', 1, 20, 20, 250],
+      ['south|middle|0', 0, 20, 20, 250],
+      ['north|middle|0', 1, 20, 20, 350],
     ]);
   });
 

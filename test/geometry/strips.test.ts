@@ -63,11 +63,15 @@ describe('buildStrips', () => {
     expectPairedFacingsOnce(stations, facings, strips);
   });
 
-  it('gives the same ids whatever the order of the lines', () => {
+  it('gives the same strips and ids whatever the order or the names of the lines (line a lies further west, then south)', () => {
     const lines = [line('n', [0, 600, 1000, 600]), line('m', [0, 250, 1000, 250]), line('s', [0, 0, 1000, 0])];
     const ids = (ls: LineGeometry[]) => run(ls).strips.map((s) => `${s.id}:${ls[s.lineA].id}-${ls[s.lineB].id}:${s.stationsA.length}`).sort();
-    expect(ids(lines)).toEqual(['m|n|0:m-n:10', 'm|s|0:m-s:10']);
+    // all start at x = 0: the southern line is a
+    expect(ids(lines)).toEqual(['m|n|0:m-n:10', 's|m|0:s-m:10']);
     expect(ids([lines[2], lines[0], lines[1]])).toEqual(ids(lines));
+    // renamed so that the ids sort the other way: the same strips, under the new names
+    const renamed = lines.map((l) => ({ ...l, id: { n: 'a', m: 'b', s: 'c' }[l.id]! }));
+    expect(ids(renamed)).toEqual(['b|a|0:b-a:10', 'c|b|0:c-b:10']);
   });
 
   it('falls back to a valid ring where transects cross inside a tight bend', () => {
@@ -76,9 +80,10 @@ describe('buildStrips', () => {
     const pts: number[] = [];
     for (let d = 30; d <= 150; d += 2) pts.push(200 * Math.cos((d * Math.PI) / 180), 200 * Math.sin((d * Math.PI) / 180));
     const r = run([line('bend', pts), line('straight', [-600, -150, 600, -150])], { stepM: 20, maxGapM: 1000, maxAngleDeg: 30 });
-    const strip = r.strips.find((s) => s.id === 'bend|straight|0');
+    // the straight line starts further west, so it is line a and the bend's transects are b's
+    const strip = r.strips.find((s) => s.id === 'straight|bend|0');
     expect(strip).toBeDefined();
-    expect(strip!.stationsA.length).toBeGreaterThan(5);
+    expect(strip!.stationsB.length).toBeGreaterThan(5);
     expectValidRing(strip!.ringM);
     for (const s of r.strips) expectValidRing(s.ringM);
     expectPairedFacingsOnce(r.stations, r.facings, r.strips);
