@@ -4,6 +4,7 @@
 import { parse, printParseErrorCode, type ParseError } from 'jsonc-parser';
 import { CONDUCTIVITY_UNITS, LENGTH_UNITS, RECHARGE_UNITS } from '../shared/units.js';
 import { DataError } from '../shared/errors.js';
+import { duplicateKeys, jsonDepth } from './read-text.js';
 import { cloneRules, DEFAULT_RULES, type InputRules } from '../shared/input-rules.js';
 import {
   checkRisk,
@@ -13,6 +14,7 @@ import {
   setSetting,
   SETTING_KEYS,
   SETTINGS,
+  shown,
   type Checker,
   type ScreenSettings,
   type SettingKey,
@@ -28,12 +30,12 @@ export function defaultConfig(): RunConfig {
 }
 
 const text: Checker = (value, key) => {
-  if (typeof value !== 'string' || value.trim() === '') throw new Error(`"${key}" must be a non-empty attribute name, found ${JSON.stringify(value)}`);
+  if (typeof value !== 'string' || value.trim() === '') throw new Error(`"${key}" must be a non-empty attribute name, found ${shown(value)}`);
   return value;
 };
 const words: Checker = (value, key) => {
   if (!Array.isArray(value) || value.length === 0 || value.some((w) => typeof w !== 'string' || w.trim() === '')) {
-    throw new Error(`"${key}" must be a list of words, found ${JSON.stringify(value)}`);
+    throw new Error(`"${key}" must be a list of words, found ${shown(value)}`);
   }
   return value;
 };
@@ -67,7 +69,7 @@ const RULE_SECTIONS = new Set(['fields', 'units', 'defaults', 'kindWords']);
 /** Checks an object against a section of the schema, key by key, and returns the values found. */
 function checkSection(section: Section, value: unknown, path: string): Map<string, unknown> {
   if (value === null || typeof value !== 'object' || Array.isArray(value)) {
-    throw new Error(`"${path || 'the config'}" must be a JSON object, found ${JSON.stringify(value)}`);
+    throw new Error(`"${path || 'the config'}" must be a JSON object, found ${shown(value)}`);
   }
   // jsonc-parser turns a "__proto__" key into the object's prototype, where Object.entries misses it
   const prototype = Object.getPrototypeOf(value);
@@ -92,13 +94,23 @@ function assign(target: Record<string, unknown>, found: Map<string, unknown> | u
  * Parses the config text over the defaults; throws DataError naming the file and the key. `keyPrefix`
  * names where the config sits inside the file (run.json keeps it under "settings").
  */
-export function parseConfig(file: string, configText: string, keyPrefix = ''): RunConfig {
+export function parseConfig(file: string, rawText: string, keyPrefix = ''): RunConfig {
+  // a byte-order mark that an editor left at the start is no part of the config
+  const configText = rawText.replace(/^\uFEFF/, '');
+  // the parser recurses: a config nested deeper than any real one is refused before it is parsed
+  const depth = jsonDepth(configText);
+  if (depth > 16) throw new DataError({ file }, `nests objects or lists ${depth} levels deep; a doab config nests 3 at most`);
   const errors: ParseError[] = [];
   const value = parse(configText, errors, { allowTrailingComma: true, disallowComments: false });
   if (errors.length > 0) {
     const first = errors[0];
     const line = configText.slice(0, first.offset).split('\n').length;
     throw new DataError({ file }, `not valid JSON: ${printParseErrorCode(first.error)} at line ${line}`);
+  }
+  const [duplicate] = duplicateKeys(configText, 1);
+  if (duplicate) {
+    const key = [keyPrefix, ...duplicate.path, duplicate.key].filter((part) => part !== '').join('.');
+    throw new DataError({ file }, `the key "${key}" is given twice; JSON keeps only the last one, so give it once`);
   }
   return configFromValue(file, value, keyPrefix);
 }
@@ -121,5 +133,8 @@ export function configFromValue(file: string, value: unknown, keyPrefix = ''): R
     throw new DataError({ file }, (error as Error).message);
   }
   checkRisk(file, config.settings.risk);
+  const drainWords = new Set(config.rules.kindWords.drain.map((word) => word.trim().toLowerCase()));
+  const both = config.rules.kindWords.canal.filter((word) => drainWords.has(word.trim().toLowerCase()));
+  if (both.length > 0) throw new DataError({ file }, `"kindWords" gives ${both.map((word) => `"${word}"`).join(', ')} to both canal and drain; a word can name one kind only`);
   return config;
 }

@@ -44,9 +44,37 @@ export async function loadDistrict(canalsPath: string, aquiferPath: string, conf
     zones = checked.records;
     for (const item of checked.problems) problems.push(item);
   }
+  // positions wrapped at longitude 180 (as RFC 7946 asks) would put one district at both ends of
+  // the map: every distance, overlap and projection would be wrong, so refuse before any geometry
+  const straddle = straddlesAntimeridian([...lines.flatMap((line) => line.partsLonLat), ...zones.flatMap((zone) => zone.polygonsLonLat.flat())]);
+  if (straddle) {
+    problems.push({
+      severity: 'error',
+      place: { file: `${canalsPath} and ${aquiferPath}` },
+      message: `the lines and zones straddle longitude 180 (longitudes from ${straddle.west.toFixed(3)} to 180 and from -180 to ${straddle.east.toFixed(3)}); doab cannot screen across it: split the district at longitude 180 and screen each part`,
+    });
+    return { canals, aquifer, lines: [], zones: [], problems };
+  }
   const cross = crossCheck(lines, zones, { lines: canalsPath, zones: aquiferPath }, config.settings.crs);
   for (const item of cross.problems) problems.push(item);
   lines = lines.filter((_, i) => !cross.badLines.has(i));
   return { canals, aquifer, lines, zones, problems };
 }
 
+/**
+ * Whether positions wrapped at longitude 180 lie on both sides of it: the span of longitudes is
+ * shorter going across 180 than going round the other way. Gives the western and eastern edges.
+ */
+export function straddlesAntimeridian(parts: readonly (readonly (readonly number[])[])[]): { west: number; east: number } | null {
+  let westOfDateLine = Infinity, eastMost = -Infinity, westMost = Infinity, eastOfDateLine = -Infinity;
+  for (const part of parts) {
+    for (const [lon] of part) {
+      if (lon >= 0) { westOfDateLine = Math.min(westOfDateLine, lon); eastMost = Math.max(eastMost, lon); }
+      else { westMost = Math.min(westMost, lon); eastOfDateLine = Math.max(eastOfDateLine, lon); }
+    }
+  }
+  if (!Number.isFinite(westOfDateLine) || !Number.isFinite(westMost)) return null;
+  const spanAround = eastMost - westMost;
+  const spanAcross = 360 + eastOfDateLine - westOfDateLine;
+  return spanAcross < spanAround ? { west: westOfDateLine, east: eastOfDateLine } : null;
+}

@@ -9,6 +9,7 @@ import * as shapefile from 'shapefile';
 import { DataError } from '../shared/errors.js';
 import { DEFAULT_SETTINGS } from '../shared/settings.js';
 import { parseGeoJsonText } from './read-geojson.js';
+import { decodeText } from './read-text.js';
 import { resolveSourceCrs, type SourceCrs } from './source-crs.js';
 
 export type InputFormat = 'geojson' | 'geojson-seq' | 'shapefile' | 'zipped-shapefile';
@@ -79,7 +80,7 @@ export async function readFeatureFile(path: string, options: ReadOptions = {}): 
   } else {
     const buffer = readBytes(path, 'file', options.maxInputMB);
     if (buffer.length === 0) throw new DataError({ file: path }, 'the file is empty (0 bytes)');
-    const parsed = parseGeoJsonText(path, buffer.toString('utf8'));
+    const parsed = parseGeoJsonText(path, decodeText(path, buffer));
     file = {
       path,
       format: parsed.sequence ? 'geojson-seq' : 'geojson',

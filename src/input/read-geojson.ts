@@ -2,6 +2,7 @@
 // member) or a GeoJSON text sequence (RFC 8142: records led by RS, or one feature per line).
 // Nothing here interprets attributes; that is the validation stage's job.
 import { DataError } from '../shared/errors.js';
+import { duplicateKeys } from './read-text.js';
 
 export interface ParsedGeoJson {
   features: unknown[];
@@ -34,8 +35,9 @@ export function parseGeoJsonText(path: string, rawText: string): ParsedGeoJson {
   }
   const object = parsed as Record<string, unknown>;
   if (object.type !== 'FeatureCollection' || !Array.isArray(object.features)) {
-    throw new DataError({ file: path }, `expected a GeoJSON FeatureCollection with a "features" array, found type ${JSON.stringify(object.type)}`);
+    throw new DataError({ file: path }, `expected a GeoJSON FeatureCollection with a "features" array, found type ${JSON.stringify(String(object.type)).slice(0, 80)}`);
   }
+  refuseDuplicateKeys(path, text, (where) => (where[0] === 'features' && typeof where[1] === 'number' ? where[1] : undefined));
   return { features: object.features, declaredCrs: legacyCrsName(path, object.crs), sequence: false };
 }
 
@@ -46,6 +48,16 @@ function legacyCrsName(path: string, crs: unknown): string | null {
   const member = crs as { type?: unknown; properties?: { name?: unknown } };
   if (member.type === 'name' && typeof member.properties?.name === 'string') return member.properties.name;
   throw new DataError({ file: path, field: 'crs' }, `unsupported "crs" member ${JSON.stringify(crs).slice(0, 120)}; expected {"type":"name","properties":{"name":"EPSG:<code>"}}`);
+}
+
+/** A key an object holds twice is an error naming it: JSON.parse would keep the last one without a word. */
+function refuseDuplicateKeys(path: string, text: string, featureOf: (where: (string | number)[]) => number | undefined): void {
+  const duplicates = duplicateKeys(text, 1);
+  if (duplicates.length === 0) return;
+  const [{ key, path: where }] = duplicates;
+  const featureIndex = featureOf(where);
+  const inside = where.length > 0 ? ` in ${where.map((part) => (typeof part === 'number' ? `[${part}]` : `.${part}`)).join('').replace(/^\./, '')}` : '';
+  throw new DataError({ file: path, featureIndex, field: String(key).slice(0, 80) }, `the key "${String(key).slice(0, 80)}" appears twice${inside}; JSON keeps only one of them, so say which you mean`);
 }
 
 // Records are numbered from 0 in the order they stand, whichever way they are framed, like features.
@@ -59,6 +71,8 @@ function parseSequence(path: string, text: string): unknown[] {
     } catch (error) {
       throw new DataError({ file: path }, `record ${index} of the GeoJSON text sequence is not valid JSON (${(error as Error).message}); a truncated record?`);
     }
+    const firstFeature = features.length;
+    refuseDuplicateKeys(path, record, (where) => ((value as { type?: unknown } | null)?.type === 'FeatureCollection' ? (where[0] === 'features' && typeof where[1] === 'number' ? firstFeature + where[1] : undefined) : firstFeature));
     if (value !== null && typeof value === 'object' && (value as { type?: unknown }).type === 'FeatureCollection') {
       const inner = (value as { features?: unknown }).features;
       if (!Array.isArray(inner)) throw new DataError({ file: path }, `record ${index} of the GeoJSON text sequence is a FeatureCollection without a "features" list`);

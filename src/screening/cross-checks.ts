@@ -73,10 +73,11 @@ export function crossCheck(
   for (const item of holesBetweenZones(shapes, files.zones)) problems.push(item);
 
   const crs = lines.length > 0 ? chooseWorkCrs(boundsOfParts(lines.map((line) => line.partsLonLat)), workCrs ?? undefined).crs : null;
+  const outside: string[] = [];
   lines.forEach((line, lineNumber) => {
     const table = buildLineTable([{ id: line.id, parts: line.partsLonLat.map((part) => projectPositions(crs!, part)) }]);
     const lengthM = table.chainageM[table.chainageM.length - 1];
-    let vertex = 0, reported = false, warned = false;
+    let vertex = 0, reported = false, warned = false, inside = false;
     for (const part of line.partsLonLat) {
       part.forEach((position) => {
         const chainageM = table.chainageM[vertex++];
@@ -84,6 +85,7 @@ export function crossCheck(
         const stageM = stageAtChainage(line, chainageM, lengthM);
         for (const z of index.search(position[0], position[1], position[0], position[1])) {
           if (!booleanPointInPolygon(position, shapes[z])) continue;
+          inside = true;
           const zone = zones[z];
           const place = { file: files.lines, featureIndex: line.index, featureId: line.id, field: line.stageField };
           if (stageM <= zone.baseM) {
@@ -98,7 +100,19 @@ export function crossCheck(
         }
       });
     }
+    if (!inside) outside.push(line.id);
   });
+  if (outside.length > 0) {
+    const named = outside.slice(0, 5).map((id) => `"${id}"`).join(', ') + (outside.length > 5 ? `, ... (${outside.length} in all)` : '');
+    problems.push({
+      severity: outside.length === lines.length ? 'error' : 'warning',
+      place: { file: files.lines },
+      message:
+        outside.length === lines.length
+          ? `none of the ${lines.length} lines has a vertex inside any zone of ${files.zones}: nothing could be solved; do both files cover the same place (and CRS)?`
+          : `${outside.length} of ${lines.length} lines have no vertex inside any zone of ${files.zones} (${named}): nothing is computed for them`,
+    });
+  }
   return { problems, badLines };
 }
 

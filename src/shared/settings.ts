@@ -51,19 +51,26 @@ export interface ScreenSettings {
 /** A setting's key as the config file writes it: top-level keys, and `risk.<key>` for the thresholds. */
 export type SettingKey = Exclude<keyof ScreenSettings, 'risk'> | `risk.${keyof RiskThresholds}`;
 
+/** A value as a message shows it: a number JSON cannot write (1e999 read as Infinity) by what it is, text cut short. */
+export function shown(value: unknown): string {
+  if (typeof value === 'number' && !Number.isFinite(value)) return `${value} (a number too large to hold)`;
+  const text = JSON.stringify(value) ?? String(value);
+  return text.length > 80 ? `${text.slice(0, 80)}...` : text;
+}
+
 /** Throws an Error saying what is wrong with a value; the caller adds where it came from. */
 export type Checker = (value: unknown, key: string) => unknown;
 
 export const positive: Checker = (value, key) => {
-  if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) throw new Error(`"${key}" must be a positive number, found ${JSON.stringify(value)}`);
+  if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) throw new Error(`"${key}" must be a positive number, found ${shown(value)}`);
   return value;
 };
 export const nonNegative: Checker = (value, key) => {
-  if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) throw new Error(`"${key}" must be a number, 0 or more, found ${JSON.stringify(value)}`);
+  if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) throw new Error(`"${key}" must be a number, 0 or more, found ${shown(value)}`);
   return value;
 };
 export const finite: Checker = (value, key) => {
-  if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`"${key}" must be a number, found ${JSON.stringify(value)}`);
+  if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`"${key}" must be a number, found ${shown(value)}`);
   return value;
 };
 const angle: Checker = (value, key) => {
@@ -82,15 +89,15 @@ const count: Checker = (value, key) => {
   return v;
 };
 const nullableText: Checker = (value, key) => {
-  if (value !== null && (typeof value !== 'string' || value.trim() === '')) throw new Error(`"${key}" must be text or null, found ${JSON.stringify(value)}`);
+  if (value !== null && (typeof value !== 'string' || value.trim() === '')) throw new Error(`"${key}" must be text or null, found ${shown(value)}`);
   return value;
 };
 export const oneOf = (choices: readonly string[]): Checker => (value, key) => {
-  if (typeof value !== 'string' || !choices.includes(value)) throw new Error(`"${key}" must be one of ${choices.map((c) => `"${c}"`).join(', ')}, found ${JSON.stringify(value)}`);
+  if (typeof value !== 'string' || !choices.includes(value)) throw new Error(`"${key}" must be one of ${choices.map((c) => `"${c}"`).join(', ')}, found ${shown(value)}`);
   return value;
 };
 export const bool: Checker = (value, key) => {
-  if (typeof value !== 'boolean') throw new Error(`"${key}" must be true or false, found ${JSON.stringify(value)}`);
+  if (typeof value !== 'boolean') throw new Error(`"${key}" must be true or false, found ${shown(value)}`);
   return value;
 };
 
