@@ -1,6 +1,6 @@
 // Careless-user cases that end well or with a usage error, beside the bad-input corpus (which holds
 // the cases that stop with exit 1 or 2 on a file of the case's own).
-import { readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { freshDir, hashTree, ROOT, runCliInProcess } from './run-cli.js';
@@ -44,5 +44,18 @@ describe('hardening', () => {
     expect(empty.status).toBe(2);
     expect(empty.stderr).toMatch(/^doab: usage error: --out is empty/);
     expect(hashTree(dir)).toEqual(before);
+  });
+
+  it('removes temporary files an earlier killed run left (even one under this process id), and nothing else', async () => {
+    const out = join(freshDir('stale'), 'out');
+    mkdirSync(out);
+    const stale = [`.strips.geojson.${process.pid}.tmp`, '.ranking.csv.doab-1-0a1b2c3d.tmp', `.report.html.doab-${process.pid}-deadbeef.tmp`];
+    for (const name of stale) writeFileSync(join(out, name), 'half a layer');
+    writeFileSync(join(out, '.notes.txt.1.tmp'), 'not ours: another name');
+    const run = await runCliInProcess(['screen', '--canals', CANALS, '--aquifer', AQUIFER, '--out', out, '--quiet', '--strips-only']);
+    expect(run.status, run.stderr).toBe(0);
+    const left = readdirSync(out);
+    for (const name of stale) expect(left).not.toContain(name);
+    expect(left).toContain('.notes.txt.1.tmp');
   });
 });
