@@ -222,7 +222,8 @@ export async function profileFromRun(runDir: string, stripId: string): Promise<S
   const district = await loadDistrict(canals.path, aquifer.path, config);
   const skipped = Array.isArray(record.skipped_features) ? record.skipped_features.length : 0;
   // the run itself stopped on errors unless it skipped them (--skip-invalid)
-  const result = screenLoaded(district, config, { skipInvalid: skipped > 0 });
+  // a profile draws a strip's own transect: the district solve would add seconds and change nothing drawn
+  const result = screenLoaded(district, { ...config, settings: { ...config.settings, stripsOnly: true } }, { skipInvalid: skipped > 0 });
   const strip = result.strips.find((s) => s.stripId === stripId);
   if (!strip) throw new DataError({ file: recordPath }, `no strip "${stripId}" in this run; its strips include ${someIds(result.strips.map((s) => s.stripId), stripId)}`);
   const solved = profileOfFacing(result, strip, keyFacing(result, strip));

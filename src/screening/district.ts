@@ -213,6 +213,41 @@ function lineLosses(solve: GridSolve, lineCount: number): { loss: Float64Array; 
   return { loss, cells };
 }
 
+/** Stage jumps where a line's end lies within a cell of another line's cells (a junction, a tail at a drain): larger than 5 cm. */
+function junctionJumps(inputs: DistrictInputs, solve: GridSolve): { count: number; largestM: number; where: string } {
+  const { lines, lineTable: table, lineLengthsM } = inputs;
+  const { grid, burned, cellKind } = solve;
+  const { columns, rows, cellM, originX, originY } = grid;
+  let count = 0, largestM = 0, where = '';
+  for (let l = 0; l < table.lineCount; l++) {
+    for (let part = table.linePartStart[l]; part < table.linePartStart[l + 1]; part++) {
+      for (const v of [table.partVertexStart[part], table.partVertexStart[part + 1] - 1]) {
+        const c0 = Math.floor((table.x[v] - originX) / cellM), r0 = Math.floor((table.y[v] - originY) / cellM);
+        const stageM = stageAtChainage(lines[l], table.chainageM[v], lineLengthsM[l]);
+        let jump = 0, other = -1;
+        for (let r = r0 - 1; r <= r0 + 1; r++) {
+          for (let c = c0 - 1; c <= c0 + 1; c++) {
+            if (r < 0 || r >= rows || c < 0 || c >= columns) continue;
+            const g = r * columns + c;
+            const m = burned.line[g];
+            if (m < 0 || m === l || cellKind[g] !== CELL_FIXED) continue;
+            const d = Math.abs(stageAtChainage(lines[m], burned.chainageM[g], lineLengthsM[m]) - stageM);
+            if (d > jump) { jump = d; other = m; }
+          }
+        }
+        if (jump > JUNCTION_JUMP_M) {
+          count++;
+          if (jump > largestM) { largestM = jump; where = `${lines[l].id} at ${lines[other].id}`; }
+        }
+      }
+    }
+  }
+  return { count, largestM, where };
+}
+
+/** A stage difference where lines meet that is more than rounding (m). */
+const JUNCTION_JUMP_M = 0.05;
+
 /**
  * Cells a bank covers: within bankWidthM of a line, taken as within bankWidthM + half a cell
  * diagonal of a line cell's centre (the line passes somewhere in that cell). Line cells included.
@@ -323,6 +358,14 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
   const missing = inputs.lines.filter((_, l) => lineCells[l] === 0).map((line) => line.id);
   if (missing.length > 0) {
     warnings.push(`${missing.length} line${missing.length === 1 ? '' : 's'} hold no cell of the district grid inside the aquifer (${missing.slice(0, 5).join(', ')}${missing.length > 5 ? ', ...' : ''}): their figures come from the strips`);
+  }
+  const jumps = junctionJumps(inputs, fine);
+  if (jumps.count > 0) {
+    warnings.push(
+      `${jumps.count} line end${jumps.count === 1 ? '' : 's'} meet another line at a different stage (up to ${jumps.largestM.toFixed(2)} m, ${jumps.where}): ` +
+        'the district solve takes lines as no wider than a cell, so the water they exchange there grows as the cell shrinks; ' +
+        "those lines' figures depend on the cell more than others (coarse_cell_diff_m3_d in canals.geojson)",
+    );
   }
   if (fine.burned.sharedCells > 0) warnings.push(`${fine.burned.sharedCells} district cells are passed by more than one line (junctions, close lines): each went to the nearest line`);
 

@@ -72,7 +72,8 @@ describe('a second run into the same folder', () => {
     const args = ['screen', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', out, '--quiet'];
     expect(runCli([...args, '--transects']).status).toBe(0);
     writeFileSync(join(out, 'notes.txt'), 'the engineer\'s own file');
-    const again = runCli(args);
+    // strips only the second time: the first run's rasters go too
+    const again = runCli([...args, '--strips-only']);
     expect(again.status, again.stderr).toBe(0);
     expect(readdirSync(out).sort()).toEqual(['canals.geojson', 'notes.txt', 'ranking.csv', 'report.html', 'run.json', 'strips.geojson']);
     expect(readFileSync(join(out, 'notes.txt'), 'utf8')).toBe('the engineer\'s own file');

@@ -7,13 +7,16 @@ import { loadDistrict } from '../../src/input/load-district.js';
 import type { ReportMeta } from '../../src/report/report.js';
 import { defaultConfig } from '../../src/input/config.js';
 import { screenDistrict, type ScreenResult } from '../../src/screening/screen.js';
+import type { ScreenSettings } from '../../src/shared/settings.js';
 
 export const ROOT = resolve(import.meta.dirname, '../..');
 export const DEMO_CANALS = join(ROOT, 'data-demo/canals.geojson');
 export const DEMO_AQUIFER = join(ROOT, 'data-demo/aquifer.geojson');
 
-export async function screenFiles(canals: string, aquifer: string): Promise<{ result: ScreenResult; meta: ReportMeta }> {
+/** Screens with the default settings, or these over them (stripsOnly for tests that draw only strips: the district solve takes seconds). */
+export async function screenFiles(canals: string, aquifer: string, settings: Partial<ScreenSettings> = {}): Promise<{ result: ScreenResult; meta: ReportMeta }> {
   const config = defaultConfig();
+  Object.assign(config.settings, settings);
   const district = await loadDistrict(canals, aquifer, config);
   const errors = district.problems.filter((p) => p.severity === 'error');
   if (errors.length > 0 || !district.canals || !district.aquifer) throw new Error(`demo inputs have problems: ${JSON.stringify(errors)}`);

@@ -14,7 +14,7 @@ describe('renderProfileSvg', () => {
   let profile: Profile;
   let svg: string;
   beforeAll(async () => {
-    const { result } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER);
+    const { result } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER, { stripsOnly: true });
     const strip = result.strips[0];
     profile = profileOfFacing(result, strip, keyFacing(result, strip)) as Profile;
     svg = renderProfileSvg(profile);
@@ -71,7 +71,7 @@ describe('renderProfileSvg', () => {
 describe('orientFromLineA', () => {
   let result: ScreenResult;
   beforeAll(async () => {
-    ({ result } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER));
+    ({ result } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER, { stripsOnly: true }));
   });
 
   it("mirrors a key transect cast from line b so that x runs from the strip's line a", () => {
@@ -105,7 +105,7 @@ describe('orientFromLineA', () => {
 describe('renderProfileSvg on hostile ids', () => {
   it('escapes line and strip ids', async () => {
     const copy = hostileDemoCopy();
-    const { result } = await screenFiles(copy.canals, copy.aquifer);
+    const { result } = await screenFiles(copy.canals, copy.aquifer, { stripsOnly: true });
     const strip = result.strips.find((s) => s.lineAId === HOSTILE_ID || s.lineBId === HOSTILE_ID)!;
     const svg = renderProfileSvg(profileOfFacing(result, strip, keyFacing(result, strip))!);
     expect(svg).not.toContain(HOSTILE_ID);

@@ -168,7 +168,8 @@ describe('renderReport on hostile text', () => {
   let result: ScreenResult;
   beforeAll(async () => {
     const copy = hostileDemoCopy();
-    const screened = await screenFiles(copy.canals, copy.aquifer);
+    // escaping needs no district solve
+    const screened = await screenFiles(copy.canals, copy.aquifer, { stripsOnly: true });
     result = screened.result;
     html = renderReport(result, { ...screened.meta, commandLine: ['doab', 'screen', '--canals', `"><script>alert(2)</script>`] });
   });

@@ -3,6 +3,7 @@
 // two parallel lines, radial flow to a circle, drains under recharge, and for a branching district
 // of our own the same district on a much finer grid.
 import { describe, expect, it } from 'vitest';
+import { UsageError } from '../../src/shared/errors.js';
 import { DEFAULT_SETTINGS } from '../../src/shared/settings.js';
 import { BRANCHING_LINES, BRANCHING_ZONES } from './branching-district.js';
 import { box, line, screenLocal } from './local-district.js';
@@ -156,5 +157,46 @@ describe('district solve on a branching district of our own', () => {
     const district = canals.reduce((sum, id) => sum + figure(id).netLossM3PerDay, 0);
     expect(strips / district).toBeLessThan(0.5);
     expect(result.totals.method).toBe('district');
+  });
+});
+
+describe('district solve settings', () => {
+  it('solves at a coarser cell when the grid would not fit the memory budget, and says so', () => {
+    // 3400 x 2000 m at 20 m: 17,000 cells of 250 bytes, about 4 MB; 2 MB fits a 40 m cell
+    const result = screenLocal(BRANCHING_LINES, BRANCHING_ZONES, { districtMemoryMB: 2 });
+    expect(result.district!.cellM).toBe(40);
+    expect(result.district!.requestedCellM).toBe(20);
+    expect(result.warnings.join('\n')).toMatch(/district solve at a 40 m cell, coarser than the 20 m asked \(districtCellM\)/);
+  });
+
+  it('refuses, naming the setting and the figure, before allocating a grid that fits no budget', () => {
+    // 1 cm cells over the 3400 x 2000 m district: 6.8e10 cells, and 8 cm cells still 1e9; nothing is allocated
+    let error: unknown;
+    try {
+      screenLocal(BRANCHING_LINES, BRANCHING_ZONES, { districtCellM: 0.01 });
+    } catch (e) {
+      error = e;
+    }
+    expect(error).toBeInstanceOf(UsageError);
+    expect((error as UsageError).setting).toBe('districtMemoryMB');
+    expect((error as Error).message).toMatch(/^districtMemoryMB: the district solve over 68\d{9} cells of 0\.01 m needs about \d+ MB, more than the budget of 2048 MB/);
+  });
+
+  it('is skipped with stripsOnly: every figure from the strips, and the run says so', () => {
+    const result = screenLocal(BRANCHING_LINES, BRANCHING_ZONES, { stripsOnly: true });
+    expect(result.district).toBeNull();
+    expect(result.totals.method).toBe('strips');
+    expect(result.lineFigures.every((figure) => figure.method === 'strips')).toBe(true);
+    expect(result.strips.every((strip) => strip.district === null)).toBe(true);
+    expect(result.warnings.join('\n')).toMatch(/district solve skipped \(stripsOnly\)/);
+  });
+
+  it('warns where a line meets another at a different stage', () => {
+    const jumped = BRANCHING_LINES.map((feature) =>
+      feature.properties.id === 'offtake-90' ? { ...feature, properties: { ...feature.properties, stage_start_m: 104.2 } } : feature,
+    );
+    const result = screenLocal(jumped, BRANCHING_ZONES);
+    expect(result.warnings.join('\n')).toMatch(/1 line end meet another line at a different stage \(up to 0\.69 m, offtake-90 at main\)/);
+    expect(screenLocal(BRANCHING_LINES, BRANCHING_ZONES).warnings.join('\n')).not.toMatch(/different stage/);
   });
 });
