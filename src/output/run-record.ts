@@ -59,6 +59,7 @@ function districtRecord(result: ScreenResult) {
       outer_edge_m3_d: 0,
       residual_m3_d: roundNumber(balance.residualM3PerDay),
       residual_relative: roundNumber(balance.residualRelative),
+      largest_cell_residual_m3_d: roundNumber(balance.largestCellResidualM3PerDay),
     },
     area_by_risk_ha: Object.fromEntries(Object.entries(district.areaByRiskHa).map(([risk, ha]) => [risk, roundNumber(ha)])),
     line_and_bank_area_ha: roundNumber(district.lineAndBankAreaHa),

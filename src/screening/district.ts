@@ -51,6 +51,8 @@ export interface DistrictBalance {
   residualM3PerDay: number;
   /** |residual| over the largest of the three terms. */
   residualRelative: number;
+  /** Largest imbalance of one free cell: its recharge less what it sends to its neighbours (m^3/d). */
+  largestCellResidualM3PerDay: number;
 }
 
 export interface DistrictResult {
@@ -119,6 +121,7 @@ interface GridSolve {
   linearIterations: number;
   picardIterations: number;
   totalRechargeM3PerDay: number;
+  largestCellResidualM3PerDay: number;
   dryCells: number;
   /** Aquifer cells that no line reaches (no steady state): left out, area in m^2. */
   cutOffAreaM2: number;
@@ -168,6 +171,7 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     linearIterations: solution.linearIterations,
     picardIterations: solution.picardIterations,
     totalRechargeM3PerDay: solution.totalRechargeM3PerDay,
+    largestCellResidualM3PerDay: solution.largestCellResidualM3PerDay,
     dryCells: solution.dryCellCount,
     cutOffAreaM2: cutOff * cellM * cellM,
     dryLineCells,
@@ -339,6 +343,7 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
     lineGainM3PerDay: gainSum,
     residualM3PerDay: residual,
     residualRelative: largest > 0 ? Math.abs(residual) / largest : 0,
+    largestCellResidualM3PerDay: fine.largestCellResidualM3PerDay,
   };
 
   if (fine.status !== 'converged') warnings.push(`district solve did not converge (${fine.status}): its figures are not reliable`);

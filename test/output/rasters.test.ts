@@ -10,7 +10,7 @@ import { BRANCHING_LINES, BRANCHING_ZONES } from '../screening/branching-distric
 import { box, screenLocal } from '../screening/local-district.js';
 
 // a zone apart from the others, which no line reaches: no water table there, nodata in the rasters
-const WITH_ISLAND = [...BRANCHING_ZONES, box('island', { k_m_d: 5, base_m: 90, ground_m: 106 }, [3400, 0, 3600, 400])];
+const WITH_ISLAND = [...BRANCHING_ZONES, box('island', { k_m_d: 5, base_m: 90, ground_m: 106, recharge_mm_yr: 0 }, [3400, 0, 3600, 400])];
 
 const hasGdal = spawnSync('gdalinfo', ['--version']).status === 0;
 

@@ -11,9 +11,9 @@ const mainStageM = (x: number) => 105 - (0.4 * x) / 3000;
 const southStageM = (x: number) => 98.2 - (0.4 * x) / 3000;
 
 export const BRANCHING_LINES = [
-  line('main', { stage_start_m: 105, stage_end_m: 104.6 }, [[0, 1500], [3000, 1500]]),
-  line('offtake-90', { stage_start_m: mainStageM(800), stage_end_m: 104.2 }, [[800, 1500], [800, 500]]),
-  line('offtake-45', { stage_start_m: mainStageM(1800), stage_end_m: 104.1 }, [[1800, 1500], [2500, 800]]),
+  line('main', { kind: 'canal', stage_start_m: 105, stage_end_m: 104.6 }, [[0, 1500], [3000, 1500]]),
+  line('offtake-90', { kind: 'canal', stage_start_m: mainStageM(800), stage_end_m: 104.2 }, [[800, 1500], [800, 500]]),
+  line('offtake-45', { kind: 'canal', stage_start_m: mainStageM(1800), stage_end_m: 104.1 }, [[1800, 1500], [2500, 800]]),
   line('south-drain', { kind: 'drain', stage_start_m: 98.2, stage_end_m: 97.8 }, [[0, 100], [3000, 100]]),
   line('t-drain', { kind: 'drain', stage_start_m: 98.8, stage_end_m: southStageM(2800) }, [[2800, 1100], [2800, 100]]),
 ];
