@@ -195,7 +195,7 @@ function mapKey(result: ScreenResult, lineWidth: LineWidths): string {
     `<li>${keySwatchLine(LINE_COLOURS.unpaired, lineWidth.unpairedPx, ' stroke-opacity="0.55"')}` +
     `<span><b>unpaired reach</b>: neither side faces a partner line (wide band)</span></li></ul>` +
     (widths
-      ? `<h3>Line width: loss per km of paired length</h3><ul>${widths}</ul><p class="key-note">Lines losing ${formatGrouped(scaleTop, scaleTop < 10 ? 1 : 0)} m³/d per km ` +
+      ? `<h3>Line width: loss per km${result.district ? ' (district solve, per km of line)' : ' of paired length (strips)'}</h3><ul>${widths}</ul><p class="key-note">Lines losing ${formatGrouped(scaleTop, scaleTop < 10 ? 1 : 0)} m³/d per km ` +
         `or more (the 95th percentile of losing lines) are drawn widest; gaining lines and lines with no paired length thinnest.</p>`
       : '<p class="key-note">No line loses water.</p>') +
     `</div>`
