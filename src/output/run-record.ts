@@ -58,7 +58,8 @@ function districtRecord(result: ScreenResult) {
       line_gain_m3_d: roundNumber(balance.lineGainM3PerDay),
       outer_edge_m3_d: 0,
       residual_m3_d: roundNumber(balance.residualM3PerDay),
-      residual_relative: roundNumber(balance.residualRelative),
+      // three digits, never rounded to 0: how well the balance closes is the point of the figure
+      residual_relative: Number(balance.residualRelative.toPrecision(3)),
       largest_cell_residual_m3_d: roundNumber(balance.largestCellResidualM3PerDay),
     },
     area_by_risk_ha: Object.fromEntries(Object.entries(district.areaByRiskHa).map(([risk, ha]) => [risk, roundNumber(ha)])),

@@ -15,7 +15,7 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
         `losing lines lose ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d`,
     );
     lines.push(
-      `Water balance: recharge ${formatFixed(b.rechargeM3PerDay, 0)} + line losses ${formatFixed(b.lineLossM3PerDay, 0)} - line gains ${formatFixed(b.lineGainM3PerDay, 0)} ` +
+      `Water balance, cell by cell: recharge ${formatFixed(b.rechargeM3PerDay, 0)} + from losing line cells ${formatFixed(b.lineLossM3PerDay, 0)} - to gaining line cells ${formatFixed(b.lineGainM3PerDay, 0)} ` +
         `= ${b.residualM3PerDay.toPrecision(2)} m3/d (no flow across the aquifer's outer edge)`,
     );
     lines.push(

@@ -72,7 +72,7 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
           totalCard(`${formatGrouped(district.balance.rechargeM3PerDay)} m³/d`, 'recharge over the aquifer (district water balance)'),
           totalCard(
             `${district.balance.residualM3PerDay.toPrecision(2)} m³/d`,
-            'water balance residual: recharge + line losses - line gains, no flow across the outer edge',
+            'water balance residual: recharge + what losing line cells give - what gaining line cells take, no flow across the outer edge',
           ),
           totalCard(`${formatGrouped(totals.stripLinesLossM3PerDay)} m³/d`, 'loss of the losing lines by the strips alone, for comparison'),
         ]
