@@ -8,7 +8,7 @@ import { polygon as turfPolygon } from '@turf/helpers';
 import { kinks } from '@turf/kinks';
 import { kToMPerDay, lengthToM, rechargeFromMPerDay, rechargeToMPerDay } from '../shared/units.js';
 import { describePlace, type DataProblemPlace, type Problem } from '../shared/errors.js';
-import type { InputRules } from '../shared/input-rules.js';
+import { DEFAULT_RULES, type InputRules } from '../shared/input-rules.js';
 
 export type LineKind = 'canal' | 'drain';
 
@@ -238,12 +238,16 @@ function checkAll<T>(
     };
     try {
       view = viewFeature(feature, index, idField);
-      if (view.id === undefined) throw new FeatureProblem(idField, `missing id: every feature needs a unique text id in "${idField}"`);
-      // strip ids join two line ids with "|": one inside an id would make them ambiguous
-      if (view.id.includes('|')) throw new FeatureProblem(idField, `id "${view.id}" contains "|", which doab uses to join ids in strip ids; use another character`);
-      const earlier = seen.get(view.id);
-      if (earlier !== undefined) throw new FeatureProblem(idField, `duplicate id "${view.id}" (also feature ${earlier})`);
-      seen.set(view.id, index);
+      const { id } = view;
+      // a feature without a good id is still checked field by field, so one run lists all it lacks
+      attempt(() => {
+        if (id === undefined) throw new FeatureProblem(idField, `missing id: every feature needs a unique text id in "${idField}"`);
+        // strip ids join two line ids with "|": one inside an id would make them ambiguous
+        if (id.includes('|')) throw new FeatureProblem(idField, `id "${id}" contains "|", which doab uses to join ids in strip ids; use another character`);
+        const earlier = seen.get(id);
+        if (earlier !== undefined) throw new FeatureProblem(idField, `duplicate id "${id}" (also feature ${earlier})`);
+        seen.set(id, index);
+      });
       // what the writers would choke on is refused here, so doab check reports it before a screen fails on it
       for (const [key, value] of Object.entries(view.properties)) {
         attempt(() => {
@@ -268,12 +272,62 @@ function checkAll<T>(
 // read the cut name and say so.
 const DBF_NAME_LENGTH = 10;
 
-function resolveCutNames<T extends object>(file: string, features: unknown[], fields: T, problems: Problem[]): T {
+/** Every attribute name that some feature has. */
+function presentAttributes(features: unknown[]): Set<string> {
   const present = new Set<string>();
   for (const feature of features) {
     const properties = (feature as { properties?: unknown } | null)?.properties;
     if (properties !== null && typeof properties === 'object') for (const key of Object.keys(properties)) present.add(key);
   }
+  return present;
+}
+
+interface FieldUse {
+  /** The config's key, as `fields.lines.stage`. */
+  key: string;
+  /** The attribute it names. */
+  name: string;
+  what: string;
+  /** Named by the user's config, not doab's default name. */
+  mapped: boolean;
+  /** What every feature gets when no feature has it; null when the field is required. */
+  fallback: string | null;
+}
+
+function attributeList(present: Set<string>): string {
+  const names = [...present];
+  if (names.length === 0) return 'the features have no attributes at all';
+  return `attributes found: ${names.slice(0, 20).map((name) => `"${cut(name)}"`).join(', ')}${names.length > 20 ? `, ... (${names.length} in all)` : ''}`;
+}
+
+/**
+ * A field that no feature has is said once for the file, never left to a silent default: an error
+ * when it is required or when the config maps it to a name the file does not hold, a warning
+ * naming the default when doab's own default name is simply absent.
+ */
+function coverageProblems(file: string, features: unknown[], uses: FieldUse[]): Problem[] {
+  if (features.length === 0) return [];
+  const present = presentAttributes(features);
+  const problems: Problem[] = [];
+  for (const use of uses) {
+    if (present.has(use.name)) continue;
+    if (use.fallback === null || use.mapped) {
+      problems.push({
+        severity: 'error',
+        place: { file, field: use.name },
+        message:
+          `no feature has the attribute "${use.name}" (${use.what}${use.mapped ? `, as the config's "${use.key}" names it` : ''}); ${attributeList(present)}. ` +
+          `Name the attribute that holds it in the config's "${use.key}" (doab init-config writes a config from your files)`,
+      });
+    } else {
+      problems.push({ severity: 'warning', place: { file, field: use.name }, message: `no feature has "${use.name}" (${use.what}): ${use.fallback} applies to every feature; map the attribute that holds it in the config's "${use.key}" if there is one` });
+    }
+  }
+  return problems;
+}
+
+function resolveCutNames<T extends object>(file: string, features: unknown[], fields: T, problems: Problem[]): T {
+  const present = presentAttributes(features);
   const resolved = { ...fields };
   for (const [key, name] of Object.entries(fields) as [keyof T & string, string][]) {
     const cut = name.slice(0, DBF_NAME_LENGTH);
@@ -288,6 +342,23 @@ function resolveCutNames<T extends object>(file: string, features: unknown[], fi
 export function checkLines(file: string, features: unknown[], rules: InputRules): Checked<LineRecord> {
   const cutWarnings: Problem[] = [];
   const f = resolveCutNames(file, features, rules.fields.lines, cutWarnings);
+  const present = presentAttributes(features);
+  const mapped = (key: keyof typeof f) => rules.fields.lines[key] !== DEFAULT_RULES.fields.lines[key];
+  const stageUses: FieldUse[] =
+    present.has(f.stage) || !(present.has(f.stageStart) || present.has(f.stageEnd))
+      ? [{ key: 'fields.lines.stage', name: f.stage, what: 'the water level', mapped: mapped('stage'), fallback: present.has(f.stageStart) && present.has(f.stageEnd) ? 'none' : null }]
+      : [
+          { key: 'fields.lines.stageStart', name: f.stageStart, what: 'the water level at the first vertex', mapped: mapped('stageStart'), fallback: null },
+          { key: 'fields.lines.stageEnd', name: f.stageEnd, what: 'the water level at the last vertex', mapped: mapped('stageEnd'), fallback: null },
+        ];
+  cutWarnings.push(
+    ...coverageProblems(file, features, [
+      { key: 'fields.lines.id', name: f.id, what: 'a unique id', mapped: mapped('id'), fallback: null },
+      { key: 'fields.lines.kind', name: f.kind, what: 'canal or drain', mapped: mapped('kind'), fallback: `the default kind "${rules.defaults.kind}"` },
+      ...stageUses.filter((use) => use.fallback !== 'none'),
+      ...(mapped('name') ? [{ key: 'fields.lines.name', name: f.name, what: 'a name', mapped: true, fallback: 'no name' }] : []),
+    ]),
+  );
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
   const checked = checkAll(file, features, f.id, 'canal and drain lines (LineString or MultiLineString)', (view, warn, attempt) => {
     const kind = attempt((): LineKind => {
@@ -296,7 +367,11 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       const word = typeof kindValue === 'string' || typeof kindValue === 'number' ? String(kindValue).trim().toLowerCase() : null;
       if (word !== null && rules.kindWords.canal.some((w) => w.toLowerCase() === word)) return 'canal';
       if (word !== null && rules.kindWords.drain.some((w) => w.toLowerCase() === word)) return 'drain';
-      throw new FeatureProblem(f.kind, `expected ${[...rules.kindWords.canal, ...rules.kindWords.drain].map((w) => `"${w}"`).join(' or ')}, found ${describeValue(kindValue)}`);
+      throw new FeatureProblem(
+        f.kind,
+        `expected ${[...rules.kindWords.canal, ...rules.kindWords.drain].map((w) => `"${w}"`).join(' or ')}, found ${describeValue(kindValue)}; ` +
+          'map your words to the two kinds in the config\'s "kindWords" ({"canal": [...], "drain": [...]})',
+      );
     });
     const given = (field: string) => view.properties[field] !== undefined && view.properties[field] !== null && view.properties[field] !== '';
     const stage = attempt(() => {
@@ -347,6 +422,16 @@ export const RECHARGE_PLAUSIBLE_MM_PER_YEAR = 3000;
 export function checkZones(file: string, features: unknown[], rules: InputRules): Checked<ZoneRecord> {
   const cutWarnings: Problem[] = [];
   const f = resolveCutNames(file, features, rules.fields.zones, cutWarnings);
+  const mapped = (key: keyof typeof f) => rules.fields.zones[key] !== DEFAULT_RULES.fields.zones[key];
+  cutWarnings.push(
+    ...coverageProblems(file, features, [
+      { key: 'fields.zones.id', name: f.id, what: 'a unique id', mapped: mapped('id'), fallback: null },
+      { key: 'fields.zones.k', name: f.k, what: `hydraulic conductivity, ${rules.units.k}`, mapped: mapped('k'), fallback: null },
+      { key: 'fields.zones.base', name: f.base, what: `the aquifer base elevation, ${rules.units.elevation}`, mapped: mapped('base'), fallback: null },
+      { key: 'fields.zones.ground', name: f.ground, what: `the ground elevation, ${rules.units.elevation}`, mapped: mapped('ground'), fallback: null },
+      { key: 'fields.zones.recharge', name: f.recharge, what: `areal recharge, ${rules.units.recharge}`, mapped: mapped('recharge'), fallback: `the default recharge of ${rules.defaults.recharge} ${rules.units.recharge}` },
+    ]),
+  );
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
   const checked = checkAll(file, features, f.id, 'aquifer zones (Polygon or MultiPolygon)', (view, warn, attempt) => {
     const kMPerDay = attempt(() => {

@@ -2,6 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
 import { DEFAULT_RULES } from '../../src/shared/input-rules.js';
 
+/** The problems of features, leaving out what is said once for a whole file (a default applied to every feature). */
+const featureProblems = <P extends { place: { featureIndex?: number } }>(problems: P[]): P[] => problems.filter((p) => p.place.featureIndex !== undefined);
+
 function lineFeature(properties: Record<string, unknown>, coordinates: number[][] = [[30, 29], [30.01, 29]]) {
   return { type: 'Feature', properties, geometry: { type: 'LineString', coordinates } };
 }
@@ -10,21 +13,21 @@ describe('line checks', () => {
   it('refuses an id with "|", which would make strip ids ambiguous', () => {
     const checked = checkLines('l.geojson', [lineFeature({ id: 'A|B', stage_m: 100 })], DEFAULT_RULES);
     expect(checked.records).toEqual([]);
-    expect(checked.problems[0]).toMatchObject({ severity: 'error', place: { featureIndex: 0, field: 'id' } });
-    expect(checked.problems[0].message).toMatch(/contains "\|"/);
+    expect(featureProblems(checked.problems)[0]).toMatchObject({ severity: 'error', place: { featureIndex: 0, field: 'id' } });
+    expect(featureProblems(checked.problems)[0].message).toMatch(/contains "\|"/);
   });
 
   it('warns when both a constant stage and start and end stages are given, and uses the constant', () => {
     const checked = checkLines('l.geojson', [lineFeature({ id: 'A', stage_m: 100, stage_start_m: 101, stage_end_m: 99 })], DEFAULT_RULES);
     expect(checked.records[0]).toMatchObject({ stageStartM: 100, stageEndM: 100, stageField: 'stage_m' });
-    expect(checked.problems).toHaveLength(1);
-    expect(checked.problems[0]).toMatchObject({ severity: 'warning', place: { field: 'stage_m' } });
+    expect(featureProblems(checked.problems)).toHaveLength(1);
+    expect(featureProblems(checked.problems)[0]).toMatchObject({ severity: 'warning', place: { field: 'stage_m' } });
   });
 
   it('warns of a line with no length', () => {
     const checked = checkLines('l.geojson', [lineFeature({ id: 'A', stage_m: 100 }, [[30, 29], [30, 29], [30, 29]])], DEFAULT_RULES);
     expect(checked.records).toHaveLength(1);
-    expect(checked.problems.map((p) => p.message)).toEqual([expect.stringMatching(/no length/)]);
+    expect(featureProblems(checked.problems).map((p) => p.message)).toEqual([expect.stringMatching(/no length/)]);
   });
 });
 
@@ -33,13 +36,13 @@ describe('every problem of a feature in one run', () => {
     const feature = { type: 'Feature', properties: { id: 'A', kind: 'river', stage_start_m: '100,5', stage_end_m: 'high' }, geometry: { type: 'Point', coordinates: [30, 29] } };
     const checked = checkLines('l.geojson', [feature], DEFAULT_RULES);
     expect(checked.records).toEqual([]);
-    expect(checked.problems.map((p) => [p.severity, p.place.field])).toEqual([
+    expect(featureProblems(checked.problems).map((p) => [p.severity, p.place.field])).toEqual([
       ['error', 'kind'],
       ['error', 'stage_start_m'],
       ['error', 'stage_end_m'],
       ['error', 'geometry'],
     ]);
-    expect(checked.problems[1].message).toMatch(/decimal comma\? write 100\.5/);
+    expect(featureProblems(checked.problems)[1].message).toMatch(/decimal comma\? write 100\.5/);
   });
 
   it('lists a zone\'s missing conductivity, ground below base and implausible recharge together', () => {
@@ -50,7 +53,7 @@ describe('every problem of a feature in one run', () => {
     };
     const checked = checkZones('z.geojson', [feature], DEFAULT_RULES);
     expect(checked.records).toEqual([]);
-    expect(checked.problems.map((p) => p.place.field)).toEqual(['k_m_d', 'ground_m', 'recharge_mm_yr']);
+    expect(featureProblems(checked.problems).map((p) => p.place.field)).toEqual(['k_m_d', 'ground_m', 'recharge_mm_yr']);
   });
 });
 
@@ -59,9 +62,9 @@ describe('zone geometry', () => {
     const flat = { type: 'Feature', properties: { id: 'Z', k_m_d: 10, base_m: 90, ground_m: 100 }, geometry: { type: 'Polygon', coordinates: [[[30, 29], [30.01, 29], [30.02, 29], [30, 29]]] } };
     const checked = checkZones('z.geojson', [flat], DEFAULT_RULES);
     expect(checked.records).toEqual([]);
-    expect(checked.problems).toHaveLength(1);
-    expect(checked.problems[0]).toMatchObject({ severity: 'error', place: { field: 'geometry' } });
-    expect(checked.problems[0].message).toMatch(/no area/);
+    expect(featureProblems(checked.problems)).toHaveLength(1);
+    expect(featureProblems(checked.problems)[0]).toMatchObject({ severity: 'error', place: { field: 'geometry' } });
+    expect(featureProblems(checked.problems)[0].message).toMatch(/no area/);
   });
 });
 

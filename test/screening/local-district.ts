@@ -26,6 +26,7 @@ export function box(id: string, properties: Record<string, unknown>, [x0, y0, x1
 export function screenLocal(lineFeatures: object[], zoneFeatures: object[], settings: Partial<ScreenSettings> = {}): ScreenResult {
   const lines = checkLines('lines.geojson', lineFeatures, DEFAULT_RULES);
   const zones = checkZones('zones.geojson', zoneFeatures, DEFAULT_RULES);
-  expect([...lines.problems, ...zones.problems]).toEqual([]);
+  // warnings (a default applied to every feature, say) are the tests' own business; errors are not
+  expect([...lines.problems, ...zones.problems].filter((p) => p.severity === 'error')).toEqual([]);
   return screenDistrict(lines.records, zones.records, { ...DEFAULT_SETTINGS, crs: WORK_CRS, ...settings });
 }

@@ -11,7 +11,7 @@ const lines = [
   line('A', { kind: 'canal', stage_m: 105 }, [[0, 0], [2000, 0]]),
   line('B', { kind: 'canal', stage_m: 103 }, [[0, -400], [2000, -400]]),
 ];
-const zone = { k_m_d: 10, base_m: 90, ground_m: 108 };
+const zone = { k_m_d: 10, base_m: 90, ground_m: 108, recharge_mm_yr: 0 };
 
 describe('gaps between zones', () => {
   it('bridges a 1 m digitising gap and still gives the closed-form seepage', () => {
