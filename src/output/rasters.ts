@@ -35,9 +35,17 @@ export function geoTiff(values: Float64Array, district: DistrictResult, crs: Wor
   const crsKeys = crs.epsg !== null
     ? { ProjectedCSTypeGeoKey: crs.epsg }
     : { ProjectedCSTypeGeoKey: USER_DEFINED, GTCitationGeoKey: `user-defined work CRS, no EPSG code: ${crs.proj4Def}` };
-  const buffer = writeArrayBuffer(northUp(values, columns, rows), {
+  const pixelBytes = columns * rows * 4;
+  // geotiff.js writes every pixel through a DataView of its own (about half a second a million
+  // pixels), so it writes the tags, sized for the whole image, around one pixel, and the pixels go
+  // after them here: one strip, big-endian 32-bit floats, as its header declares
+  const buffer = writeArrayBuffer(Float32Array.of(0), {
     width: columns,
     height: rows,
+    BitsPerSample: [32],
+    SampleFormat: [3],
+    SamplesPerPixel: [1],
+    StripByteCounts: [pixelBytes],
     ModelPixelScale: [cellM, cellM, 0],
     ModelTiepoint: [0, 0, 0, originX, originY + rows * cellM, 0],
     GTModelTypeGeoKey: MODEL_PROJECTED,
@@ -45,9 +53,16 @@ export function geoTiff(values: Float64Array, district: DistrictResult, crs: Wor
     ProjLinearUnitsGeoKey: LINEAR_METRE,
     ...crsKeys,
     GDAL_NODATA: `${RASTER_NODATA}`,
-    // geotiff.js writes every GeoKey it knows by name; its type lists only some of them
+  // geotiff.js writes every GeoKey it knows by name; its type lists only some of them
   } as unknown as Parameters<typeof writeArrayBuffer>[1]);
-  return new Uint8Array(buffer);
+  const header = new Uint8Array(buffer, 0, buffer.byteLength - 4);
+  if (header[0] !== 0x4d || header[1] !== 0x4d || new DataView(buffer).getUint32(4) !== 8) throw new Error('Unexpected TIFF header from geotiff.js: not big-endian with the first directory at byte 8.');
+  const out = new Uint8Array(header.length + pixelBytes);
+  out.set(header);
+  const view = new DataView(out.buffer, header.length);
+  const pixels = northUp(values, columns, rows);
+  for (let i = 0; i < pixels.length; i++) view.setFloat32(4 * i, pixels[i], false);
+  return out;
 }
 
 /** The two rasters of a run with the district solve, by file name. */

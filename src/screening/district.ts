@@ -138,20 +138,23 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
   const cellKind = new Uint8Array(n);
   const kMPerDay = new Float64Array(n), rechargeMPerDay = new Float64Array(n), baseM = new Float64Array(n), fixedHeadM = new Float64Array(n);
   const groundM = new Float64Array(n).fill(NaN);
+  // the zones' figures in typed arrays, so the loop over cells touches no object
+  const zoneK = Float64Array.from(zones, (z) => z.kMPerDay), zoneRecharge = Float64Array.from(zones, (z) => z.rechargeMPerDay);
+  const zoneBase = Float64Array.from(zones, (z) => z.baseM), zoneGround = Float64Array.from(zones, (z) => z.groundM);
+  const lineOf = burned.line;
   let dryLineCells = 0;
   for (let g = 0; g < n; g++) {
     const z = zoneOf[g];
     if (z < 0) continue;
-    const zone = zones[z];
-    kMPerDay[g] = zone.kMPerDay;
-    rechargeMPerDay[g] = zone.rechargeMPerDay;
-    baseM[g] = zone.baseM;
-    groundM[g] = zone.groundM;
-    const l = burned.line[g];
+    kMPerDay[g] = zoneK[z];
+    rechargeMPerDay[g] = zoneRecharge[z];
+    baseM[g] = zoneBase[z];
+    groundM[g] = zoneGround[z];
+    const l = lineOf[g];
     if (l >= 0) {
       cellKind[g] = CELL_FIXED;
       fixedHeadM[g] = stageAtChainage(lines[l], burned.chainageM[g], lineLengthsM[l]);
-      if (fixedHeadM[g] <= zone.baseM) dryLineCells++;
+      if (fixedHeadM[g] <= zoneBase[z]) dryLineCells++;
     } else cellKind[g] = CELL_FREE;
   }
   const cutOff = leaveOutUnreached(grid, cellKind);
