@@ -2,7 +2,7 @@
 // found in the user's files where a name makes the match plain, and every attribute listed.
 import { existsSync, lstatSync } from 'node:fs';
 import { basename, dirname } from 'node:path';
-import { DEFAULT_RULES, filesOfInput, readFeatureFile, realPathOf, SETTINGS, SETTING_KEYS, UsageError, writeAllOrNothing, type SettingKey } from '../index.js';
+import { CONDUCTIVITY_UNITS, DEFAULT_RULES, filesOfInput, RECHARGE_UNITS, readFeatureFile, realPathOf, SETTINGS, SETTING_KEYS, UsageError, writeAllOrNothing, type SettingKey } from '../index.js';
 import type { CliIo } from './io.js';
 
 export interface InitConfigOptions {
@@ -32,6 +32,19 @@ interface AttributeSummary {
   name: string;
   types: Set<string>;
   sample: unknown;
+}
+
+/** The distinct values an attribute takes, the first 20 of them (text as it is written). */
+function distinctValues(features: unknown[], name: string): string[] {
+  const values = new Set<string>();
+  for (const feature of features) {
+    const properties = (feature as { properties?: unknown } | null)?.properties;
+    if (properties === null || typeof properties !== 'object') continue;
+    const value = (properties as Record<string, unknown>)[name];
+    if (typeof value === 'string' || typeof value === 'number') values.add(String(value).slice(0, 40));
+    if (values.size >= 20) break;
+  }
+  return [...values];
 }
 
 function attributesOf(features: unknown[]): AttributeSummary[] {
@@ -96,17 +109,27 @@ export async function initConfigCommand(options: InitConfigOptions, io: CliIo): 
   const aquifer = await readFeatureFile(options.aquifer, { inputCrs: options.inputCrs });
   const lineAttributes = attributesOf(canals.features);
   const zoneAttributes = attributesOf(aquifer.features);
+  const matched = (section: 'lines' | 'zones', key: string) =>
+    match(`${section}.${key}`, section === 'lines' ? lineAttributes : zoneAttributes, (DEFAULT_RULES.fields[section] as unknown as Record<string, string>)[key]);
+  // one stage field, or a start and end pair, is enough: the other form is not missing
+  const stageSingle = matched('lines', 'stage').found;
+  const stagePair = matched('lines', 'stageStart').found && matched('lines', 'stageEnd').found;
   const field = (section: 'lines' | 'zones', key: string, comment: string) => {
-    const attributes = section === 'lines' ? lineAttributes : zoneAttributes;
-    const fallback = (DEFAULT_RULES.fields[section] as unknown as Record<string, string>)[key];
-    const hit = match(`${section}.${key}`, attributes, fallback);
-    const note = hit.found ? comment : `${comment}; NOT FOUND in your file: pick one of the attributes listed above`;
+    const hit = matched(section, key);
+    const alternative = (key === 'stage' && stagePair) || ((key === 'stageStart' || key === 'stageEnd') && stageSingle);
+    const note = hit.found ? comment : alternative ? `${comment}; not in your file, and not needed: the other stage form is` : `${comment}; NOT FOUND in your file: pick one of the attributes listed above`;
     return `      ${JSON.stringify(key)}: ${JSON.stringify(hit.name)}, // ${note}`;
   };
+  const kindHit = matched('lines', 'kind');
+  const kindValues = kindHit.found ? distinctValues(canals.features, kindHit.name) : [];
+  const command = (verb: string) =>
+    ['doab', verb, '--canals', options.canals, '--aquifer', options.aquifer, '--config', options.out].map((word) => (/^[\w./:-]+$/.test(word) ? word : `'${word.replace(/'/g, "'\\''")}'`)).join(' ');
   const crsLine = canals.sourceCrs ?? aquifer.sourceCrs;
   const text = `// doab config, started by \`doab init-config\` from ${basename(options.canals)} and ${basename(options.aquifer)}.
 // JSON with comments. Every key is optional; delete what you do not need. Options given on the
-// command line win over this file. Check the result with: doab check --canals ... --aquifer ... --config ${basename(options.out)}
+// command line win over this file. Check the result, then screen, with:
+//   ${command('check')}
+//   ${command('screen')} --out doab-out
 {
   // Which of your attributes holds each of doab's fields.
   // Attributes found in ${basename(options.canals)}:
@@ -128,9 +151,9 @@ ${field('zones', 'ground', 'ground elevation, in units.elevation')}
 ${field('zones', 'recharge', 'areal recharge, in units.recharge')}
     }
   },
-  // Your words for the two kinds of line (compared without case).
+  // Your words for the two kinds of line (compared without case).${kindValues.length > 0 ? `\n  // Values of "${kindHit.name}" in your file: ${kindValues.map((value) => JSON.stringify(value)).join(', ')}` : ''}
   "kindWords": { "canal": ["canal"], "drain": ["drain"] },
-  // Units of your attributes: k in "m/d", "m/s" or "cm/s"; recharge in "mm/yr" or "m/d";
+  // Units of your attributes: k in ${CONDUCTIVITY_UNITS.map((unit) => `"${unit}"`).join(', ')}; recharge in ${RECHARGE_UNITS.map((unit) => `"${unit}"`).join(', ')};
   // elevations (stages, base, ground) in "m" or "ft". All elevations in ONE vertical datum.
   "units": { "k": "m/d", "recharge": "mm/yr", "elevation": "m" },
   // Used where a feature leaves the attribute out (recharge in units.recharge).

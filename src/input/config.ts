@@ -3,7 +3,7 @@
 // types and unknown units are errors that name the key.
 import { parse, printParseErrorCode, type ParseError } from 'jsonc-parser';
 import { CONDUCTIVITY_UNITS, LENGTH_UNITS, RECHARGE_UNITS } from '../shared/units.js';
-import { DataError } from '../shared/errors.js';
+import { DataError, UsageError } from '../shared/errors.js';
 import { duplicateKeys, jsonDepth } from './read-text.js';
 import { cloneRules, DEFAULT_RULES, type InputRules } from '../shared/input-rules.js';
 import {
@@ -130,7 +130,10 @@ export function configFromValue(file: string, value: unknown, keyPrefix = ''): R
       else setSetting(config.settings, key as SettingKey, child);
     }
   } catch (error) {
-    throw new DataError({ file }, (error as Error).message);
+    const message = (error as Error).message;
+    // a unit doab does not know is a choice of the user's to change, listed with those it knows
+    if (/^"(settings\.)?units\./.test(message)) throw new UsageError(`${file}: ${message}`, 'units');
+    throw new DataError({ file }, message);
   }
   checkRisk(file, config.settings.risk);
   const drainWords = new Set(config.rules.kindWords.drain.map((word) => word.trim().toLowerCase()));

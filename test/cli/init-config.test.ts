@@ -40,8 +40,13 @@ describe('doab init-config', () => {
     const parsed = parseConfig(config, text);
     expect(parsed.rules.fields.lines).toMatchObject({ id: 'CANAL_ID', kind: 'TYPE', stage: 'WL', name: 'NAME' });
     expect(parsed.rules.fields.zones).toEqual({ id: 'ZONE', k: 'KSAT', base: 'BOT', ground: 'DEM', recharge: 'NET_RECHARGE' });
-    // no start and end stages in this file: said so, not guessed
-    expect(text).toMatch(/"stageStart": "stage_start_m", \/\/ .*NOT FOUND/);
+    // the kind attribute's own words are listed beside kindWords, for the user to map
+    expect(text).toContain('// Values of "TYPE" in your file: "CANAL"');
+    // a single stage field was found, so the start/end pair is not called missing
+    expect(text).toMatch(/"stageStart": "stage_start_m", \/\/ .*not in your file, and not needed: the other stage form is/);
+    expect(text).not.toMatch(/NOT FOUND/);
+    // the header's commands run as written
+    expect(text).toContain(`//   doab check --canals ${canals} --aquifer ${aquifer} --config ${config}`);
 
     // without the config the renamed file has no ids; with it, no problem at all
     expect((await runCliInProcess(['check', '--canals', canals, '--aquifer', aquifer])).status).toBe(1);

@@ -4,7 +4,7 @@
 //   1 ft = 0.3048 m exactly (international yard and pound agreement, 1959 [published])
 //   1 year = 365.25 d, the Julian year (IAU [published]); recharge in mm/yr is a long-run mean
 import { describe, expect, it } from 'vitest';
-import { DataError } from '../../src/shared/errors.js';
+import { DataError, UsageError } from '../../src/shared/errors.js';
 import { parseConfig } from '../../src/input/config.js';
 import { checkLines, checkZones } from '../../src/screening/district-inputs.js';
 
@@ -32,6 +32,11 @@ function zoneWith(configText: string, properties: Record<string, unknown>) {
 const relative = (got: number, expected: number) => Math.abs(got / expected - 1);
 
 describe('hydraulic conductivity units', () => {
+  it('ft/d: 1 ft/d = 0.3048 m/d exactly (international foot, 1959 agreement)', () => {
+    const { zone: z } = zoneWith('{ "units": { "k": "ft/d" } }', { k_m_d: 50, base_m: 0, ground_m: 10 });
+    expect(relative(z.kMPerDay, 15.24)).toBeLessThan(1e-12);
+  });
+
   it('cm/s: 1 cm/s = 0.01 m/s x 86 400 s/d = 864 m/d', () => {
     const { zone: z } = zoneWith('{ "units": { "k": "cm/s" } } // comments are allowed', { k_m_d: 0.01, base_m: 0, ground_m: 10 });
     expect(relative(z.kMPerDay, 8.64)).toBeLessThan(1e-12);
@@ -63,6 +68,14 @@ describe('recharge units', () => {
     // negative for net evaporation or pumping
     const dry = zoneWith('{}', { k_m_d: 10, base_m: 0, ground_m: 10, recharge_mm_yr: -730.5 });
     expect(relative(dry.zone.rechargeMPerDay, -0.002)).toBeLessThan(1e-12);
+  });
+
+  it('in/yr and mm/d: 1 in = 25.4 mm exactly (international inch, 1959 agreement), a year of 365.25 d', () => {
+    const { zone: inches } = zoneWith('{ "units": { "recharge": "in/yr" } }', { k_m_d: 10, base_m: 0, ground_m: 10, recharge_mm_yr: 10 });
+    // 10 in/yr = 254 mm/yr = 0.254 m / 365.25 d
+    expect(relative(inches.rechargeMPerDay, 0.254 / 365.25)).toBeLessThan(1e-12);
+    const { zone: daily } = zoneWith('{ "units": { "recharge": "mm/d" } }', { k_m_d: 10, base_m: 0, ground_m: 10, recharge_mm_yr: 0.5 });
+    expect(relative(daily.rechargeMPerDay, 0.0005)).toBeLessThan(1e-12);
   });
 
   it('m/d is taken as it is, and the default recharge is in the configured unit', () => {
@@ -113,8 +126,8 @@ describe('field names and units from the config together', () => {
     expect(relative(z.kMPerDay, 1.728)).toBeLessThan(1e-12);
   });
 
-  it('rejects a unit doab does not know, naming the key and the choices', () => {
-    expect(() => parseConfig('config.jsonc', '{ "units": { "elevation": "yd" } }')).toThrow(DataError);
+  it('rejects a unit doab does not know as a usage error, naming the key and the choices', () => {
+    expect(() => parseConfig('config.jsonc', '{ "units": { "elevation": "yd" } }')).toThrow(UsageError);
     expect(() => parseConfig('config.jsonc', '{ "units": { "elevation": "yd" } }')).toThrow(/config\.jsonc: "units\.elevation" must be one of "m", "ft", found "yd"/);
   });
 });
