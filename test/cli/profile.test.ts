@@ -8,12 +8,12 @@ import { freshDir, readCsv, readJson, ROOT, runCli } from './run-cli.js';
 
 const DEMO = join(ROOT, 'data-demo');
 
-/** A copy of the demo data screened into a run folder of its own. */
+/** A copy of the demo data screened into a run folder of its own (strips only: a profile draws a strip's transect). */
 function screenedCopy(): { data: string; run: string } {
   const data = freshDir('profile-data');
   for (const name of ['canals.geojson', 'aquifer.geojson']) copyFileSync(join(DEMO, name), join(data, name));
   const run = freshDir('profile-run');
-  const screen = runCli(['screen', '--canals', join(data, 'canals.geojson'), '--aquifer', join(data, 'aquifer.geojson'), '--out', run, '--quiet']);
+  const screen = runCli(['screen', '--canals', join(data, 'canals.geojson'), '--aquifer', join(data, 'aquifer.geojson'), '--out', run, '--quiet', '--strips-only']);
   expect(screen.status, screen.stderr).toBe(0);
   return { data, run };
 }
@@ -127,7 +127,7 @@ describe('profileCommand', () => {
   it('re-runs with the recorded settings, not the defaults', async () => {
     // a run with a coarser step has other strips; the profile must find them
     const coarse = freshDir('profile-coarse');
-    const screen = runCli(['screen', '--canals', join(data, 'canals.geojson'), '--aquifer', join(data, 'aquifer.geojson'), '--out', coarse, '--step', '250', '--quiet']);
+    const screen = runCli(['screen', '--canals', join(data, 'canals.geojson'), '--aquifer', join(data, 'aquifer.geojson'), '--out', coarse, '--step', '250', '--quiet', '--strips-only']);
     expect(screen.status, screen.stderr).toBe(0);
     const coarseStrips = readJson(join(coarse, 'strips.geojson')).features.map((f: any) => f.properties);
     const onlyCoarse = coarseStrips.find((s: any) => !strips.some((t) => t.strip_id === s.strip_id && t.length_m === s.length_m));
