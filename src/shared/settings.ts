@@ -117,10 +117,10 @@ export interface SettingSpec {
   advanced?: boolean;
 }
 
-// The demo's district solve at 20 m takes about 2 s. Halving the cell to 10 m changed the demo's
-// per-line losses by up to 9% of the larger ones (D-07; C-01 5%, the other drains under 1%) and far
-// more for lines whose net is a small difference of losses and gains, i.e. 1.1% of the district's
-// total line exchange: the 2% per line of the target needs a subgrid correction for line cells (measured; README).
+// The demo's district solve at 20 m takes about 3 s. Halving the cell to 10 m changed the per-line
+// losses of the demo's lines that meet no other line at a different stage by under 1%, but C-01's
+// by 5% and D-07's by 9.5% (less than 1% of the district's total line exchange): every junction of
+// the demo has a stage jump, and across one the exchange grows as the cell shrinks (measured; README).
 export const DEFAULT_DISTRICT_CELL_M = 20;
 
 // Default risk thresholds: Government of India, Ministry of Water Resources, working group on
