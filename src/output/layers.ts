@@ -34,12 +34,38 @@ export function ringToLonLat(crs: WorkCrs, ringM: Float64Array): [number, number
 /** A FeatureCollection (RFC 7946), or a GeoJSON text sequence (RFC 8142: each record led by RS, ended by LF). */
 export type LayerFormat = 'collection' | 'sequence';
 
+/** Which properties are real numbers: every number (`'all'`), or those named. */
+export type RealFields = 'all' | ReadonlySet<string>;
+
+export interface LayerFeature {
+  type: string;
+  properties: Record<string, unknown>;
+  geometry: object;
+}
+
+/**
+ * A feature as JSON, with every real-valued property written with a decimal point (400 as 400.0):
+ * JSON itself has one number type, and a reader that infers field types from the text (GDAL does)
+ * would otherwise call a field Integer in one run and Real in the next.
+ */
+export function featureJson(feature: LayerFeature, real: RealFields): string {
+  const fields: string[] = [];
+  for (const key of Object.keys(feature.properties)) {
+    const value = feature.properties[key];
+    const isReal = typeof value === 'number' && (real === 'all' || real.has(key));
+    const text = isReal && Number.isInteger(value) && Math.abs(value as number) < 1e21 ? `${value}.0` : (JSON.stringify(value) ?? 'null');
+    fields.push(`${JSON.stringify(key)}:${text}`);
+  }
+  return `{"type":"Feature","properties":{${fields.join(',')}},"geometry":${JSON.stringify(feature.geometry)}}`;
+}
+
 /** The layer's text in pieces of about a megabyte, one feature built at a time, so no layer is ever one string. */
-export function* featureCollection(features: Iterable<object>, format: LayerFormat): Generator<string> {
+export function* featureCollection(features: Iterable<LayerFeature>, format: LayerFormat, real: RealFields = 'all'): Generator<string> {
   let piece = format === 'sequence' ? '' : '{"type":"FeatureCollection","features":[';
   let first = true;
   for (const feature of features) {
-    piece += format === 'sequence' ? `\u001e${JSON.stringify(feature)}\n` : `${first ? '\n' : ',\n'}${JSON.stringify(feature)}`;
+    const json = featureJson(feature, real);
+    piece += format === 'sequence' ? `\u001e${json}\n` : `${first ? '\n' : ',\n'}${json}`;
     first = false;
     if (piece.length > 1 << 20) {
       yield piece;
@@ -110,6 +136,12 @@ function reasonsText(bySide: [Record<string, number>, Record<string, number>]): 
     .join('; ');
 }
 
+// doab's own numbers on the lines layer (the input's attributes go out as they came in)
+const LINE_REAL_FIELDS: ReadonlySet<string> = new Set([
+  'length_m', 'net_loss_m3_d', 'net_loss_m3_d_km', 'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d',
+  'strip_net_loss_m3_d_km', 'strip_diff_m3_d', 'paired_m', 'unpaired_m', 'solved_sides_m',
+]);
+
 export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
   return featureCollection(
     result.lines.map((line, i) => {
@@ -132,10 +164,11 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
       properties.solved_sides_m = roundNumber(summary.solvedSidesM);
       properties.unpaired_reasons = reasonsText(summary.unpairedBySideM);
       const parts = line.partsLonLat.map((part) => part.map(([lon, lat]) => [roundDegrees(lon), roundDegrees(lat)]));
-      const geometry = parts.length === 1 ? { type: 'LineString', coordinates: parts[0] } : { type: 'MultiLineString', coordinates: parts };
-      return { type: 'Feature', properties, geometry };
+      // one geometry type for the whole layer, so a GIS sees a line layer, not "any"
+      return { type: 'Feature' as const, properties, geometry: { type: 'MultiLineString', coordinates: parts } };
     }),
     format,
+    LINE_REAL_FIELDS,
   );
 }
 
@@ -144,7 +177,7 @@ export function transectsLayer(result: ScreenResult, format: LayerFormat = 'coll
 }
 
 // one feature at a time: a district can have millions of transects
-function* transectFeatures(result: ScreenResult): Generator<object> {
+function* transectFeatures(result: ScreenResult): Generator<LayerFeature> {
   const { stations, facings, results, lines, crs } = result;
   for (let i = 0; i < facings.count; i++) {
     if (facings.partner[i] < 0) continue;
