@@ -223,8 +223,19 @@ export function neutraliseCell(value: unknown): unknown {
 
 export const RANKING_COLUMNS = [
   'rank', 'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km',
-  'loss_m3_yr', 'min_depth_m', 'risk', 'risk_area_ha', 'flags',
+  'loss_m3_yr', 'losing_line', 'losing_share', 'min_depth_m', 'risk', 'risk_area_ha', 'flags',
 ] as const;
+
+/**
+ * The line that loses most of a strip's loss, and its share of it (0 to 1): a strip's loss can come
+ * wholly from line b while line a gains, and it is the losing line that lining would save.
+ */
+export function losingLine(strip: StripSummary): { id: string | null; share: number } {
+  const a = strip.lossAM3PerDay > 0 ? strip.lossAM3PerDay : 0;
+  const b = strip.lossBM3PerDay > 0 ? strip.lossBM3PerDay : 0;
+  if (!(a + b > 0)) return { id: null, share: NaN };
+  return a >= b ? { id: strip.lineAId, share: a / (a + b) } : { id: strip.lineBId, share: b / (a + b) };
+}
 
 export function rankingRow(strip: StripSummary, rank: number): Record<(typeof RANKING_COLUMNS)[number], unknown> {
   return {
@@ -237,10 +248,13 @@ export function rankingRow(strip: StripSummary, rank: number): Record<(typeof RA
     loss_m3_d: roundNumber(strip.lossM3PerDay),
     loss_m3_d_km: roundNumber(strip.lossM3PerDayKm),
     loss_m3_yr: roundNumber(m3PerDayToM3PerYear(strip.lossM3PerDay)),
+    losing_line: losingLine(strip).id,
+    losing_share: roundNumber(losingLine(strip).share),
     min_depth_m: roundNumber(strip.minDepthM),
     risk: strip.risk ?? 'unsolved',
     risk_area_ha: roundNumber(strip.riskAreaHa),
-    flags: strip.flags.join(';'),
+    // where the water table reaches the ground the seepage out at the surface is not modelled: the loss is not reliable
+    flags: [...strip.flags, ...(strip.risk === 'ponded' ? ['ponded-loss-unreliable'] : [])].join(';'),
   };
 }
 

@@ -4,7 +4,7 @@
 import { RANKING_COLUMNS } from '../output/layers.js';
 import { LINE_COLOURS, STRIP_CLASSES, patternId } from './palette.js';
 
-const TEXT_COLUMNS = new Set(['strip_id', 'line_a', 'line_b', 'flags']);
+const TEXT_COLUMNS = new Set(['strip_id', 'line_a', 'line_b', 'flags', 'losing_line']);
 
 /** How the table sorts a column of ranking.csv: as numbers, as text, or by risk class. */
 export function columnKind(column: string): 'num' | 'text' | 'risk' {

@@ -27,3 +27,15 @@ describe('layers written in pieces', () => {
     expect(layerText(featureCollection([], 'sequence'))).toBe('');
   });
 });
+
+describe('which line of a strip is losing', () => {
+  it('names the line with the larger positive loss and its share, and nothing when neither loses', async () => {
+    const { losingLine } = await import('../../src/output/layers.js');
+    const strip = (lossA: number, lossB: number) => ({ lineAId: 'A', lineBId: 'B', lossAM3PerDay: lossA, lossBM3PerDay: lossB }) as never;
+    // a gains 50 while b loses 200: b is the line to line, with all of the strip's loss
+    expect(losingLine(strip(-50, 200))).toEqual({ id: 'B', share: 1 });
+    expect(losingLine(strip(300, 100))).toEqual({ id: 'A', share: 0.75 });
+    expect(losingLine(strip(-1, -2)).id).toBeNull();
+    expect(losingLine(strip(Number.NaN, 40))).toEqual({ id: 'B', share: 1 });
+  });
+});
