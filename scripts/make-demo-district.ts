@@ -235,15 +235,15 @@ function zoneFeature(zone: ZoneSpec): object {
 
 // Steady Dupuit-Forchheimer flow across one zone with recharge N (W.W. Woessner and E.P. Poeter
 // (2020), section 7.3): u(x) = h0^2 - (h0^2 - hL^2) x/L + (N/K) x (L - x), u = h^2.
-function strip(h0: number, hL: number, widthM: number, kMPerDay: number, nMPerDay: number) {
+function strip(h0: number, hL: number, transectLengthM: number, kMPerDay: number, nMPerDay: number) {
   const du = h0 * h0 - hL * hL;
-  const qA = (kMPerDay * du) / (2 * widthM) - (nMPerDay * widthM) / 2; // leaves line a into the strip
-  const qB = (-kMPerDay * du) / (2 * widthM) - (nMPerDay * widthM) / 2; // leaves line b into the strip
-  const u = (x: number) => h0 * h0 - (du * x) / widthM + (nMPerDay / kMPerDay) * x * (widthM - x);
-  let peakX = du >= 0 ? 0 : widthM;
+  const qA = (kMPerDay * du) / (2 * transectLengthM) - (nMPerDay * transectLengthM) / 2; // leaves line a into the strip
+  const qB = (-kMPerDay * du) / (2 * transectLengthM) - (nMPerDay * transectLengthM) / 2; // leaves line b into the strip
+  const u = (x: number) => h0 * h0 - (du * x) / transectLengthM + (nMPerDay / kMPerDay) * x * (transectLengthM - x);
+  let peakX = du >= 0 ? 0 : transectLengthM;
   if (nMPerDay > 0) {
-    const divide = widthM / 2 - (kMPerDay * du) / (2 * nMPerDay * widthM);
-    if (divide > 0 && divide < widthM) peakX = divide;
+    const divide = transectLengthM / 2 - (kMPerDay * du) / (2 * nMPerDay * transectLengthM);
+    if (divide > 0 && divide < transectLengthM) peakX = divide;
   }
   return { qA, qB, peakX, peakH: Math.sqrt(u(peakX)) };
 }
@@ -307,15 +307,15 @@ function designCheck(): string[] {
     const onB = nearestOnLine(b, onA.point);
     const zone = zoneAt(onA.point);
     if (!zone || zoneAt(onB.point) !== zone) throw new Error(`Design check ${check.a}|${check.b} crosses zones; pick a station inside one zone.`);
-    const widthM = Math.hypot(onB.point[0] - onA.point[0], onB.point[1] - onA.point[1]);
+    const transectLengthM = Math.hypot(onB.point[0] - onA.point[0], onB.point[1] - onA.point[1]);
     const h0 = stageAt(a, onA.chainageM) - BASE_M, hL = stageAt(b, onB.chainageM) - BASE_M;
     const nMPerDay = zone.rechargeMmPerYear / 1000 / 365.25;
-    const s = strip(h0, hL, widthM, zone.kMPerDay, nMPerDay);
+    const s = strip(h0, hL, transectLengthM, zone.kMPerDay, nMPerDay);
     const depth = zone.groundM - BASE_M - s.peakH;
     rows.push(
       [
         `${check.a}|${check.b}`.padEnd(11),
-        widthM.toFixed(0).padStart(5),
+        transectLengthM.toFixed(0).padStart(5),
         h0.toFixed(2).padStart(6),
         hL.toFixed(2).padStart(5),
         String(zone.kMPerDay).padStart(6),
@@ -324,7 +324,7 @@ function designCheck(): string[] {
         (s.qA * 1000).toFixed(0).padStart(10),
         depth.toFixed(2).padStart(13),
         `  ${riskClass(depth).padEnd(11)}`,
-        (widthM / ((h0 + hL) / 2)).toFixed(1).padStart(5),
+        (transectLengthM / ((h0 + hL) / 2)).toFixed(1).padStart(5),
         `  ${check.note}`,
       ].join(' '),
     );

@@ -21,8 +21,8 @@ function line(id: string, properties: object, positions: [number, number][]): ob
   return { type: 'Feature', properties: { id, ...properties }, geometry: { type: 'LineString', coordinates: positions.map(([a, b]) => [round(a), round(b)]) } };
 }
 
-function box(id: string, properties: object, southWest: [number, number], widthM: number, heightM: number): object {
-  const se = move(southWest, 90, widthM);
+function box(id: string, properties: object, southWest: [number, number], transectLengthM: number, heightM: number): object {
+  const se = move(southWest, 90, transectLengthM);
   const ne = move(se, 0, heightM);
   const nw = move(southWest, 0, heightM);
   const ring = [southWest, se, ne, nw, southWest].map(([a, b]) => [round(a), round(b)]);

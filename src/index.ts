@@ -15,7 +15,7 @@ import { readTextFile } from './input/read-text.js';
 import type { OutputFile } from './output/atomic-write.js';
 import { writeAllOrNothing } from './output/atomic-write.js';
 import { roundNumber } from './output/format.js';
-import { linesLayer, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from './output/layers.js';
+import { linesLayer, linesTable, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from './output/layers.js';
 import { checkOutputFolder, writeRunFolder } from './output/output-folder.js';
 import { profileFileName, profileTable } from './output/profile-table.js';
 import { districtRasters } from './output/rasters.js';
@@ -115,6 +115,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
     { name: `strips.${extension}`, content: stripsLayer(result, format) },
     { name: `canals.${extension}`, content: linesLayer(result, format) },
     { name: 'ranking.csv', content: rankingTable(result) },
+    { name: 'lines.csv', content: linesTable(result) },
   ];
   if (result.settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
   if (result.district) for (const raster of districtRasters(result.district, result.crs)) files.push({ name: raster.name, content: [raster.content] });

@@ -265,3 +265,50 @@ export function rankingTable(result: ScreenResult): string {
   });
   return stringify([[...RANKING_COLUMNS], ...rows], { record_delimiter: 'unix' });
 }
+
+export const LINE_TABLE_COLUMNS = [
+  'rank', 'line_id', 'name', 'kind', 'length_m', 'net_loss_m3_d', 'net_loss_m3_d_km', 'net_loss_m3_yr', 'loss_method',
+  'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d', 'solved_sides_m', 'paired_m', 'unpaired_m',
+] as const;
+
+/**
+ * The lines in the order a planner lines them: by net loss per km (the district solve's figure
+ * when it ran), largest first; lines without a figure last; ties by id.
+ */
+export function rankedLines(result: ScreenResult): number[] {
+  const perKm = (i: number) => result.lineFigures[i].netLossM3PerDayKm;
+  return result.lines
+    .map((_, i) => i)
+    .sort((a, b) => {
+      const x = perKm(a), y = perKm(b);
+      if (Number.isNaN(x) || Number.isNaN(y)) return Number(Number.isNaN(x)) - Number(Number.isNaN(y)) || (result.lines[a].id < result.lines[b].id ? -1 : 1);
+      return y - x || (result.lines[a].id < result.lines[b].id ? -1 : result.lines[a].id > result.lines[b].id ? 1 : 0);
+    });
+}
+
+/** lines.csv: one row per line, ranked by net loss per km; the same columns the report's line table shows. */
+export function linesTable(result: ScreenResult): string {
+  const rows = rankedLines(result).map((i, rank) => {
+    const line = result.lines[i];
+    const figure = result.lineFigures[i];
+    const summary = result.lineSummaries[i];
+    const row: Record<(typeof LINE_TABLE_COLUMNS)[number], unknown> = {
+      rank: rank + 1,
+      line_id: line.id,
+      name: line.name ?? '',
+      kind: line.kind,
+      length_m: roundNumber(summary.lengthM),
+      net_loss_m3_d: roundNumber(figure.netLossM3PerDay),
+      net_loss_m3_d_km: roundNumber(figure.netLossM3PerDayKm),
+      net_loss_m3_yr: roundNumber(m3PerDayToM3PerYear(figure.netLossM3PerDay)),
+      loss_method: figure.method,
+      coarse_cell_diff_m3_d: roundNumber(figure.coarseDiffM3PerDay),
+      strip_net_loss_m3_d: roundNumber(figure.stripNetLossM3PerDay),
+      solved_sides_m: roundNumber(summary.solvedSidesM),
+      paired_m: roundNumber(summary.pairedM),
+      unpaired_m: roundNumber(summary.unpairedM),
+    };
+    return LINE_TABLE_COLUMNS.map((column) => neutraliseCell(row[column] ?? ''));
+  });
+  return stringify([[...LINE_TABLE_COLUMNS], ...rows], { record_delimiter: 'unix' });
+}

@@ -9,7 +9,7 @@ import { writeAllOrNothing, type OutputFile } from './atomic-write.js';
 
 /** Every name a screening run may write into its folder. */
 export const RUN_OUTPUT_NAMES: ReadonlySet<string> = new Set(
-  ['strips', 'canals', 'transects'].flatMap((layer) => [`${layer}.geojson`, `${layer}.geojsons`]).concat(['ranking.csv', 'report.html', 'run.json', 'water-table.tif', 'depth.tif']),
+  ['strips', 'canals', 'transects'].flatMap((layer) => [`${layer}.geojson`, `${layer}.geojsons`]).concat(['ranking.csv', 'lines.csv', 'report.html', 'run.json', 'water-table.tif', 'depth.tif']),
 );
 
 /** The real path of a path that may not exist yet: its nearest existing ancestor resolved, links followed. */

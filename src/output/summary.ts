@@ -1,6 +1,7 @@
 // The end-of-run summary printed to stdout: district totals, the top strips and the caution.
 import type { ScreenResult } from '../screening/screen.js';
 import { formatFixed } from './format.js';
+import { rankedLines } from './layers.js';
 import { CAUTION } from './run-record.js';
 
 export function summaryText(result: ScreenResult, top = 10, skipped = 0): string {
@@ -38,6 +39,13 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
     lines.push(
       `Line sides solved: ${formatFixed(totals.solvedSidesM / 1000, 1)} km of ${formatFixed(totals.sidesM / 1000, 1)} km; ` +
         'unpaired and unsolved sides are not counted, so these losses are a lower bound',
+    );
+  }
+  const ranked = rankedLines(result).filter((i) => result.lineFigures[i].netLossM3PerDay > 0).slice(0, 5);
+  if (ranked.length > 0) {
+    lines.push(
+      `Lines that lose most per km (${result.district ? 'district solve' : 'strips alone'}; all in lines.csv): ` +
+        ranked.map((i) => `${result.lines[i].id} ${formatFixed(result.lineFigures[i].netLossM3PerDayKm, 0)} m3/d/km`).join(', '),
     );
   }
   const byRisk = totals.stripsByRisk;

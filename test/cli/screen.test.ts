@@ -115,10 +115,12 @@ describe('doab screen on two parallel canals', () => {
 
 describe('doab screen on the demo district', () => {
   let out: string;
+  let run: ReturnType<typeof runCli>;
   let layers: ReturnType<typeof checkLayers>;
   beforeAll(() => {
     const result = screen(join(DEMO, 'canals.geojson'), join(DEMO, 'aquifer.geojson'));
     expect(result.run.status, result.run.stderr).toBe(0);
+    run = result.run;
     out = result.out;
     layers = checkLayers(out);
   });
@@ -133,6 +135,25 @@ describe('doab screen on the demo district', () => {
     const stripNet = layers.strips.features.reduce((a: number, f: any) => a + (f.properties.loss_a_m3_d ?? 0) + (f.properties.loss_b_m3_d ?? 0), 0);
     const stripLinesNet = layers.canals.features.reduce((a: number, f: any) => a + (f.properties.strip_net_loss_m3_d ?? 0), 0);
     expect(Math.abs(stripNet - stripLinesNet)).toBeLessThan(1e-3 * Math.max(1, Math.abs(positive)));
+  });
+
+  it('writes lines.csv: every line once, ranked by the net loss per km that canals.geojson carries', () => {
+    const rows = readCsv(join(out, 'lines.csv'));
+    expect(Object.keys(rows[0])).toEqual([
+      'rank', 'line_id', 'name', 'kind', 'length_m', 'net_loss_m3_d', 'net_loss_m3_d_km', 'net_loss_m3_yr', 'loss_method',
+      'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d', 'solved_sides_m', 'paired_m', 'unpaired_m',
+    ]);
+    expect(rows.map((row) => row.line_id).sort()).toEqual(layers.canals.features.map((f: any) => f.properties.id).sort());
+    const perKm = rows.map((row) => Number(row.net_loss_m3_d_km));
+    for (let i = 1; i < perKm.length; i++) expect(perKm[i]).toBeLessThanOrEqual(perKm[i - 1]);
+    for (const row of rows) {
+      const feature = layers.canals.features.find((f: any) => f.properties.id === row.line_id);
+      expect(Number(row.net_loss_m3_d)).toBe(feature.properties.net_loss_m3_d);
+      expect(row.loss_method).toBe(feature.properties.loss_method);
+      // a year is 365.25 days (Julian year, common practice); both figures are rounded to 6 digits
+      expect(Number(row.net_loss_m3_yr) / (Number(row.net_loss_m3_d) * 365.25)).toBeCloseTo(1, 4);
+    }
+    expect(run.stdout).toMatch(new RegExp(`Lines that lose most per km \\(district solve; all in lines\\.csv\\): ${rows[0].line_id} `));
   });
 
   it('ranks by loss per km, and the ranking and risk classes are not all alike', () => {
