@@ -90,6 +90,9 @@ describe('doab screen on lines whose ids look like formulas', () => {
     }
     const text = readFileSync(join(out, 'ranking.csv'), 'utf8');
     for (const line of text.split('\n').slice(1)) expect(line).not.toMatch(/(^|,)"?[=+\-@\t\r]/);
+    // the per-line table too (OWASP, CSV Injection)
+    const lineRows = readCsv(join(out, 'lines.csv'));
+    expect(lineRows.map((row) => row.line_id).sort()).toEqual(IDS.flat().map((id) => `'${id.trim()}`).sort());
   });
 
   it('keeps the ids as they are in the GeoJSON layers, which no spreadsheet evaluates', () => {
@@ -100,7 +103,7 @@ describe('doab screen on lines whose ids look like formulas', () => {
   it('writes only inside --out, every file complete, and leaves the inputs as they were', () => {
     const after = hashTree(dir);
     const outputs = Object.keys(after).filter((path) => path.startsWith('out/'));
-    expect(outputs.sort()).toEqual(['out/canals.geojson', 'out/depth.tif', 'out/ranking.csv', 'out/report.html', 'out/run.json', 'out/strips.geojson', 'out/water-table.tif']);
+    expect(outputs.sort()).toEqual(['out/canals.geojson', 'out/depth.tif', 'out/lines.csv', 'out/ranking.csv', 'out/report.html', 'out/run.json', 'out/strips.geojson', 'out/water-table.tif']);
     const inputsAfter = Object.fromEntries(Object.entries(after).filter(([path]) => !path.startsWith('out/')));
     expect(inputsAfter).toEqual(before);
     expect(readJson(join(out, 'run.json')).inputs.canals.sha256).toBe(createHash('sha256').update(readFileSync(join(inputs, 'canals.geojson'))).digest('hex'));
