@@ -286,28 +286,33 @@ export function rankedLines(result: ScreenResult): number[] {
     });
 }
 
-/** lines.csv: one row per line, ranked by net loss per km; the same columns the report's line table shows. */
+/** One row of lines.csv: line i of the result at a rank. */
+export function lineTableRow(result: ScreenResult, i: number, rank: number): Record<(typeof LINE_TABLE_COLUMNS)[number], unknown> {
+  const line = result.lines[i];
+  const figure = result.lineFigures[i];
+  const summary = result.lineSummaries[i];
+  return {
+    rank: rank + 1,
+    line_id: line.id,
+    name: line.name ?? '',
+    kind: line.kind,
+    length_m: roundNumber(summary.lengthM),
+    net_loss_m3_d: roundNumber(figure.netLossM3PerDay),
+    net_loss_m3_d_km: roundNumber(figure.netLossM3PerDayKm),
+    net_loss_m3_yr: roundNumber(m3PerDayToM3PerYear(figure.netLossM3PerDay)),
+    loss_method: figure.method,
+    coarse_cell_diff_m3_d: roundNumber(figure.coarseDiffM3PerDay),
+    strip_net_loss_m3_d: roundNumber(figure.stripNetLossM3PerDay),
+    solved_sides_m: roundNumber(summary.solvedSidesM),
+    paired_m: roundNumber(summary.pairedM),
+    unpaired_m: roundNumber(summary.unpairedM),
+  };
+}
+
+/** lines.csv: one row per line, ranked by net loss per km; the report's line table shows the same rows. */
 export function linesTable(result: ScreenResult): string {
   const rows = rankedLines(result).map((i, rank) => {
-    const line = result.lines[i];
-    const figure = result.lineFigures[i];
-    const summary = result.lineSummaries[i];
-    const row: Record<(typeof LINE_TABLE_COLUMNS)[number], unknown> = {
-      rank: rank + 1,
-      line_id: line.id,
-      name: line.name ?? '',
-      kind: line.kind,
-      length_m: roundNumber(summary.lengthM),
-      net_loss_m3_d: roundNumber(figure.netLossM3PerDay),
-      net_loss_m3_d_km: roundNumber(figure.netLossM3PerDayKm),
-      net_loss_m3_yr: roundNumber(m3PerDayToM3PerYear(figure.netLossM3PerDay)),
-      loss_method: figure.method,
-      coarse_cell_diff_m3_d: roundNumber(figure.coarseDiffM3PerDay),
-      strip_net_loss_m3_d: roundNumber(figure.stripNetLossM3PerDay),
-      solved_sides_m: roundNumber(summary.solvedSidesM),
-      paired_m: roundNumber(summary.pairedM),
-      unpaired_m: roundNumber(summary.unpairedM),
-    };
+    const row = lineTableRow(result, i, rank);
     return LINE_TABLE_COLUMNS.map((column) => neutraliseCell(row[column] ?? ''));
   });
   return stringify([[...LINE_TABLE_COLUMNS], ...rows], { record_delimiter: 'unix' });

@@ -3,7 +3,7 @@
 // CSS, inline SVG and one small inline script; a Content-Security-Policy forbids every fetch.
 import { FACING_REASON_NAMES } from '../geometry/index.js';
 import { CAUTION } from '../output/run-record.js';
-import { RANKING_COLUMNS, rankingRow } from '../output/layers.js';
+import { lineTableRow, RANKING_COLUMNS, rankedLines, rankingRow } from '../output/layers.js';
 import { keyFacing, profileOfFacing } from '../screening/profile.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { escapeHtml } from './escape.js';
@@ -180,6 +180,34 @@ function rankingSection(result: ScreenResult, rowsShown: number): string {
   );
 }
 
+// the line table's columns as a reader wants them: words with units, numbers rounded for reading (lines.csv keeps six digits)
+const LINE_HEADINGS: [string, string, (value: unknown) => string][] = [
+  ['rank', 'Rank', (v) => String(v)],
+  ['line_id', 'Line', (v) => String(v)],
+  ['name', 'Name', (v) => String(v ?? '')],
+  ['kind', 'Kind', (v) => String(v)],
+  ['length_m', 'Length (km)', (v) => formatFixed((v as number) / 1000, 2)],
+  ['net_loss_m3_d', 'Net loss (m³/d)', (v) => formatGrouped(v as number)],
+  ['net_loss_m3_d_km', 'Net loss per km (m³/d per km)', (v) => formatGrouped(v as number)],
+  ['loss_method', 'From', (v) => (v === 'district' ? 'district solve' : 'strips alone')],
+  ['coarse_cell_diff_m3_d', 'Change at twice the cell (m³/d)', (v) => formatGrouped(v as number)],
+  ['strip_net_loss_m3_d', 'Strips alone (m³/d)', (v) => formatGrouped(v as number)],
+];
+
+function linesSection(result: ScreenResult): string {
+  const head = LINE_HEADINGS.map(([, heading]) => `<th scope="col">${escapeHtml(heading)}</th>`).join('');
+  const rows = rankedLines(result).map((i, rank) => {
+    const row = lineTableRow(result, i, rank) as Record<string, unknown>;
+    return `<tr>${LINE_HEADINGS.map(([column, , show]) => `<td>${escapeHtml(row[column] === null ? '-' : show(row[column]))}`).join('')}</tr>`;
+  });
+  return (
+    `<section id="lines"><h2>Lines by loss per km</h2><p class="run-line">Every line, ranked by the net loss per km a planner lines by ` +
+    `(${result.district ? 'from the district solve, the whole water table' : 'from the strips alone: no district solve ran'}); the rows of lines.csv. ` +
+    `A negative net loss is a line that takes in water (a drain, mostly).</p>` +
+    `<div class="table-wrap"><table id="lines-table" class="lines"><thead><tr>${head}</tr></thead><tbody>\n${rows.join('\n')}\n</tbody></table></div></section>`
+  );
+}
+
 function settingRows(settings: object, prefix = ''): string[] {
   const rows: string[] = [];
   for (const [key, value] of Object.entries(settings)) {
@@ -222,6 +250,6 @@ export function renderReport(result: ScreenResult, meta: ReportMeta): string {
     `<header><h1>doab screening report</h1><p class="run-line">${result.counts.lines} lines, ${result.counts.strips} strips, ` +
     `work CRS ${escapeHtml(result.crs.name)}; doab ${escapeHtml(meta.version)}</p></header>\n` +
     `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${mapSection(result)}\n${profilesSection(result, top)}\n` +
-    `${rankingSection(result, rowsShown)}\n${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`
+    `${linesSection(result)}\n${rankingSection(result, rowsShown)}\n${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`
   );
 }

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { formatGrouped } from '../../src/output/format.js';
 import { FACING_PAIRED } from '../../src/geometry/index.js';
-import { rankingTable, stripProperties } from '../../src/output/layers.js';
+import { linesTable, rankingTable, stripProperties } from '../../src/output/layers.js';
 import { escapeHtml } from '../../src/report/escape.js';
 import { renderReport, type ReportMeta } from '../../src/report/report.js';
 import type { ScreenResult } from '../../src/screening/screen.js';
@@ -44,6 +44,17 @@ describe('renderReport on the demo district', () => {
     expect(rows).toHaveLength(csv.length - 1);
     // the demo has no text that CSV would quote, so a plain join is the CSV line
     rows.forEach((cells, i) => expect(cells.join(','), `row ${i + 1}`).toBe(csv[i + 1]));
+  });
+
+  it('lists every line in the order of lines.csv, with headings in words and units', () => {
+    const csv = linesTable(result).trimEnd().split('\n').slice(1);
+    const section = /<section id="lines">(.*?)<\/section>/s.exec(html)?.[1] ?? '';
+    const headings = [...section.matchAll(/<th scope="col">([^<]*)<\/th>/g)].map((m) => m[1]);
+    expect(headings).toContain('Net loss per km (m³/d per km)');
+    expect(headings.every((h) => !/_/.test(h))).toBe(true);
+    const ids = [...section.matchAll(/<tr><td>\d+<td>([^<]*)/g)].map((m) => m[1]);
+    expect(ids).toEqual(csv.map((line) => line.split(',')[1]));
+    expect(ids).toHaveLength(result.lines.length);
   });
 
   it('loads nothing from anywhere: no URL but the SVG namespace, no external reference', () => {
