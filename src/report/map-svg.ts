@@ -8,7 +8,7 @@ import type { ScreenResult } from '../screening/screen.js';
 import { escapeHtml } from './escape.js';
 import { formatFixed, formatGrouped, roundDown125 } from '../output/format.js';
 import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES, patternId, stripPatternDefs, type StripClass } from './palette.js';
-import { fitView, pathData, type MapView } from './svg-path.js';
+import { fitView, pathData, tenthX, tenthY, type MapView } from './svg-path.js';
 import { depthImage } from './depth-image.js';
 
 export interface MapOptions {
@@ -218,6 +218,69 @@ function depthRaster(result: ScreenResult, view: MapView): string {
   );
 }
 
+/** Aquifer zones: an outline each, with the zone's id and K as its title and, where it is large enough, as a label. */
+function zoneLayer(result: ScreenResult, view: MapView, minStepPx: number): string {
+  const { polygons } = result.zoneIndex;
+  const shapes: string[] = [];
+  const labels: string[] = [];
+  const labelled = new Set<number>();
+  for (let p = 0; p < polygons.count; p++) {
+    const zone = result.zones[polygons.zone[p]];
+    const title = `zone ${zone.id}: K ${formatFixed(zone.kMPerDay, zone.kMPerDay < 1 ? 3 : 1)} m/d, recharge ${formatFixed(zone.rechargeMPerDay * 1000 * 365.25, 0)} mm/yr, base ${formatFixed(zone.baseM, 1)} m, ground ${formatFixed(zone.groundM, 1)} m`;
+    const d = polygons.rings[p].map((ring) => pathData(view, ring, minStepPx, true)).join('');
+    shapes.push(`<path class="map-zone" d="${d}"><title>${escapeHtml(title)}</title></path>`);
+    // one label a zone, in its largest polygon's box, and only where the box is wide enough to hold it
+    const outer = polygons.rings[p][0];
+    let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
+    for (let i = 0; i < outer.length; i += 2) {
+      minX = Math.min(minX, outer[i]); maxX = Math.max(maxX, outer[i]);
+      minY = Math.min(minY, outer[i + 1]); maxY = Math.max(maxY, outer[i + 1]);
+    }
+    if (labelled.has(polygons.zone[p]) || (maxX - minX) * view.pxPerM < 120 || (maxY - minY) * view.pxPerM < 40) continue;
+    labelled.add(polygons.zone[p]);
+    labels.push(
+      `<text class="map-zone-label" x="${tenthX(view, minX) / 10 + 4}" y="${tenthY(view, maxY) / 10 + 12}">${escapeHtml(`${zone.id}: K ${formatFixed(zone.kMPerDay, zone.kMPerDay < 1 ? 3 : 1)} m/d`)}</text>`,
+    );
+  }
+  return `<g class="map-zones">\n${shapes.join('\n')}\n${labels.join('\n')}\n</g>\n`;
+}
+
+/**
+ * A label on each line (its id, along the line at mid-chainage), thinned where crowded: the lines
+ * that lose most per km are labelled first, and a label that would overlap one already placed is left out.
+ */
+function lineLabels(result: ScreenResult, view: MapView): string {
+  const order = result.lines.map((_, i) => i).sort((a, b) => (lineLossPerKm(result, b) ?? -Infinity) - (lineLossPerKm(result, a) ?? -Infinity) || a - b);
+  const placed: [number, number, number, number][] = [];
+  const labels: string[] = [];
+  for (const i of order) {
+    const parts = result.geometries[i].parts;
+    const part = parts.reduce((longest, candidate) => (candidate.length > longest.length ? candidate : longest), parts[0]);
+    if (!part || part.length < 4) continue;
+    // the midpoint by chainage of the longest part, and the direction of the segment there
+    let total = 0;
+    for (let v = 2; v < part.length; v += 2) total += Math.hypot(part[v] - part[v - 2], part[v + 1] - part[v - 1]);
+    let run = 0, v = 2;
+    for (; v < part.length - 2; v += 2) {
+      const step = Math.hypot(part[v] - part[v - 2], part[v + 1] - part[v - 1]);
+      if (run + step >= total / 2) break;
+      run += step;
+    }
+    const x = (tenthX(view, part[v - 2]) + tenthX(view, part[v])) / 20, y = (tenthY(view, part[v - 1]) + tenthY(view, part[v + 1])) / 20;
+    let angle = (Math.atan2(tenthY(view, part[v + 1]) - tenthY(view, part[v - 1]), tenthX(view, part[v]) - tenthX(view, part[v - 2])) * 180) / Math.PI;
+    // text reads left to right
+    if (angle > 90) angle -= 180;
+    if (angle < -90) angle += 180;
+    const text = result.lines[i].id;
+    const half = (text.length * 6.5) / 2 + 3;
+    const box: [number, number, number, number] = [x - half, y - half, x + half, y + half];
+    if (placed.some((b) => b[0] < box[2] && box[0] < b[2] && b[1] < box[3] && box[1] < b[3])) continue;
+    placed.push(box);
+    labels.push(`<text class="map-line-label" x="${Math.round(x * 10) / 10}" y="${Math.round(y * 10) / 10}" transform="rotate(${Math.round(angle)} ${Math.round(x * 10) / 10} ${Math.round(y * 10) / 10})" dy="-4">${escapeHtml(text)}</text>`);
+  }
+  return `<g class="map-line-labels">\n${labels.join('\n')}\n</g>\n`;
+}
+
 export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}): DistrictMap {
   const widthPx = options.widthPx ?? 1000;
   const minStepPx = options.minStepPx ?? 1;
@@ -262,9 +325,11 @@ export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}
     `<defs>${stripPatternDefs()}</defs>` +
     `<rect class="map-frame" x="0.5" y="0.5" width="${view.widthPx - 1}" height="${view.heightPx - 1}"/>\n` +
     raster +
+    zoneLayer(result, view, minStepPx) +
     `<g class="map-strips${result.district ? ' over-raster' : ''}">\n${strips}\n</g>\n` +
     (unpaired ? `<path class="map-unpaired" stroke-width="${Math.round(widths.unpairedPx * 10) / 10}" d="${unpaired}"><title>unpaired reaches: neither side faces a partner line</title></path>\n` : '') +
     `<g class="map-lines">\n${drains}\n${canals}\n</g>\n` +
+    lineLabels(result, view) +
     `${scaleBar(view)}${northArrow(view)}</svg>`;
   return { svg, key: mapKey(result, widths) };
 }

@@ -43,6 +43,9 @@ h3{font-size:13px;margin:12px 0 4px}
 .key-swatch{flex:none}
 .key-note{color:var(--muted);font-size:12px;margin:4px 0}
 .map-frame{fill:#fbfbf8;stroke:#999}
+.map-zone{fill:#8c7b5a;fill-opacity:.06;stroke:#8c7b5a;stroke-width:1;stroke-dasharray:2 2}
+.map-zone-label{font-size:11px;fill:#6b5d40}
+.map-line-label{font-size:10px;fill:#1d1d1d;text-anchor:middle;paint-order:stroke;stroke:#fff;stroke-width:3px;stroke-linejoin:round;pointer-events:none}
 .strip-shape{stroke:#3a3a3a;stroke-width:.4;fill-opacity:.9}
 .over-raster .strip-shape{fill-opacity:.35;stroke-width:.8}
 .map-depth{image-rendering:pixelated;opacity:.8}
