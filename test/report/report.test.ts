@@ -57,6 +57,15 @@ describe('renderReport on the demo district', () => {
     expect(ids).toHaveLength(result.lines.length);
   });
 
+  it('draws every zone polygon with its id and K, and labels lines by id without repeating one', () => {
+    expect(count(html, /<path class="map-zone"/g)).toBe(result.zoneIndex.polygons.count);
+    for (const zone of result.zones) expect(html).toContain(`<title>zone ${escapeHtml(zone.id)}: K `);
+    const labels = [...html.matchAll(/<text class="map-line-label"[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]);
+    expect(labels.length).toBeGreaterThan(result.lines.length / 2);
+    expect(new Set(labels).size).toBe(labels.length);
+    for (const label of labels) expect(result.lines.map((line) => escapeHtml(line.id))).toContain(label);
+  });
+
   it('loads nothing from anywhere: no URL but the SVG namespace, no external reference', () => {
     const urls = [...html.matchAll(/https?:\/\/[^\s"'<>)]*/g)].map((m) => m[0]);
     expect(urls.length).toBeGreaterThan(0);
