@@ -455,13 +455,9 @@ function checkEveryFreeGroupMeetsAFixedCell(grid: DistrictGrid): void {
     while (top > 0) {
       const g = stack[--top];
       size++;
-      const col = g % columns;
       for (let side = 0; side < 4; side++) {
-        let gj: number;
-        if (side === 0) { if (col === 0) continue; gj = g - 1; }
-        else if (side === 1) { if (col + 1 === columns) continue; gj = g + 1; }
-        else if (side === 2) { if (g < columns) continue; gj = g - columns; }
-        else { if (g + columns >= n) continue; gj = g + columns; }
+        const gj = cellNeighbour(g, side, columns, n);
+        if (gj < 0) continue;
         const kind = cellKind[gj];
         if (kind === CELL_FIXED) meetsFixed = true;
         else if (kind === CELL_FREE && !seen[gj]) {
@@ -477,4 +473,13 @@ function checkEveryFreeGroupMeetsAFixedCell(grid: DistrictGrid): void {
       );
     }
   }
+}
+
+/** The cell beside cell g on a side (0 west, 1 east, 2 south, 3 north), or -1 past the grid's edge. */
+export function cellNeighbour(g: number, side: number, columns: number, cells: number): number {
+  const col = g % columns;
+  if (side === 0) return col === 0 ? -1 : g - 1;
+  if (side === 1) return col + 1 === columns ? -1 : g + 1;
+  if (side === 2) return g < columns ? -1 : g - columns;
+  return g + columns >= cells ? -1 : g + columns;
 }

@@ -8,7 +8,7 @@ import { fillZones, polygonCells } from '../geometry/grid-fill.js';
 import { gridOver, gridSize, zonesExtent, type Grid } from '../geometry/grid.js';
 import type { LineTable } from '../geometry/lines.js';
 import type { ZonePolygons } from '../geometry/zones.js';
-import { CELL_FIXED, CELL_FREE, CELL_OUTSIDE, solveDistrict, type DistrictGrid, type DistrictSolveStatus } from '../hydraulics/district-solver.js';
+import { CELL_FIXED, CELL_FREE, CELL_OUTSIDE, cellNeighbour, solveDistrict, type DistrictGrid, type DistrictSolveStatus } from '../hydraulics/district-solver.js';
 import { UsageError } from '../shared/errors.js';
 import { RISK_CLASSES, riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
@@ -192,13 +192,9 @@ function leaveOutUnreached(grid: Grid, cellKind: Uint8Array): number {
   for (let g = 0; g < cells; g++) if (cellKind[g] === CELL_FIXED) { reached[g] = 1; stack[top++] = g; }
   while (top > 0) {
     const g = stack[--top];
-    const col = g % columns;
     for (let side = 0; side < 4; side++) {
-      let gj: number;
-      if (side === 0) { if (col === 0) continue; gj = g - 1; }
-      else if (side === 1) { if (col + 1 === columns) continue; gj = g + 1; }
-      else if (side === 2) { if (g < columns) continue; gj = g - columns; }
-      else { if (g + columns >= cells) continue; gj = g + columns; }
+      const gj = cellNeighbour(g, side, columns, cells);
+      if (gj < 0) continue;
       if (cellKind[gj] === CELL_FREE && !reached[gj]) { reached[gj] = 1; stack[top++] = gj; }
     }
   }
