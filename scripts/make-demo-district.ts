@@ -227,6 +227,9 @@ function zoneFeature(zone: ZoneSpec): object {
     base_m: BASE_M,
     ground_m: zone.groundM,
     recharge_mm_yr: zone.rechargeMmPerYear,
+    // beyond the district's edge the regional water table stands about 4 m below ground (invented):
+    // the district solve holds that head where the zone meets the aquifer's outer edge
+    edge_head_m: Math.round((zone.groundM - 4) * 10) / 10,
   };
   return { type: 'Feature', properties, geometry };
 }

@@ -26,6 +26,7 @@ const ALIASES: Record<string, string[]> = {
   'zones.base': ['basem', 'base', 'bottom', 'bot', 'aquiferbase'],
   'zones.ground': ['groundm', 'ground', 'gl', 'dem', 'surface', 'elevation', 'elev'],
   'zones.recharge': ['rechargemmyr', 'recharge', 'netrecharge'],
+  'zones.edgeHead': ['edgeheadm', 'edgehead', 'boundaryhead'],
 };
 
 interface AttributeSummary {
@@ -117,7 +118,14 @@ export async function initConfigCommand(options: InitConfigOptions, io: CliIo): 
   const field = (section: 'lines' | 'zones', key: string, comment: string) => {
     const hit = matched(section, key);
     const alternative = (key === 'stage' && stagePair) || ((key === 'stageStart' || key === 'stageEnd') && stageSingle);
-    const note = hit.found ? comment : alternative ? `${comment}; not in your file, and not needed: the other stage form is` : `${comment}; NOT FOUND in your file: pick one of the attributes listed above`;
+    const optional = key === 'edgeHead';
+    const note = hit.found
+      ? comment
+      : alternative
+        ? `${comment}; not in your file, and not needed: the other stage form is`
+        : optional
+          ? `${comment}; not in your file, so no flow across the aquifer's outer edge`
+          : `${comment}; NOT FOUND in your file: pick one of the attributes listed above`;
     return `      ${JSON.stringify(key)}: ${JSON.stringify(hit.name)}, // ${note}`;
   };
   const kindHit = matched('lines', 'kind');
@@ -149,6 +157,7 @@ ${field('zones', 'k', 'hydraulic conductivity, in units.k')}
 ${field('zones', 'base', 'aquifer base elevation, in units.elevation')}
 ${field('zones', 'ground', 'ground elevation, in units.elevation')}
 ${field('zones', 'recharge', 'areal recharge, in units.recharge')}
+${field('zones', 'edgeHead', 'optional: the head held where the zone meets the aquifer\'s outer edge (else no flow there), in units.elevation')}
     }
   },
   // Your words for the two kinds of line (compared without case).${kindValues.length > 0 ? `\n  // Values of "${kindHit.name}" in your file: ${kindValues.map((value) => JSON.stringify(value)).join(', ')}` : ''}

@@ -57,7 +57,7 @@ const SCHEMA: Section = {
   ...settingsSection(),
   fields: {
     lines: { id: text, kind: text, name: text, stage: text, stageStart: text, stageEnd: text },
-    zones: { id: text, k: text, base: text, ground: text, recharge: text },
+    zones: { id: text, k: text, base: text, ground: text, recharge: text, edgeHead: text },
   },
   units: { k: oneOf(CONDUCTIVITY_UNITS), recharge: oneOf(RECHARGE_UNITS), elevation: oneOf(LENGTH_UNITS) },
   defaults: { kind: oneOf(['canal', 'drain']), recharge: finite },

@@ -56,7 +56,8 @@ function districtRecord(result: ScreenResult) {
       recharge_m3_d: roundNumber(balance.rechargeM3PerDay),
       line_loss_m3_d: roundNumber(balance.lineLossM3PerDay),
       line_gain_m3_d: roundNumber(balance.lineGainM3PerDay),
-      outer_edge_m3_d: 0,
+      outer_edge_in_m3_d: roundNumber(balance.edgeInM3PerDay),
+      outer_edge_out_m3_d: roundNumber(balance.edgeOutM3PerDay),
       residual_m3_d: roundNumber(balance.residualM3PerDay),
       // three digits, never rounded to 0: how well the balance closes is the point of the figure
       residual_relative: Number(balance.residualRelative.toPrecision(3)),

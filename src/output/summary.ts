@@ -17,7 +17,9 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
     );
     lines.push(
       `Water balance, cell by cell: recharge ${formatFixed(b.rechargeM3PerDay, 0)} + from losing line cells ${formatFixed(b.lineLossM3PerDay, 0)} - to gaining line cells ${formatFixed(b.lineGainM3PerDay, 0)} ` +
-        `= ${b.residualM3PerDay.toPrecision(2)} m3/d (no flow across the aquifer's outer edge)`,
+        (b.edgeInM3PerDay > 0 || b.edgeOutM3PerDay > 0
+          ? `+ in across the outer edge ${formatFixed(b.edgeInM3PerDay, 0)} - out across it ${formatFixed(b.edgeOutM3PerDay, 0)} = ${b.residualM3PerDay.toPrecision(2)} m3/d (edge heads where zones give one; no flow elsewhere)`
+          : `= ${b.residualM3PerDay.toPrecision(2)} m3/d (no flow across the aquifer's outer edge: no zone gives an edge head)`),
     );
     lines.push(
       `Area with water table < ${result.settings.risk.waterloggedDepthM} m below ground (district solve, banks left out): ${formatFixed(totals.riskAreaHa, 1)} ha; ` +

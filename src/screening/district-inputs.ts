@@ -39,6 +39,8 @@ export interface ZoneRecord {
   baseM: number;
   groundM: number;
   rechargeMPerDay: number;
+  /** The head held where the zone meets the aquifer's outer edge (m), or null: no flow across the edge there. */
+  edgeHeadM: number | null;
   /** Polygons in lon/lat: each is its outer ring then holes. */
   polygonsLonLat: number[][][][];
 }
@@ -430,6 +432,7 @@ export function checkZones(file: string, features: unknown[], rules: InputRules)
       { key: 'fields.zones.base', name: f.base, what: `the aquifer base elevation, ${rules.units.elevation}`, mapped: mapped('base'), fallback: null },
       { key: 'fields.zones.ground', name: f.ground, what: `the ground elevation, ${rules.units.elevation}`, mapped: mapped('ground'), fallback: null },
       { key: 'fields.zones.recharge', name: f.recharge, what: `areal recharge, ${rules.units.recharge}`, mapped: mapped('recharge'), fallback: `the default recharge of ${rules.defaults.recharge} ${rules.units.recharge}` },
+      ...(mapped('edgeHead') ? [{ key: 'fields.zones.edgeHead', name: f.edgeHead, what: 'the head on the outer edge', mapped: true, fallback: 'no flow across the outer edge' }] : []),
     ]),
   );
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
@@ -459,10 +462,18 @@ export function checkZones(file: string, features: unknown[], rules: InputRules)
       }
       return recharge;
     });
+    const edgeHeadM = attempt(() => {
+      const given = numberField(view, f.edgeHead, Number.NaN);
+      if (Number.isNaN(given)) return null;
+      const head = toM(given);
+      if (baseM !== undefined && !(head > baseM)) throw new FeatureProblem(f.edgeHead, `edge head ${head} m must lie above the aquifer base ${baseM} m`);
+      return head;
+    });
     const polygonsLonLat = attempt(() => polygonList(view));
     // with any part undefined the feature has an error and checkAll leaves the record out
     return {
       index: 0,
+      edgeHeadM: edgeHeadM ?? null,
       featureIndex: view.index,
       id: view.id as string,
       kMPerDay: kMPerDay as number,

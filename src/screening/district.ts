@@ -49,9 +49,12 @@ export interface DistrictBalance {
   /** What losing lines give the aquifer, and gaining lines take from it (both >= 0, m^3/d). */
   lineLossM3PerDay: number;
   lineGainM3PerDay: number;
-  /** recharge + loss - gain: 0 for an exact solve (m^3/d); there is no flow across the outer edge. */
+  /** What enters and leaves the aquifer across its outer edge where a zone holds an edge head (both >= 0, m^3/d); 0 where the edge is no-flow. */
+  edgeInM3PerDay: number;
+  edgeOutM3PerDay: number;
+  /** recharge + loss - gain + edge in - edge out: 0 for an exact solve (m^3/d). */
   residualM3PerDay: number;
-  /** |residual| over the largest of the three terms. */
+  /** |residual| over the largest of the terms. */
   residualRelative: number;
   /** Largest imbalance of one free cell: its recharge less what it sends to its neighbours (m^3/d). */
   largestCellResidualM3PerDay: number;
@@ -143,6 +146,7 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
   // the zones' figures in typed arrays, so the loop over cells touches no object
   const zoneK = Float64Array.from(zones, (z) => z.kMPerDay), zoneRecharge = Float64Array.from(zones, (z) => z.rechargeMPerDay);
   const zoneBase = Float64Array.from(zones, (z) => z.baseM), zoneGround = Float64Array.from(zones, (z) => z.groundM);
+  const zoneEdgeHead = Float64Array.from(zones, (z) => (z.edgeHeadM === null ? Number.NaN : z.edgeHeadM));
   const lineOf = burned.line;
   let dryLineCells = 0;
   for (let g = 0; g < n; g++) {
@@ -157,6 +161,10 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
       cellKind[g] = CELL_FIXED;
       fixedHeadM[g] = stageAtChainage(lines[l], burned.chainageM[g], lineLengthsM[l]);
       if (fixedHeadM[g] <= zoneBase[z]) dryLineCells++;
+    } else if (!Number.isNaN(zoneEdgeHead[z]) && onOuterEdge(grid, zoneOf, g)) {
+      // the zone's part of the aquifer's outer edge holds the head its attribute gives (a river, a regional water table)
+      cellKind[g] = CELL_FIXED;
+      fixedHeadM[g] = zoneEdgeHead[z];
     } else cellKind[g] = CELL_FREE;
   }
   const cutOff = leaveOutUnreached(grid, cellKind);
@@ -181,6 +189,15 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     cutOffAreaM2: cutOff * cellM * cellM,
     dryLineCells,
   };
+}
+
+/** Whether an aquifer cell touches the aquifer's outer edge: a side on no zone, or on the grid's own edge. */
+function onOuterEdge(grid: Grid, zoneOf: Int32Array, g: number): boolean {
+  for (let side = 0; side < 4; side++) {
+    const gj = cellNeighbour(g, side, grid.columns, grid.cells);
+    if (gj < 0 || zoneOf[gj] < 0) return true;
+  }
+  return false;
 }
 
 /** Free cells joined to no line cell have no steady water table: marks them outside; returns how many. */
@@ -211,6 +228,8 @@ function lineLosses(solve: GridSolve, lineCount: number): { loss: Float64Array; 
   // fixed cells ascend, so every line's sum runs in one fixed order
   for (let k = 0; k < solve.fixedCells.length; k++) {
     const l = solve.burned.line[solve.fixedCells[k]];
+    // a fixed cell of no line holds an edge head: its exchange is the edge's, not a line's
+    if (l < 0) continue;
     loss[l] += solve.exchangeM3PerDay[k];
     cells[l]++;
   }
@@ -330,18 +349,23 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
     return { minDepthM: counted ? minDepthM : NaN, shallowAreaHa: shallow, risk: counted ? riskClass(minDepthM, settings.risk) : null };
   });
 
-  let lossSum = 0, gainSum = 0;
+  let lossSum = 0, gainSum = 0, edgeIn = 0, edgeOut = 0;
   for (let k = 0; k < fine.exchangeM3PerDay.length; k++) {
     const e = fine.exchangeM3PerDay[k];
-    if (e > 0) lossSum += e;
+    if (fine.burned.line[fine.fixedCells[k]] < 0) {
+      if (e > 0) edgeIn += e;
+      else edgeOut -= e;
+    } else if (e > 0) lossSum += e;
     else gainSum -= e;
   }
-  const residual = fine.totalRechargeM3PerDay + lossSum - gainSum;
-  const largest = Math.max(Math.abs(fine.totalRechargeM3PerDay), lossSum, gainSum);
+  const residual = fine.totalRechargeM3PerDay + lossSum - gainSum + edgeIn - edgeOut;
+  const largest = Math.max(Math.abs(fine.totalRechargeM3PerDay), lossSum, gainSum, edgeIn, edgeOut);
   const balance: DistrictBalance = {
     rechargeM3PerDay: fine.totalRechargeM3PerDay,
     lineLossM3PerDay: lossSum,
     lineGainM3PerDay: gainSum,
+    edgeInM3PerDay: edgeIn,
+    edgeOutM3PerDay: edgeOut,
     residualM3PerDay: residual,
     residualRelative: largest > 0 ? Math.abs(residual) / largest : 0,
     largestCellResidualM3PerDay: fine.largestCellResidualM3PerDay,

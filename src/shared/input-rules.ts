@@ -18,6 +18,8 @@ export interface ZoneFields {
   base: string;
   ground: string;
   recharge: string;
+  /** Optional: the head held along the zone's part of the aquifer's outer edge (elevation). */
+  edgeHead: string;
 }
 
 export interface InputRules {
@@ -36,7 +38,7 @@ export interface InputRules {
 export const DEFAULT_RULES: InputRules = {
   fields: {
     lines: { id: 'id', kind: 'kind', name: 'name', stage: 'stage_m', stageStart: 'stage_start_m', stageEnd: 'stage_end_m' },
-    zones: { id: 'id', k: 'k_m_d', base: 'base_m', ground: 'ground_m', recharge: 'recharge_mm_yr' },
+    zones: { id: 'id', k: 'k_m_d', base: 'base_m', ground: 'ground_m', recharge: 'recharge_mm_yr', edgeHead: 'edge_head_m' },
   },
   units: { k: 'm/d', recharge: 'mm/yr', elevation: 'm' },
   defaults: { kind: 'canal', recharge: 0 },
