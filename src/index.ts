@@ -125,10 +125,11 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       version: VERSION,
       commandLine,
       inputs: [
-        { label: 'canals', path: district.canals.path, sha256: district.canals.sha256 },
-        { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256 },
+        { label: 'canals', path: district.canals.path, sha256: district.canals.sha256, sourceCrs: district.canals.sourceCrs },
+        { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256, sourceCrs: district.aquifer.sourceCrs },
       ],
       inputWarnings: district.problems.map(formatProblem),
+      rules: config.rules,
     }),
   });
   const outputs = [...files.map((file) => file.name), 'run.json'];

@@ -82,7 +82,7 @@ export function resolveSourceCrs(spec: string): SourceCrs {
     const authority = /AUTHORITY\s*\[\s*"EPSG"\s*,\s*"?(\d+)"?\s*\]\s*\]\s*$/i.exec(text) ?? /ID\s*\[\s*"EPSG"\s*,\s*(\d+)\s*\]\s*\]\s*$/i.exec(text);
     if (authority) return resolveSourceCrs(`EPSG:${authority[1]}`);
     if (/^GEOG/i.test(text) && /WGS[ _]?(?:19)?84/i.test(text)) return { label: 'WKT (WGS 84 lon/lat)', toLonLat: null, warnings };
-    return { label: 'WKT', toLonLat: checked('the WKT definition', () => transformFrom(text)), warnings };
+    return { label: wktLabel(text), toLonLat: checked('the WKT definition', () => transformFrom(text)), warnings };
   }
   throw new Error(`unrecognised CRS "${text.slice(0, 80)}"; use EPSG:<code>, a proj4 string starting with "+proj=", or WKT`);
 }
@@ -93,4 +93,13 @@ function checked<T>(what: string, make: () => T): T {
   } catch (error) {
     throw new Error(`proj4 cannot use ${what.slice(0, 80)}: ${error instanceof Error ? error.message : String(error)}`);
   }
+}
+
+/** A WKT definition by name and, where it carries one, its EPSG code: "WKT: WGS_1984_UTM_Zone_43N (EPSG:32643)". */
+export function wktLabel(text: string): string {
+  const name = /^\s*[A-Z_]+\s*\[\s*"([^"]{1,120})"/i.exec(text)?.[1];
+  // the authority of the whole CRS is the last one, just before its closing bracket
+  const code = /(?:AUTHORITY\s*\[\s*"EPSG"\s*,\s*"?(\d+)"?\s*\]|ID\s*\[\s*"EPSG"\s*,\s*(\d+)\s*\])\s*\]\s*$/i.exec(text);
+  const epsg = code ? code[1] ?? code[2] : null;
+  return `WKT${name ? `: ${name}` : ''}${epsg ? ` (EPSG:${epsg})` : ''}`;
 }

@@ -6,6 +6,7 @@ import { CAUTION } from '../output/run-record.js';
 import { lineTableRow, RANKING_COLUMNS, rankedLines, rankingRow } from '../output/layers.js';
 import { keyFacing, profileOfFacing } from '../screening/profile.js';
 import type { ScreenResult } from '../screening/screen.js';
+import type { InputRules } from '../shared/input-rules.js';
 import { escapeHtml } from './escape.js';
 import { formatFixed, formatGrouped } from '../output/format.js';
 import { renderDistrictMap } from './map-svg.js';
@@ -17,6 +18,8 @@ export interface ReportInput {
   label: string;
   path: string;
   sha256: string;
+  /** The CRS the file was written in, as the reader named it; null for lon/lat (WGS 84) as RFC 7946 asks. */
+  sourceCrs?: string | null;
 }
 
 export interface ReportMeta {
@@ -32,6 +35,8 @@ export interface ReportMeta {
    * 10,000 rows again after each sort takes seconds in a browser, and the first rows are the ones read.
    */
   rowsShown?: number;
+  /** How the inputs were read (field names, units, defaults), for the record. */
+  rules?: InputRules;
 }
 
 /** The assumptions behind every number in the report, as the README states them. */
@@ -219,14 +224,29 @@ function settingRows(settings: object, prefix = ''): string[] {
 
 function runSection(result: ScreenResult, meta: ReportMeta): string {
   const inputs = meta.inputs
-    .map((input) => `<tr><th scope="row">${escapeHtml(input.label)}</th><td>${escapeHtml(input.path)}</td><td class="hash">${escapeHtml(input.sha256)}</td></tr>`)
+    .map(
+      (input) =>
+        `<tr><th scope="row">${escapeHtml(input.label)}</th><td>${escapeHtml(input.path)}</td>` +
+        `<td>${escapeHtml(input.sourceCrs ?? 'lon/lat, WGS 84 (EPSG:4326), as RFC 7946 asks')}</td><td class="hash">${escapeHtml(input.sha256)}</td></tr>`,
+    )
     .join('');
+  const rules = meta.rules;
+  const mapping = rules
+    ? `<h3>How the inputs were read</h3><table class="facts"><tbody>` +
+      (['lines', 'zones'] as const)
+        .map((kind) => `<tr><th scope="row">${kind} fields</th><td>${escapeHtml(Object.entries(rules.fields[kind]).map(([field, name]) => `${field}: ${name}`).join(', '))}</td></tr>`)
+        .join('') +
+      `<tr><th scope="row">units of the inputs</th><td>${escapeHtml(`K in ${rules.units.k}, recharge in ${rules.units.recharge}, elevations in ${rules.units.elevation}`)}; every output is in metres and days whatever the input units</td></tr>` +
+      `<tr><th scope="row">defaults</th><td>${escapeHtml(`kind ${rules.defaults.kind} where a line gives none, recharge ${rules.defaults.recharge} ${rules.units.recharge} where a zone gives none; kind words: canal = ${rules.kindWords.canal.join(', ')}; drain = ${rules.kindWords.drain.join(', ')}`)} (a default that applied to every feature is among the warnings above)</td></tr>` +
+      `</tbody></table>`
+    : '';
   return (
     `<section id="run"><h2>Run</h2><table class="facts"><tbody>` +
     `<tr><th scope="row">doab version</th><td>${escapeHtml(meta.version)}</td></tr>` +
     `<tr><th scope="row">command line</th><td class="hash">${escapeHtml(shellWords(meta.commandLine))}</td></tr>` +
     `<tr><th scope="row">work CRS</th><td>${escapeHtml(result.crs.name)}</td></tr></tbody></table>` +
-    `<h3>Inputs</h3><table class="facts"><thead><tr><th>input</th><th>path</th><th>SHA-256</th></tr></thead><tbody>${inputs}</tbody></table>` +
+    `<h3>Inputs</h3><table class="facts"><thead><tr><th>input</th><th>path</th><th>written in</th><th>SHA-256</th></tr></thead><tbody>${inputs}</tbody></table>` +
+    mapping +
     `<h3>Settings</h3><table class="facts settings"><tbody>${settingRows(result.settings).join('')}</tbody></table></section>`
   );
 }

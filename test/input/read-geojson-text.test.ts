@@ -71,3 +71,12 @@ describe('a UTF-8 byte order mark', () => {
     expect(file.features).toEqual(FEATURES);
   });
 });
+
+describe('a source CRS written as WKT is named, with its EPSG code where it carries one', () => {
+  it('reads the name and the authority of the whole CRS', async () => {
+    const { wktLabel } = await import('../../src/input/source-crs.js');
+    // an ESRI-style .prj (no authority) and an OGC WKT1 with one, as GDAL writes them (OGC 01-009, WKT1 [published])
+    expect(wktLabel('PROJCS["WGS_1984_UTM_Zone_43N",GEOGCS["GCS_WGS_1984",DATUM["D_WGS_1984",SPHEROID["WGS_1984",6378137.0,298.257223563]]],PROJECTION["Transverse_Mercator"],UNIT["Meter",1.0]]')).toBe('WKT: WGS_1984_UTM_Zone_43N');
+    expect(wktLabel('PROJCS["WGS 84 / UTM zone 43N",GEOGCS["WGS 84",AUTHORITY["EPSG","4326"]],UNIT["metre",1,AUTHORITY["EPSG","9001"]],AUTHORITY["EPSG","32643"]]')).toBe('WKT: WGS 84 / UTM zone 43N (EPSG:32643)');
+  });
+});

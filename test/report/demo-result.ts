@@ -25,9 +25,10 @@ export async function screenFiles(canals: string, aquifer: string, settings: Par
     version: '0.0.0-test',
     commandLine: ['doab', 'screen', '--canals', canals, '--aquifer', aquifer, '--out', 'out dir'],
     inputs: [
-      { label: 'canals', path: canals, sha256: district.canals.sha256 },
-      { label: 'aquifer', path: aquifer, sha256: district.aquifer.sha256 },
+      { label: 'canals', path: canals, sha256: district.canals.sha256, sourceCrs: district.canals.sourceCrs },
+      { label: 'aquifer', path: aquifer, sha256: district.aquifer.sha256, sourceCrs: district.aquifer.sourceCrs },
     ],
+    rules: config.rules,
   };
   return { result, meta };
 }
