@@ -94,6 +94,9 @@ function spreadLabels(labels: { y: number; text: string; colour: string }[], min
   for (let i = 1; i < labels.length; i++) if (labels[i].y - labels[i - 1].y < minGap) labels[i].y = labels[i - 1].y + minGap;
 }
 
+// a white outline behind text drawn over lines, so a label stays readable where a line crosses it
+const HALO = ' stroke="#ffffff" stroke-width="3" paint-order="stroke"';
+
 export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = {}): string {
   const width = options.widthPx ?? 680, height = options.heightPx ?? 380;
   const plotW = width - MARGIN.left - MARGIN.right, plotH = height - MARGIN.top - MARGIN.bottom;
@@ -164,15 +167,15 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   for (const label of rightLabels) parts.push(`<text x="${r(xL + 8)}" y="${r(label.y)}" fill="${label.colour}">${label.text}</text>`);
 
   // stages: an open triangle pointing down onto the water level at each line, labelled below it
-  const stage = (xM: number, stageM: number, lineId: string, anchor: 'start' | 'end') => {
+  const stage = (xM: number, stageM: number, lineId: string, anchor: 'start' | 'end', letter: 'a' | 'b') => {
     const x = px(xM), y = py(stageM);
     parts.push(`<path class="profile-stage" d="M${r(x)} ${r(y)}l-6 -10h12z" fill="#ffffff" stroke="${OKABE_ITO.blue}" stroke-width="1.5"/>`);
     parts.push(`<path d="M${r(x - 9)} ${r(y)}h18" stroke="${OKABE_ITO.blue}" stroke-width="1.5"/>`);
     const tx = anchor === 'start' ? x + 6 : x - 6;
-    parts.push(`<text x="${r(tx)}" y="${r(y + 16)}" text-anchor="${anchor}" fill="#00456B">${escapeHtml(lineId)} stage ${formatFixed(stageM, 2)} m</text>`);
+    parts.push(`<text x="${r(tx)}" y="${r(y + 16)}" text-anchor="${anchor}" fill="#00456B"${HALO}>line ${letter}: ${escapeHtml(lineId)}, stage ${formatFixed(stageM, 2)} m</text>`);
   };
-  stage(0, profile.stageAM, profile.lineA, 'start');
-  stage(profile.transectLengthM, profile.stageBM, profile.lineB, 'end');
+  stage(0, profile.stageAM, profile.lineA, 'start', 'a');
+  stage(profile.transectLengthM, profile.stageBM, profile.lineB, 'end', 'b');
 
   // the peak, labelled with its elevation; at a line it is labelled on the strip's side
   const peakX = px(profile.peakOffsetM), peakY = py(profile.peakWaterTableM);
@@ -182,9 +185,9 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   // at a line the highest water table is that line's stage, not a mound between the lines
   const atLine = profile.peakOffsetM <= 1e-6 * transectLengthM || profile.peakOffsetM >= transectLengthM * (1 - 1e-6);
   const peakWord = atLine ? 'highest, at the line' : 'peak';
-  parts.push(`<text x="${r(labelX)}" y="${r(peakY - 24)}" text-anchor="${peakAnchor}" font-size="10" fill="#333333">${peakWord}</text>`);
+  parts.push(`<text x="${r(labelX)}" y="${r(peakY - 24)}" text-anchor="${peakAnchor}" font-size="10" fill="#333333"${HALO}>${peakWord}</text>`);
   parts.push(
-    `<text class="peak-label" data-strip-id="${escapeHtml(profile.stripId)}" x="${r(labelX)}" y="${r(peakY - 12)}" text-anchor="${peakAnchor}" font-weight="bold">` +
+    `<text class="peak-label" data-strip-id="${escapeHtml(profile.stripId)}" x="${r(labelX)}" y="${r(peakY - 12)}" text-anchor="${peakAnchor}" font-weight="bold"${HALO}>` +
       `${peakLabelText(profile.peakWaterTableM)}</text>`,
   );
 
@@ -207,9 +210,13 @@ export function renderProfileSvg(profile: Profile, options: ProfileSvgOptions = 
   axis.push(`<text x="${r((x0 + xL) / 2)}" y="${r(xAxisY + 34)}" text-anchor="middle">distance from line a (${escapeHtml(profile.lineA)}), m</text>`);
   axis.push(`<text transform="translate(14 ${r(MARGIN.top + plotH / 2)}) rotate(-90)" text-anchor="middle">elevation, m${vertical.gap ? ' (axis broken)' : ''}</text>`);
 
+  // how much the drawing stretches heights against lengths: a planner reading slopes off it needs to know
+  const horizontalPxPerM = plotW / transectLengthM;
+  const verticalPxPerM = Math.abs(py(vertical.highM - 1) - py(vertical.highM));
+  const exaggeration = verticalPxPerM / horizontalPxPerM;
   const title =
-    `<text x="${MARGIN.left}" y="16" font-weight="bold" font-size="12">Strip ${escapeHtml(profile.stripId)}: ${escapeHtml(profile.lineA)} to ${escapeHtml(profile.lineB)}</text>` +
-    `<text x="${MARGIN.left}" y="30" fill="#444444">width ${formatGrouped(profile.transectLengthM)} m; seepage ${formatFixed(profile.seepageAM2PerDay, 3)} and ` +
+    `<text x="${MARGIN.left}" y="16" font-weight="bold" font-size="12">Strip ${escapeHtml(profile.stripId)}: line a ${escapeHtml(profile.lineA)} to line b ${escapeHtml(profile.lineB)}</text>` +
+    `<text x="${MARGIN.left}" y="30" fill="#444444">vertical exaggeration ${Number(exaggeration.toPrecision(2))} times${vertical.gap ? ' above the break' : ''}; width ${formatGrouped(profile.transectLengthM)} m; seepage ${formatFixed(profile.seepageAM2PerDay, 3)} and ` +
     `${formatFixed(profile.seepageBM2PerDay, 3)} m²/d; smallest depth ${formatFixed(profile.minDepthM, 2)} m</text>`;
   const note = `<text x="${MARGIN.left}" y="${height - 6}" fill="#555555" font-size="10">Screening estimate (steady Dupuit-Forchheimer): confirm in the field.</text>`;
 

@@ -27,13 +27,24 @@ describe('renderProfileSvg', () => {
     expect([...svg.matchAll(/class="profile-stage"/g)]).toHaveLength(2);
     expect([...svg.matchAll(/class="profile-depth"/g)]).toHaveLength(2);
     for (const part of ['profile-ground', 'profile-water-table', 'profile-base']) expect(svg).toContain(`class="${part}"`);
-    expect(svg).toContain(`${profile.lineA} stage ${profile.stageAM.toFixed(2)} m`);
-    expect(svg).toContain(`${profile.lineB} stage ${profile.stageBM.toFixed(2)} m`);
+    expect(svg).toContain(`line a: ${profile.lineA}, stage ${profile.stageAM.toFixed(2)} m`);
+    expect(svg).toContain(`line b: ${profile.lineB}, stage ${profile.stageBM.toFixed(2)} m`);
     expect(svg).toContain('2.0 m deep: waterlogged');
     expect(svg).toContain('3.0 m deep: potential');
     expect(svg).toContain(`aquifer base ${profile.baseM.toFixed(2)} m`);
     expect(svg).toContain(`distance from line a (${profile.lineA}), m`);
     expect(svg).toMatch(/elevation, m/);
+  });
+
+  it('states its vertical exaggeration, as the ticks of its two axes measure it', () => {
+    const stated = Number(/vertical exaggeration ([\d.]+) times/.exec(svg)?.[1]);
+    // pixels per metre up the elevation axis (two neighbouring ticks) over pixels per metre along the distance axis
+    const yTicks = [...svg.matchAll(/<path d="M[\d.]+ ([\d.]+)h-5" stroke="#333333"\/><text[^>]*>([\d.]+)<\/text>/g)].map((m) => [Number(m[1]), Number(m[2])]);
+    const xTicks = [...svg.matchAll(/<path d="M([\d.]+) [\d.]+v5" stroke="#333333"\/><text[^>]*>([\d\u2009]+)<\/text>/g)].map((m) => [Number(m[1]), Number(m[2].replace(/\u2009/g, ''))]);
+    const vertical = Math.abs((yTicks[1][0] - yTicks[0][0]) / (yTicks[1][1] - yTicks[0][1]));
+    const horizontal = Math.abs((xTicks[1][0] - xTicks[0][0]) / (xTicks[1][1] - xTicks[0][1]));
+    expect(stated / (vertical / horizontal)).toBeGreaterThan(0.97);
+    expect(stated / (vertical / horizontal)).toBeLessThan(1.03);
   });
 
   it('labels the peak with its elevation, over the peak', () => {
