@@ -102,6 +102,8 @@ export interface WriteRunOptions {
   commandLine?: string[];
   /** Layers as GeoJSON text sequences (RFC 8142) instead of FeatureCollections. */
   format?: LayerFormat;
+  /** When the run started (ISO 8601), for the record and the report; default now, null to leave it out. */
+  startedAt?: string | null;
 }
 
 /** The files of a run, in the order they are written: layers, table, report, run record. */
@@ -111,6 +113,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
   const format = options.format ?? 'collection';
   const extension = format === 'sequence' ? 'geojsons' : 'geojson';
   const commandLine = options.commandLine ?? ['doab'];
+  const startedAt = options.startedAt === undefined ? new Date().toISOString() : options.startedAt;
   const files: OutputFile[] = [
     { name: `strips.${extension}`, content: stripsLayer(result, format) },
     { name: `canals.${extension}`, content: linesLayer(result, format) },
@@ -124,6 +127,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
     content: renderReport(result, {
       version: VERSION,
       commandLine,
+      startedAt,
       inputs: [
         { label: 'canals', path: district.canals.path, sha256: district.canals.sha256, sourceCrs: district.canals.sourceCrs },
         { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256, sourceCrs: district.aquifer.sourceCrs },
@@ -138,6 +142,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
     content: runRecord(result, {
       version: VERSION,
       commandLine,
+      startedAt,
       canals: district.canals,
       aquifer: district.aquifer,
       config: options.configFile ?? null,

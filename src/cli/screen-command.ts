@@ -40,6 +40,7 @@ export function runConfig(options: { config?: string; [flag: string]: unknown })
 }
 
 export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
+  const startedAt = new Date().toISOString();
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
   // before any work: never an output over an input, nor over a file doab did not write
   checkOutputFolder(options.out, [options.canals, options.aquifer, options.config].flatMap((path) => (path ? filesOfInput(path) : [])));
@@ -60,6 +61,7 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     config,
     configFile: options.config ?? null,
     commandLine: ['doab', ...argv],
+    startedAt,
     format: options.seq ? 'sequence' : 'collection',
   });
   log(`wrote ${written.join(', ')} to ${options.out}${removed.length > 0 ? `; removed ${removed.join(', ')} left by the previous run` : ''}`);

@@ -22,6 +22,8 @@ export interface InputFacts {
 export interface RunMeta {
   version: string;
   commandLine: string[];
+  /** When the run started (ISO 8601, UTC); null to leave it out (a library caller wanting identical records). */
+  startedAt: string | null;
   canals: InputFacts;
   aquifer: InputFacts;
   config: string | null;
@@ -74,6 +76,8 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
   const record = {
     tool: 'doab',
     version: meta.version,
+    title: result.settings.title,
+    started_at: meta.startedAt,
     command_line: meta.commandLine,
     // in config-file form, so that a later run (doab profile) reads them with the config parser
     settings: { ...settingsAsConfig(settings), ...meta.rules },

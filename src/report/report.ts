@@ -25,6 +25,8 @@ export interface ReportInput {
 export interface ReportMeta {
   version: string;
   commandLine: string[];
+  /** When the run started (ISO 8601, UTC), as the run record has it; null when not recorded. */
+  startedAt?: string | null;
   inputs: ReportInput[];
   /** Cross-sections drawn for this many of the top-ranked strips; default 10. */
   topProfiles?: number;
@@ -243,6 +245,7 @@ function runSection(result: ScreenResult, meta: ReportMeta): string {
   return (
     `<section id="run"><h2>Run</h2><table class="facts"><tbody>` +
     `<tr><th scope="row">doab version</th><td>${escapeHtml(meta.version)}</td></tr>` +
+    (meta.startedAt ? `<tr><th scope="row">run started</th><td>${escapeHtml(meta.startedAt)} (as run.json records it)</td></tr>` : '') +
     `<tr><th scope="row">command line</th><td class="hash">${escapeHtml(shellWords(meta.commandLine))}</td></tr>` +
     `<tr><th scope="row">work CRS</th><td>${escapeHtml(result.crs.name)}</td></tr></tbody></table>` +
     `<h3>Inputs</h3><table class="facts"><thead><tr><th>input</th><th>path</th><th>written in</th><th>SHA-256</th></tr></thead><tbody>${inputs}</tbody></table>` +
@@ -267,7 +270,7 @@ export function renderReport(result: ScreenResult, meta: ReportMeta): string {
     `<meta http-equiv="Content-Security-Policy" content="${csp}">` +
     `<meta name="viewport" content="width=device-width, initial-scale=1">` +
     `<title>doab screening report: ${result.counts.strips} strips</title><style>${PAGE_CSS}${capRule}\n</style></head>\n<body><main>` +
-    `<header><h1>doab screening report</h1><p class="run-line">${result.counts.lines} lines, ${result.counts.strips} strips, ` +
+    `<header><h1>${result.settings.title ? `${escapeHtml(result.settings.title)}: ` : ''}doab screening report</h1><p class="run-line">${meta.startedAt ? `run ${escapeHtml(meta.startedAt.replace('T', ' ').replace(/\.\d+Z$/, ' UTC'))}; ` : ''}${result.counts.lines} lines, ${result.counts.strips} strips, ` +
     `work CRS ${escapeHtml(result.crs.name)}; doab ${escapeHtml(meta.version)}</p></header>\n` +
     `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${mapSection(result)}\n${profilesSection(result, top)}\n` +
     `${linesSection(result)}\n${rankingSection(result, rowsShown)}\n${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`

@@ -20,6 +20,8 @@ export interface ScreenSettings {
   crs: string | null;
   /** CRS of both input files when they do not declare one (or to override what they declare). */
   inputCrs: string | null;
+  /** A title for the report and the run record (the district's name, say); null for none. */
+  title: string | null;
   rankBy: RankBy;
   writeTransects: boolean;
   /** A relative jump in spacing between neighbouring stations that ends a strip. */
@@ -132,6 +134,7 @@ export const SETTINGS: Readonly<Record<SettingKey, SettingSpec>> = Object.freeze
   maxAngleDeg: { default: 20, check: angle, type: 'number', unit: 'degrees', doc: 'largest angle from parallel for a partner (below 90)', flag: '--max-angle <deg>' },
   crs: { default: null, check: nullableText, type: 'text', unit: '', doc: 'work CRS: EPSG:326xx/327xx or a +proj string; null for the UTM zone of the data centre', flag: '--crs <crs>' },
   inputCrs: { default: null, check: nullableText, type: 'text', unit: '', doc: 'CRS of the input files (EPSG:<code>, proj4 or WKT); overrides .prj and "crs" members', flag: '--input-crs <crs>' },
+  title: { default: null, check: nullableText, type: 'text', unit: '', doc: "a title for the report and the run record (the district's name, say)", flag: '--title <text>' },
   rankBy: { default: 'loss', check: oneOf(['loss', 'risk']), type: 'choice', choices: ['loss', 'risk'], unit: '', doc: 'rank strips by loss per km ("loss") or by smallest depth ("risk")', flag: '--rank-by <key>' },
   writeTransects: { default: false, check: bool, type: 'boolean', unit: '', doc: 'also write the transects layer, every transect with its inputs and results', flag: '--transects' },
   spacingJump: { default: 0.25, check: positive, type: 'number', unit: 'fraction', doc: 'a relative jump in spacing between neighbouring stations that ends a strip', advanced: true },

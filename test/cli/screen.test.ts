@@ -178,6 +178,9 @@ describe('doab screen on the demo district', () => {
     const record = layers.record;
     expect(record.inputs.canals.sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(record.settings.stepM).toBe(100);
+    // when it started, to the second, within this test's own run of it
+    expect(Date.now() - Date.parse(record.started_at)).toBeGreaterThanOrEqual(0);
+    expect(Date.now() - Date.parse(record.started_at)).toBeLessThan(10 * 60_000);
     expect(record.settings.risk.waterloggedDepthM).toBe(2);
     expect(record.work_crs.epsg).toBeGreaterThan(32600);
     expect(record.counts.strips).toBe(layers.strips.features.length);

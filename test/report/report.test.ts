@@ -135,6 +135,10 @@ describe('renderReport on the demo district', () => {
     expect(html).toContain('<th scope="row">stepM</th><td>100</td>');
     expect(html).toContain('<th scope="row">risk.waterloggedDepthM</th><td>2</td>');
     expect(html).toContain(meta.inputs[0].sha256);
+    // when the run started, as run.json records it, in the header and the run's facts
+    const dated = renderReport({ ...result, settings: { ...result.settings, title: 'Invented Test District' } }, { ...meta, startedAt: '2026-12-02T06:00:00.000Z' });
+    expect(dated).toContain('<h1>Invented Test District: doab screening report</h1><p class="run-line">run 2026-12-02 06:00:00 UTC; ');
+    expect(dated).toContain('<th scope="row">run started</th><td>2026-12-02T06:00:00.000Z (as run.json records it)</td>');
     // how the inputs were read: where they were written, the field mapping, units and defaults, and that outputs are metric
     expect(html).toContain('<td>lon/lat, WGS 84 (EPSG:4326), as RFC 7946 asks</td>');
     expect(html).toContain('<th scope="row">zones fields</th><td>id: id, k: k_m_d, base: base_m, ground: ground_m, recharge: recharge_mm_yr, edgeHead: edge_head_m</td>');
