@@ -5,23 +5,14 @@
 // is its own. Run with `npx tsx bench/district-solver.bench.ts` (or give a side in cells, and
 // `uneven` for a sloping base, which the solve meets with Picard iterations).
 import { spawnSync } from 'node:child_process';
-import { CELL_FIXED, CELL_FREE, solveDistrict, type DistrictGrid } from '../src/hydraulics/district-solver.js';
+import { CELL_FIXED, CELL_FREE, emptyDistrictGrid, solveDistrict, type DistrictGrid } from '../src/hydraulics/district-solver.js';
 import { seededRandom } from './network.js';
 
 function syntheticDistrict(side: number, unevenBase: boolean, seed = 1): DistrictGrid {
   const rnd = seededRandom(seed);
   const cellM = 10_000 / side;
   const n = side * side;
-  const grid: DistrictGrid = {
-    columns: side,
-    rows: side,
-    cellM,
-    cellKind: new Uint8Array(n),
-    kMPerDay: new Float64Array(n),
-    rechargeMPerDay: new Float64Array(n),
-    baseM: new Float64Array(n),
-    fixedHeadM: new Float64Array(n),
-  };
+  const grid: DistrictGrid = emptyDistrictGrid(side, side, cellM);
   // outline: a wobbly disc; holes: small discs well inside it, so the district stays in one piece
   const phase = [6.3 * rnd(), 6.3 * rnd()];
   const holes = Array.from({ length: 6 }, () => {

@@ -483,3 +483,18 @@ export function cellNeighbour(g: number, side: number, columns: number, cells: n
   if (side === 2) return g < columns ? -1 : g - columns;
   return g + columns >= cells ? -1 : g + columns;
 }
+
+/** A grid of the given size with every cell outside the aquifer and every figure 0, to be filled in. */
+export function emptyDistrictGrid(columns: number, rows: number, cellM: number): DistrictGrid {
+  const n = columns * rows;
+  return {
+    columns,
+    rows,
+    cellM,
+    cellKind: new Uint8Array(n),
+    kMPerDay: new Float64Array(n),
+    rechargeMPerDay: new Float64Array(n),
+    baseM: new Float64Array(n),
+    fixedHeadM: new Float64Array(n),
+  };
+}

@@ -11,23 +11,12 @@ import {
   CELL_OUTSIDE,
   solveDistrict,
   type DistrictGrid,
+  emptyDistrictGrid,
   type DistrictSolution,
 } from '../../src/hydraulics/district-solver.js';
 import { seededRandom } from '../../bench/network.js';
 
-function emptyGrid(columns: number, rows: number, cellM: number): DistrictGrid {
-  const n = columns * rows;
-  return {
-    columns,
-    rows,
-    cellM,
-    cellKind: new Uint8Array(n),
-    kMPerDay: new Float64Array(n),
-    rechargeMPerDay: new Float64Array(n),
-    baseM: new Float64Array(n),
-    fixedHeadM: new Float64Array(n),
-  };
-}
+const emptyGrid = emptyDistrictGrid;
 
 interface StripSpec {
   lengthM: number;
