@@ -132,6 +132,8 @@ interface GridSolve {
   cutOffAreaM2: number;
   /** Line cells whose stage is at or below the base under them. */
   dryLineCells: number;
+  /** Cells holding an edge head, per zone (index as in the zone list). */
+  edgeCellsByZone: Uint32Array;
 }
 
 function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
@@ -149,6 +151,7 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
   const zoneEdgeHead = Float64Array.from(zones, (z) => (z.edgeHeadM === null ? Number.NaN : z.edgeHeadM));
   const lineOf = burned.line;
   let dryLineCells = 0;
+  const edgeCellsByZone = new Uint32Array(zones.length);
   for (let g = 0; g < n; g++) {
     const z = zoneOf[g];
     if (z < 0) continue;
@@ -165,6 +168,7 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
       // the zone's part of the aquifer's outer edge holds the head its attribute gives (a river, a regional water table)
       cellKind[g] = CELL_FIXED;
       fixedHeadM[g] = zoneEdgeHead[z];
+      edgeCellsByZone[z]++;
     } else cellKind[g] = CELL_FREE;
   }
   const cutOff = leaveOutUnreached(grid, cellKind);
@@ -188,6 +192,7 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     dryCells: solution.dryCellCount,
     cutOffAreaM2: cutOff * cellM * cellM,
     dryLineCells,
+    edgeCellsByZone,
   };
 }
 
@@ -384,6 +389,11 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
     );
   }
   if (fine.dryCells > 0) warnings.push(`${fine.dryCells} cells of the district solve are dry (the water table down to the base): Dupuit-Forchheimer does not describe them`);
+  // an edge head on a zone that nowhere meets the aquifer's outer edge holds nothing: say so, never ignore it silently
+  const unheld = inputs.zones.filter((zone, z) => zone.edgeHeadM !== null && fine.edgeCellsByZone[z] === 0).map((zone) => zone.id);
+  if (unheld.length > 0) {
+    warnings.push(`${unheld.length === 1 ? '1 zone gives an edge head but meets' : `${unheld.length} zones give an edge head but meet`} the aquifer's outer edge nowhere (${unheld.slice(0, 5).join(', ')}${unheld.length > 5 ? ', ...' : ''}): the head is not used`);
+  }
   if (fine.dryLineCells > 0) warnings.push(`${fine.dryLineCells} line cells have a stage at or below the aquifer base: they hold a dry line`);
   const missing = inputs.lines.filter((_, l) => lineCells[l] === 0).map((line) => line.id);
   if (missing.length > 0) {

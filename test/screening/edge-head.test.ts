@@ -44,6 +44,19 @@ describe('a head held on the outer edge', () => {
     expect(Math.abs(balance.lineLossM3PerDay - balance.edgeOutM3PerDay + balance.edgeInM3PerDay)).toBeLessThan(1e-6 * balance.lineLossM3PerDay);
   });
 
+  it('says so when a zone gives an edge head but meets the outer edge nowhere, and holds nothing there', () => {
+    // the held zone is an island inside the other: none of its cells touches the aquifer's edge
+    const result = screenLocal(
+      [line('C', { kind: 'canal', stage_m: STAGE }, [[0, -4000], [0, 4000]])],
+      [
+        box('island', { k_m_d: K, base_m: BASE, ground_m: 110, recharge_mm_yr: 0, edge_head_m: EDGE }, [400, -500, 600, 500]),
+        box('inner', { k_m_d: K, base_m: BASE, ground_m: 110, recharge_mm_yr: 0 }, [-1000, -4000, 1000, 4000]),
+      ],
+    );
+    expect(result.warnings.join('\n')).toMatch(/1 zone gives an edge head but meets the aquifer's outer edge nowhere \(island\): the head is not used/);
+    expect(result.district!.balance.edgeInM3PerDay + result.district!.balance.edgeOutM3PerDay).toBe(0);
+  });
+
   it('is no-flow without one: the canal then loses nothing in steady state without recharge', () => {
     const solve = district(null).district!;
     expect(solve.balance.edgeInM3PerDay + solve.balance.edgeOutM3PerDay).toBe(0);
