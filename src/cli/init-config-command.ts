@@ -104,8 +104,9 @@ export async function initConfigCommand(options: InitConfigOptions, io: CliIo): 
   const input = inputs.find((path) => realPathOf(path) === target);
   if (options.out.trim() === '') throw new UsageError('--out is empty: name the config file to write', 'out');
   if (input !== undefined) throw new UsageError(`--out ${options.out} is your input ${input}; name another file for the config`, 'out');
-  if (existsSync(options.out) && !options.force) throw new UsageError(`--out ${options.out} already exists; give --force to replace it, or another --out`, 'out');
+  // a folder or a link is no config to replace, --force or not
   if (existsSync(options.out) && !lstatSync(options.out).isFile()) throw new UsageError(`--out ${options.out} is not a regular file; name a file for the config`, 'out');
+  if (existsSync(options.out) && !options.force) throw new UsageError(`--out ${options.out} already exists; give --force to replace it, or another --out`, 'out');
   const canals = await readFeatureFile(options.canals, { inputCrs: options.inputCrs });
   const aquifer = await readFeatureFile(options.aquifer, { inputCrs: options.inputCrs });
   const lineAttributes = attributesOf(canals.features);

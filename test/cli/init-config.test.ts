@@ -83,5 +83,9 @@ describe('doab init-config', () => {
       expect(refusedInput.stderr).toMatch(/--out .* is your input/);
     }
     expect(readFileSync(input).equals(before)).toBe(true);
+    // a folder is no file to replace: said as such, not as a file that --force would replace
+    const folder = await runCliInProcess(['init-config', '--canals', join(PAIR, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', dir]);
+    expect(folder.status).toBe(2);
+    expect(folder.stderr).toMatch(/--out .* is not a regular file; name a file for the config/);
   });
 });
