@@ -55,7 +55,7 @@ export { readFeatureFile, filesOfInput, type InputFile } from './input/read-feat
 export { screenDistrict, type ScreenResult, type ProgressListener, type DistrictTotals, type LineFigure, type FigureMethod } from './screening/screen.js';
 export type { StripSummary, LineSummary } from './screening/aggregate.js';
 export type { Profile } from './screening/profile.js';
-export { checkOutputFolder, realPathOf } from './output/output-folder.js';
+export { checkOutputFolder, realPathOf, runOutputNames } from './output/output-folder.js';
 export { profileFileName } from './output/profile-table.js';
 export { writeAllOrNothing, type OutputFile } from './output/atomic-write.js';
 export { CAUTION } from './output/run-record.js';
@@ -157,8 +157,10 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
 /** Writes every file of a run into outDir, or none; removes what an earlier doab run there left that this one does not write. */
 export async function writeRun(outDir: string, result: ScreenResult, options: WriteRunOptions): Promise<{ written: string[]; removed: string[] }> {
   const { district } = options;
-  checkOutputFolder(outDir, [district.canals?.path, district.aquifer?.path, options.configFile].flatMap((path) => (path ? filesOfInput(path) : [])));
-  return writeRunFolder(outDir, runFiles(result, options));
+  const files = runFiles(result, options);
+  // the names this run writes, no more: a file of the user's under a name it does not write stays where it is
+  checkOutputFolder(outDir, [district.canals?.path, district.aquifer?.path, options.configFile].flatMap((path) => (path ? filesOfInput(path) : [])), new Set(files.map((file) => file.name)));
+  return writeRunFolder(outDir, files);
 }
 
 function isObject(value: unknown): value is Record<string, unknown> {

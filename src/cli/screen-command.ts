@@ -2,6 +2,7 @@
 import {
   applyFlags,
   checkOutputFolder,
+  runOutputNames,
   filesOfInput,
   CAUTION,
   errorsOf,
@@ -42,9 +43,9 @@ export function runConfig(options: { config?: string; [flag: string]: unknown })
 export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
   const startedAt = new Date().toISOString();
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
-  // before any work: never an output over an input, nor over a file doab did not write
-  checkOutputFolder(options.out, [options.canals, options.aquifer, options.config].flatMap((path) => (path ? filesOfInput(path) : [])));
   const config = runConfig(options);
+  // before any work: never an output over an input, nor over a file doab did not write
+  checkOutputFolder(options.out, [options.canals, options.aquifer, options.config].flatMap((path) => (path ? filesOfInput(path) : [])), runOutputNames(config.settings, options.seq ? 'sequence' : 'collection'));
   const district = await loadDistrict(options.canals, options.aquifer, config);
   const errors = errorsOf(district.problems);
   const stopping = stoppingProblems(district, options);

@@ -6,10 +6,12 @@ import { existsSync, lstatSync, readFileSync, realpathSync, rmSync, statSync } f
 import { basename, dirname, join, resolve } from 'node:path';
 import { UsageError } from '../shared/errors.js';
 import { writeAllOrNothing, type OutputFile } from './atomic-write.js';
+import type { LayerFormat } from './layers.js';
+import { RASTER_NAMES } from './rasters.js';
 
 /** Every name a screening run may write into its folder. */
 export const RUN_OUTPUT_NAMES: ReadonlySet<string> = new Set(
-  ['strips', 'canals', 'transects'].flatMap((layer) => [`${layer}.geojson`, `${layer}.geojsons`]).concat(['ranking.csv', 'lines.csv', 'report.html', 'run.json', 'water-table.tif', 'depth.tif']),
+  ['strips', 'canals', 'transects'].flatMap((layer) => [`${layer}.geojson`, `${layer}.geojsons`]).concat(['ranking.csv', 'lines.csv', 'report.html', 'run.json', ...Object.values(RASTER_NAMES)]),
 );
 
 /** The real path of a path that may not exist yet: its nearest existing ancestor resolved, links followed. */
@@ -54,6 +56,14 @@ function kindOf(path: string): string | null {
   } catch {
     return null;
   }
+}
+
+/** The names a run with these settings writes: the layers in their format, the tables, the rasters when the district solve runs, the report and the record. */
+export function runOutputNames(settings: { writeTransects: boolean; stripsOnly: boolean }, format: LayerFormat): Set<string> {
+  const extension = format === 'sequence' ? 'geojsons' : 'geojson';
+  const layers = ['strips', 'canals', ...(settings.writeTransects ? ['transects'] : [])].map((layer) => `${layer}.${extension}`);
+  const rasters = settings.stripsOnly ? [] : Object.values(RASTER_NAMES);
+  return new Set([...layers, 'ranking.csv', 'lines.csv', ...rasters, 'report.html', 'run.json']);
 }
 
 /**

@@ -58,4 +58,20 @@ describe('hardening', () => {
     for (const name of stale) expect(left).not.toContain(name);
     expect(left).toContain('.notes.txt.1.tmp');
   });
+
+  it('leaves a file of the engineer alone under a name this run does not write, and refuses one under a name it does', async () => {
+    const out = join(freshDir('own-file'), 'out');
+    mkdirSync(out);
+    writeFileSync(join(out, 'transects.geojson'), 'the engineer\'s own layer');
+    const run = await runCliInProcess(['screen', '--canals', CANALS, '--aquifer', AQUIFER, '--out', out, '--quiet', '--strips-only']);
+    expect(run.status, run.stderr).toBe(0);
+    expect(readFileSync(join(out, 'transects.geojson'), 'utf8')).toBe('the engineer\'s own layer');
+    const other = join(freshDir('own-file-2'), 'out');
+    mkdirSync(other);
+    writeFileSync(join(other, 'transects.geojson'), 'the engineer\'s own layer');
+    const refused = await runCliInProcess(['screen', '--canals', CANALS, '--aquifer', AQUIFER, '--out', other, '--quiet', '--strips-only', '--transects']);
+    expect(refused.status).toBe(2);
+    expect(refused.stderr).toMatch(/transects\.geojson there was not written by doab/);
+    expect(readFileSync(join(other, 'transects.geojson'), 'utf8')).toBe('the engineer\'s own layer');
+  });
 });
