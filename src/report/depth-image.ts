@@ -1,7 +1,7 @@
 // The district solve's depth raster as a small PNG for the report's map: each pixel takes the risk
 // class of the shallowest cell under it (so a waterlogged patch never vanishes in the shrinking),
 // coloured as the strips are; transparent outside the aquifer. Same raster in, same bytes out.
-import { zlibSync } from 'fflate';
+import { encode } from 'fast-png';
 import { CELL_FREE } from '../hydraulics/district-solver.js';
 import type { DistrictResult } from '../screening/district.js';
 import { riskClass, RISK_CLASSES, type RiskThresholds } from '../shared/settings.js';
@@ -15,52 +15,9 @@ export interface DepthImage {
 }
 
 // PNG (ISO/IEC 15948:2004) chunk CRC: CRC-32 of ISO 3309, polynomial 0xEDB88320 [published]
-const CRC_TABLE = (() => {
-  const table = new Uint32Array(256);
-  for (let n = 0; n < 256; n++) {
-    let c = n;
-    for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
-    table[n] = c >>> 0;
-  }
-  return table;
-})();
-
-function crc32(bytes: Uint8Array): number {
-  let c = 0xffffffff;
-  for (let i = 0; i < bytes.length; i++) c = CRC_TABLE[(c ^ bytes[i]) & 0xff] ^ (c >>> 8);
-  return (c ^ 0xffffffff) >>> 0;
-}
-
-function chunk(type: string, data: Uint8Array): Uint8Array {
-  const out = new Uint8Array(12 + data.length);
-  const view = new DataView(out.buffer);
-  view.setUint32(0, data.length);
-  for (let i = 0; i < 4; i++) out[4 + i] = type.charCodeAt(i);
-  out.set(data, 8);
-  view.setUint32(8 + data.length, crc32(out.subarray(4, 8 + data.length)));
-  return out;
-}
-
-/** An 8-bit RGBA PNG of width x height pixels, rows from the top. */
+/** An 8-bit RGBA PNG of width x height pixels, rows from the top (fast-png writes the chunks). */
 export function encodePng(rgba: Uint8Array, width: number, height: number): Uint8Array {
-  const header = new Uint8Array(13);
-  const view = new DataView(header.buffer);
-  view.setUint32(0, width);
-  view.setUint32(4, height);
-  header[8] = 8; // bit depth
-  header[9] = 6; // colour type RGBA
-  const raw = new Uint8Array(height * (1 + 4 * width));
-  for (let row = 0; row < height; row++) raw.set(rgba.subarray(row * 4 * width, (row + 1) * 4 * width), row * (1 + 4 * width) + 1);
-  const parts = [
-    Uint8Array.from([137, 80, 78, 71, 13, 10, 26, 10]),
-    chunk('IHDR', header),
-    chunk('IDAT', zlibSync(raw, { level: 9 })),
-    chunk('IEND', new Uint8Array(0)),
-  ];
-  const png = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
-  let offset = 0;
-  for (const part of parts) { png.set(part, offset); offset += part.length; }
-  return png;
+  return encode({ width, height, data: rgba, channels: 4, depth: 8 });
 }
 
 function rgb(hex: string): [number, number, number] {

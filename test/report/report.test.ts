@@ -1,3 +1,7 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { formatGrouped } from '../../src/output/format.js';
 import { FACING_PAIRED } from '../../src/geometry/index.js';
@@ -64,6 +68,21 @@ describe('renderReport on the demo district', () => {
     expect(labels.length).toBeGreaterThan(result.lines.length / 2);
     expect(new Set(labels).size).toBe(labels.length);
     for (const label of labels) expect(result.lines.map((line) => escapeHtml(line.id))).toContain(label);
+  });
+
+  it('embeds a depth image that an independent reader (GDAL\'s PNG driver) opens at the size the map draws it from', () => {
+    const match = /<image class="map-depth"[^>]* href="data:image\/png;base64,([^"]+)"/.exec(html);
+    expect(match).not.toBeNull();
+    if (spawnSync('gdalinfo', ['--version']).status !== 0) {
+      expect(process.env.CI, 'gdalinfo (Debian gdal-bin) is missing').toBeFalsy();
+      return;
+    }
+    const file = join(mkdtempSync(join(tmpdir(), 'doab-png-')), 'depth.png');
+    writeFileSync(file, Buffer.from(match![1], 'base64'));
+    const info = spawnSync('gdalinfo', [file], { encoding: 'utf8' });
+    expect(info.status, info.stderr).toBe(0);
+    expect(info.stdout).toMatch(/Driver: PNG/);
+    expect(info.stdout).toMatch(/Band 4 Block=\d+x1 Type=Byte, ColorInterp=Alpha/);
   });
 
   it('loads nothing from anywhere: no URL but the SVG namespace, no external reference', () => {
