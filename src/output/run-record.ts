@@ -1,6 +1,7 @@
 // The run record (run.json): what was run, on which inputs, with which settings, and what it found.
-import type { ScreenResult } from '../screening/screen.js';
-import { roundNumber } from './format.js';
+import type { FigureMethod, ScreenResult } from '../screening/screen.js';
+import { formatFixed, roundNumber } from './format.js';
+import { m3PerDayToM3PerYear } from '../shared/units.js';
 import type { InputRules } from '../shared/input-rules.js';
 import { settingsAsConfig } from '../shared/settings.js';
 import { formatProblem, type Problem } from '../shared/errors.js';
@@ -8,6 +9,86 @@ import { formatProblem, type Problem } from '../shared/errors.js';
 export const CAUTION =
   'Screening estimate only (steady Dupuit-Forchheimer flow, fully penetrating unlined lines, horizontal base): ' +
   'confirm in the field and defer to local codes and licensed professional practice before acting.';
+
+/** The name of the one seepage total a planner reads, in the summary, run.json and the report. */
+export const NET_SEEPAGE_NAME = 'Net seepage from the lines into the aquifer';
+
+/**
+ * Net seepage from the lines into the aquifer and its two parts, rounded as they are printed, so
+ * that the summary, run.json and the report show the same digits. Net is the rounded loss less the
+ * rounded intake, so the printed sum adds up; per year it is the unrounded net times 365.25.
+ */
+export interface NetSeepage {
+  /** Which method gave the figures: the district solve, or the strips alone. */
+  method: FigureMethod;
+  /** Decimals printed for m^3/d (m^3/yr has its own): whole cubic metres for a district, more for a small one. */
+  decimals: number;
+  netM3PerDay: number;
+  netM3PerYear: number;
+  yearDecimals: number;
+  /** Summed over the lines that lose water, each line net over its length. */
+  lostByLosingLinesM3PerDay: number;
+  /** Summed over the lines that take water in (drains, mostly), as a positive number. */
+  takenInByGainingLinesM3PerDay: number;
+}
+
+/** Decimals that show a figure of this size to about three digits or more, never past 2. */
+function readableDecimals(magnitude: number): number {
+  return magnitude >= 100 ? 0 : magnitude >= 10 ? 1 : 2;
+}
+
+function roundTo(value: number, decimals: number): number {
+  const rounded = Number(value.toFixed(decimals));
+  return Object.is(rounded, -0) ? 0 : rounded;
+}
+
+function netSeepage(method: FigureMethod, lossM3PerDay: number, gainM3PerDay: number): NetSeepage {
+  const decimals = readableDecimals(Math.max(lossM3PerDay, gainM3PerDay));
+  const lost = roundTo(lossM3PerDay, decimals), takenIn = roundTo(gainM3PerDay, decimals);
+  const perYear = m3PerDayToM3PerYear(lossM3PerDay - gainM3PerDay);
+  const yearDecimals = readableDecimals(m3PerDayToM3PerYear(Math.max(lossM3PerDay, gainM3PerDay)));
+  return {
+    method,
+    decimals,
+    netM3PerDay: roundTo(lost - takenIn, decimals),
+    netM3PerYear: roundTo(perYear, yearDecimals),
+    yearDecimals,
+    lostByLosingLinesM3PerDay: lost,
+    takenInByGainingLinesM3PerDay: takenIn,
+  };
+}
+
+/**
+ * The net seepage a planner reads (the district solve's when it ran, else the strips'), and the
+ * strips' own beside it when the district solve ran (null otherwise).
+ */
+export function netSeepageTotals(result: ScreenResult): { main: NetSeepage; stripsAlone: NetSeepage | null } {
+  const { totals } = result;
+  return {
+    main: netSeepage(totals.method, totals.lossM3PerDay, totals.gainM3PerDay),
+    stripsAlone: totals.method === 'district' ? netSeepage('strips', totals.stripLinesLossM3PerDay, totals.stripLinesGainM3PerDay) : null,
+  };
+}
+
+/** A net seepage in words, as the summary prints it: "N m3/d (M m3/yr) = lost by losing lines A - taken in by gaining lines B". */
+export function netSeepageText(figure: NetSeepage, unit = { day: 'm3/d', year: 'm3/yr' }, format = formatFixed): string {
+  const d = (v: number) => format(v, figure.decimals);
+  return (
+    `${d(figure.netM3PerDay)} ${unit.day} (${format(figure.netM3PerYear, figure.yearDecimals)} ${unit.year}) = ` +
+    `lost by losing lines ${d(figure.lostByLosingLinesM3PerDay)} - taken in by gaining lines ${d(figure.takenInByGainingLinesM3PerDay)} ${unit.day}`
+  );
+}
+
+/** How a net seepage reads in run.json: the printed figures, and the method that gave them. */
+function netSeepageRecord(figure: NetSeepage) {
+  return {
+    method: figure.method,
+    m3_d: figure.netM3PerDay,
+    m3_yr: figure.netM3PerYear,
+    lost_by_losing_lines_m3_d: figure.lostByLosingLinesM3PerDay,
+    taken_in_by_gaining_lines_m3_d: figure.takenInByGainingLinesM3PerDay,
+  };
+}
 
 /** What the run record says of an input file (a reader's result has these and more). */
 export interface InputFacts {
@@ -73,6 +154,7 @@ function districtRecord(result: ScreenResult) {
 
 export function runRecord(result: ScreenResult, meta: RunMeta): string {
   const { totals, counts, settings } = result;
+  const seepage = netSeepageTotals(result);
   const record = {
     tool: 'doab',
     version: meta.version,
@@ -96,15 +178,12 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
       strips_by_risk: totals.stripsByRisk,
     },
     totals: {
-      // loss, gain, net and risk area come from this method: the district solve when it ran
+      // net seepage and risk area come from this method: the district solve when it ran
       method: totals.method,
-      loss_m3_d: roundNumber(totals.lossM3PerDay),
-      loss_m3_yr: roundNumber(totals.lossM3PerYear),
-      gain_m3_d: roundNumber(totals.gainM3PerDay),
-      net_m3_d: roundNumber(totals.netM3PerDay),
-      strip_loss_m3_d: roundNumber(totals.stripLossM3PerDay),
-      strip_lines_loss_m3_d: roundNumber(totals.stripLinesLossM3PerDay),
-      strip_lines_gain_m3_d: roundNumber(totals.stripLinesGainM3PerDay),
+      // the figures the summary prints, to its last digit
+      net_seepage_into_aquifer: netSeepageRecord(seepage.main),
+      // the strips' own, the quicker method, beside the district solve's (null when it did not run)
+      net_seepage_into_aquifer_strips_alone: seepage.stripsAlone && netSeepageRecord(seepage.stripsAlone),
       strip_risk_area_ha: roundNumber(totals.stripRiskAreaHa),
       paired_m: roundNumber(totals.pairedM),
       unpaired_m: roundNumber(totals.unpairedM),

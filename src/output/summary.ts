@@ -2,21 +2,22 @@
 import type { ScreenResult } from '../screening/screen.js';
 import { formatFixed } from './format.js';
 import { rankedLines } from './layers.js';
-import { CAUTION } from './run-record.js';
+import { CAUTION, NET_SEEPAGE_NAME, netSeepageText, netSeepageTotals, type NetSeepage } from './run-record.js';
 
 export function summaryText(result: ScreenResult, top = 10, skipped = 0): string {
   const { totals, counts } = result;
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
   const district = result.district;
+  const seepage = netSeepageTotals(result);
+  const net = (figure: NetSeepage) =>
+    netSeepageText(figure) + (figure.netM3PerDay < 0 ? ' (negative: the lines take in more than they lose)' : '');
   if (district) {
     const b = district.balance;
+    lines.push(`District solve (2D, ${district.cellM} m cells, ${district.grid.columns} x ${district.grid.rows}; ${district.status})`);
+    lines.push(`${NET_SEEPAGE_NAME} (district solve): ${net(seepage.main)}`);
     lines.push(
-      `District solve (2D, ${district.cellM} m cells, ${district.grid.columns} x ${district.grid.rows}; ${district.status}): ` +
-        `losing lines lose ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d`,
-    );
-    lines.push(
-      `Water balance, cell by cell: recharge ${formatFixed(b.rechargeM3PerDay, 0)} + from losing line cells ${formatFixed(b.lineLossM3PerDay, 0)} - to gaining line cells ${formatFixed(b.lineGainM3PerDay, 0)} ` +
+      `Water balance of the district solve, cell by cell (a check of the solve): recharge ${formatFixed(b.rechargeM3PerDay, 0)} + from losing line cells ${formatFixed(b.lineLossM3PerDay, 0)} - to gaining line cells ${formatFixed(b.lineGainM3PerDay, 0)} ` +
         (b.edgeInM3PerDay > 0 || b.edgeOutM3PerDay > 0
           ? `+ in across the outer edge ${formatFixed(b.edgeInM3PerDay, 0)} - out across it ${formatFixed(b.edgeOutM3PerDay, 0)} = ${b.residualM3PerDay.toPrecision(2)} m3/d (edge heads where zones give one; no flow elsewhere)`
           : `= ${b.residualM3PerDay.toPrecision(2)} m3/d (no flow across the aquifer's outer edge: no zone gives an edge head)`),
@@ -25,22 +26,21 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
       `Area with water table < ${result.settings.risk.waterloggedDepthM} m below ground (district solve, banks left out): ${formatFixed(totals.riskAreaHa, 1)} ha; ` +
         `by risk class: ${Object.entries(district.areaByRiskHa).map(([risk, ha]) => `${risk} ${formatFixed(ha, 1)} ha`).join(', ')}`,
     );
-    lines.push(
-      `Strips alone: lines lose ${formatFixed(totals.stripLinesLossM3PerDay, 0)} m3/d and take in ${formatFixed(totals.stripLinesGainM3PerDay, 0)} m3/d over ` +
-        `${formatFixed(totals.solvedSidesM / 1000, 1)} of ${formatFixed(totals.sidesM / 1000, 1)} km of line sides solved; ${formatFixed(totals.stripRiskAreaHa, 1)} ha shallow in strips`,
-    );
+    if (seepage.stripsAlone) {
+      lines.push(
+        `Strips alone (the quicker method, for comparison): net seepage ${net(seepage.stripsAlone)}, over ` +
+          `${formatFixed(totals.solvedSidesM / 1000, 1)} of ${formatFixed(totals.sidesM / 1000, 1)} km of line sides solved; ${formatFixed(totals.stripRiskAreaHa, 1)} ha shallow in strips`,
+      );
+    }
   } else {
-    lines.push(
-      `Seepage loss from losing lines (strips alone; no district solve): ${formatFixed(totals.lossM3PerDay, 0)} m3/d (${formatFixed(totals.lossM3PerYear, 0)} m3/yr), net of what they take in on other sides; ` +
-        `gaining lines take in ${formatFixed(totals.gainM3PerDay, 0)} m3/d; the strips' losses add to ${formatFixed(totals.stripLossM3PerDay, 0)} m3/d`,
-    );
+    lines.push(`${NET_SEEPAGE_NAME} (strips alone; no district solve): ${net(seepage.main)}`);
     lines.push(
       `Paired ${formatFixed(totals.pairedM / 1000, 1)} km, unpaired ${formatFixed(totals.unpairedM / 1000, 1)} km; ` +
         `area with water table < ${result.settings.risk.waterloggedDepthM} m below ground: ${formatFixed(totals.riskAreaHa, 1)} ha`,
     );
     lines.push(
       `Line sides solved: ${formatFixed(totals.solvedSidesM / 1000, 1)} km of ${formatFixed(totals.sidesM / 1000, 1)} km; ` +
-        'unpaired and unsolved sides are not counted, so these losses are a lower bound',
+        'unpaired and unsolved sides are not counted, so both parts are lower bounds',
     );
   }
   const ranked = rankedLines(result).filter((i) => result.lineFigures[i].netLossM3PerDay > 0).slice(0, 5);

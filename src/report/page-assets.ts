@@ -31,6 +31,9 @@ h3{font-size:13px;margin:12px 0 4px}
 .total-card{background:var(--panel);border:1px solid var(--rule);padding:8px 10px}
 .total-card .figure{font-size:18px;font-weight:600;display:block}
 .total-card .what{color:var(--muted);font-size:12px}
+.total-card.net-seepage{grid-column:span 2}
+.net-seepage .what{display:block}
+.net-seepage .what:first-child{color:var(--ink);font-weight:600}
 .facts{border-collapse:collapse;margin:6px 0}
 .facts th,.facts td{border-bottom:1px solid var(--rule);padding:3px 10px 3px 0;text-align:left;vertical-align:top}
 .facts td.num{text-align:right;font-variant-numeric:tabular-nums}

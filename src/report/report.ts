@@ -2,7 +2,7 @@
 // top strips, the ranked table, the run). Pure: same result and meta in, same bytes out. Inline
 // CSS, inline SVG and one small inline script; a Content-Security-Policy forbids every fetch.
 import { FACING_REASON_NAMES } from '../geometry/index.js';
-import { CAUTION } from '../output/run-record.js';
+import { CAUTION, NET_SEEPAGE_NAME, netSeepageTotals, type NetSeepage } from '../output/run-record.js';
 import { lineTableRow, RANKING_COLUMNS, rankedLines, rankingRow } from '../output/layers.js';
 import { keyFacing, profileOfFacing } from '../screening/profile.js';
 import type { ScreenResult } from '../screening/screen.js';
@@ -69,19 +69,30 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
   const canals = result.lines.filter((line) => line.kind === 'canal').length;
   const district = result.district;
   const source = district ? 'district solve' : 'strips alone';
+  const seepage = netSeepageTotals(result);
+  const seepageParts = (figure: NetSeepage) =>
+    `= lost by losing lines ${formatGrouped(figure.lostByLosingLinesM3PerDay, figure.decimals)} − taken in by gaining lines ` +
+    `${formatGrouped(figure.takenInByGainingLinesM3PerDay, figure.decimals)} m³/d`;
   const cards = [
-    totalCard(`${formatGrouped(totals.lossM3PerDay)} m³/d`, `seepage loss from the lines that lose water (${source})`),
-    totalCard(`${formatGrouped(totals.lossM3PerYear)} m³/yr`, 'the same loss over a year'),
-    totalCard(`${formatGrouped(totals.gainM3PerDay)} m³/d`, `taken in from the ground by gaining lines, drains mostly (${source})`),
-    totalCard(`${formatGrouped(totals.netM3PerDay)} m³/d`, 'net seepage of all lines, loss less gain'),
+    `<div class="total-card net-seepage" data-method="${seepage.main.method}"><span class="what">${escapeHtml(NET_SEEPAGE_NAME)} (${source})</span>` +
+      `<span class="figure">${formatGrouped(seepage.main.netM3PerDay, seepage.main.decimals)} m³/d</span>` +
+      `<span class="what">${formatGrouped(seepage.main.netM3PerYear, seepage.main.yearDecimals)} m³/yr; ${seepageParts(seepage.main)}` +
+      `${seepage.main.netM3PerDay < 0 ? ' (negative: the lines take in more than they lose)' : ''}</span></div>`,
     ...(district
       ? [
           totalCard(`${formatGrouped(district.balance.rechargeM3PerDay)} m³/d`, 'recharge over the aquifer (district water balance)'),
           totalCard(
             `${district.balance.residualM3PerDay.toPrecision(2)} m³/d`,
-            'water balance residual: recharge + what losing line cells give - what gaining line cells take, no flow across the outer edge',
+            'water balance residual of the district solve, cell by cell: a check of the solve, not a seepage figure',
           ),
-          totalCard(`${formatGrouped(totals.stripLinesLossM3PerDay)} m³/d`, 'loss of the losing lines by the strips alone, for comparison'),
+        ]
+      : []),
+    ...(seepage.stripsAlone
+      ? [
+          totalCard(
+            `${formatGrouped(seepage.stripsAlone.netM3PerDay, seepage.stripsAlone.decimals)} m³/d`,
+            `net seepage by the strips alone, the quicker method, for comparison ${seepageParts(seepage.stripsAlone)}`,
+          ),
         ]
       : []),
     totalCard(`${formatFixed(totals.pairedM / 1000, 1)} km`, 'line length with at least one side paired'),
@@ -96,7 +107,7 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
     ),
   ].join('');
   const method = district
-    ? `<p class="run-line">Losses, gains and areas above come from the district solve: steady 2D flow over the whole aquifer on ${escapeHtml(district.cellM)} m cells ` +
+    ? `<p class="run-line">The net seepage and areas above come from the district solve: steady 2D flow over the whole aquifer on ${escapeHtml(district.cellM)} m cells ` +
       `(${formatGrouped(district.grid.columns)} x ${formatGrouped(district.grid.rows)}, ${escapeHtml(district.status)}); each line's figure at twice the cell is in canals.geojson ` +
       `(coarse_cell_diff_m3_d), and the strips' own figures beside it (strip_net_loss_m3_d). Area by risk class: ` +
       `${Object.entries(district.areaByRiskHa).map(([risk, ha]) => `${escapeHtml(risk)} ${formatGrouped(ha, 1)} ha`).join(', ')}.</p>`
