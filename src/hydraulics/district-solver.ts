@@ -88,6 +88,12 @@ export interface DistrictSolution {
    * its flows into active neighbours less the recharge falling on the cell, which joins the line.
    */
   exchangeM3PerDay: Float64Array;
+  /**
+   * Per fixed cell, what it sends across each of its four sides (m^3/d; negative when water comes
+   * in): index 4k + side, sides in the order west, east, previous row, next row (cellNeighbour's).
+   * The exchange is their sum less the recharge on the cell.
+   */
+  sideFlowM3PerDay: Float64Array;
   /** Recharge over every active cell (m^3/d). */
   totalRechargeM3PerDay: number;
   /** sum of exchanges + total recharge (m^3/d): 0 for an exact solve. */
@@ -332,6 +338,7 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
   for (let g = 0; g < cellKind.length; g++) if (cellKind[g] === CELL_FIXED) fixedCount++;
   const fixedCells = new Uint32Array(fixedCount);
   const exchangeM3PerDay = new Float64Array(fixedCount);
+  const sideFlowM3PerDay = new Float64Array(4 * fixedCount);
 
   let k = 0, totalRechargeM3PerDay = 0, inflow = 0, outflow = 0, largestCellResidualM3PerDay = 0, dryCellCount = 0;
   const dryU = dryThicknessM * dryThicknessM;
@@ -366,13 +373,16 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
         const kindJ = cellKind[gj];
         if (kindJ === CELL_OUTSIDE) continue;
         const scale = fixedFaceScale && (kind === CELL_FIXED || kindJ === CELL_FIXED) ? (side < 2 ? fixedFaceScale.east[face] : fixedFaceScale.north[face]) : 1;
+        let flow: number;
         if (u === null) {
           const t = faceCoefficientH(kMPerDay[g], kMPerDay[gj], headM[g] - baseM[g], headM[gj] - baseM[gj], dryThicknessM);
-          out += scale * t * (valueI - headM[gj]);
+          flow = scale * t * (valueI - headM[gj]);
         } else {
           const valueJ = kindJ === CELL_FIXED ? fixedValue(fixedHeadM[gj], referenceBaseM) : u[pj];
-          out += scale * faceCoefficientU(kMPerDay[g], kMPerDay[gj]) * (valueI - valueJ);
+          flow = scale * faceCoefficientU(kMPerDay[g], kMPerDay[gj]) * (valueI - valueJ);
         }
+        out += flow;
+        if (kind === CELL_FIXED) sideFlowM3PerDay[4 * k + side] = flow;
       }
       if (kind === CELL_FIXED) {
         const exchange = out - rechargeM3PerDay;
@@ -394,6 +404,7 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
   return {
     fixedCells,
     exchangeM3PerDay,
+    sideFlowM3PerDay,
     totalRechargeM3PerDay,
     balanceResidualM3PerDay,
     balanceRelative: gross > 0 ? Math.abs(balanceResidualM3PerDay) / gross : 0,

@@ -110,6 +110,10 @@ export function stripProperties(strip: StripSummary): Record<string, unknown> {
     district_min_depth_m: strip.district ? roundNumber(strip.district.minDepthM) : null,
     district_risk: strip.district ? (strip.district.risk ?? 'unsolved') : null,
     district_risk_area_ha: strip.district ? roundNumber(strip.district.shallowAreaHa) : null,
+    district_loss_a_m3_d: strip.district ? roundNumber(strip.district.lossAM3PerDay) : null,
+    district_loss_b_m3_d: strip.district ? roundNumber(strip.district.lossBM3PerDay) : null,
+    district_loss_m3_d: strip.district ? roundNumber(strip.district.lossM3PerDay) : null,
+    district_loss_m3_d_km: strip.district && strip.lengthM > 0 ? roundNumber(strip.district.lossM3PerDay / (strip.lengthM / 1000)) : null,
     flags: strip.flags.join(';'),
   };
 }
@@ -223,7 +227,8 @@ export function neutraliseCell(value: unknown): unknown {
 
 export const RANKING_COLUMNS = [
   'rank', 'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km',
-  'loss_m3_yr', 'losing_line', 'losing_share', 'min_depth_m', 'risk', 'risk_area_ha', 'flags',
+  'loss_m3_yr', 'losing_line', 'losing_share', 'min_depth_m', 'risk', 'risk_area_ha',
+  'district_loss_m3_d_km', 'district_min_depth_m', 'flags',
 ] as const;
 
 /**
@@ -253,6 +258,9 @@ export function rankingRow(strip: StripSummary, rank: number): Record<(typeof RA
     min_depth_m: roundNumber(strip.minDepthM),
     risk: strip.risk ?? 'unsolved',
     risk_area_ha: roundNumber(strip.riskAreaHa),
+    // the district solve's figures for the same strip (empty when it did not run), to read beside the strip's own
+    district_loss_m3_d_km: strip.district && strip.lengthM > 0 ? roundNumber(strip.district.lossM3PerDay / (strip.lengthM / 1000)) : null,
+    district_min_depth_m: strip.district ? roundNumber(strip.district.minDepthM) : null,
     // where the water table reaches the ground the seepage out at the surface is not modelled: the loss is not reliable
     flags: [...strip.flags, ...(strip.risk === 'ponded' ? ['ponded-loss-unreliable'] : [])].join(';'),
   };

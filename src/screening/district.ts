@@ -33,6 +33,8 @@ export interface DistrictInputs {
   zonePolygons: ZonePolygons;
   /** Strip rings in metres, for the district's figures inside each strip. */
   stripRings: Float64Array[];
+  /** Each strip's lines a and b (indices into lines), in the order of stripRings. */
+  stripLines: ReadonlyArray<readonly [number, number]>;
 }
 
 export interface DistrictStripFigures {
@@ -41,6 +43,15 @@ export interface DistrictStripFigures {
   /** Area inside the strip where the depth is less than the waterlogging depth (ha). */
   shallowAreaHa: number;
   risk: RiskClass | null;
+  /**
+   * What lines a and b send into the cells inside the strip polygon (m^3/d; positive when the line
+   * loses water): the flows across their cells' sides into those cells, so a line's water that
+   * leaves past the strip's ends or into another strip is not counted here.
+   */
+  lossAM3PerDay: number;
+  lossBM3PerDay: number;
+  /** Positive losses of both lines into the strip (m^3/d), as the strip's own loss is counted. */
+  lossM3PerDay: number;
 }
 
 export interface DistrictBalance {
@@ -122,6 +133,8 @@ interface GridSolve {
   waterTableM: Float64Array;
   fixedCells: Uint32Array;
   exchangeM3PerDay: Float64Array;
+  sideFlowM3PerDay: Float64Array;
+  rechargeMPerDay: Float64Array;
   status: DistrictSolveStatus;
   linearIterations: number;
   picardIterations: number;
@@ -184,6 +197,8 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     waterTableM: solution.headM,
     fixedCells: solution.fixedCells,
     exchangeM3PerDay: solution.exchangeM3PerDay,
+    sideFlowM3PerDay: solution.sideFlowM3PerDay,
+    rechargeMPerDay,
     status: solution.status,
     linearIterations: solution.linearIterations,
     picardIterations: solution.picardIterations,
@@ -225,6 +240,32 @@ function leaveOutUnreached(grid: Grid, cellKind: Uint8Array): number {
     if (cellKind[g] === CELL_FREE && !reached[g]) { cellKind[g] = CELL_OUTSIDE; cutOff++; }
   }
   return cutOff;
+}
+
+/** The side of a cell's neighbour that faces back to the cell (west <-> east, south <-> north). */
+const OPPOSITE_SIDE = [1, 0, 3, 2];
+
+/** Index of fixed cell g among the fixed cells (ascending); -1 when g is not one. */
+function fixedIndex(fixedCells: Uint32Array, g: number): number {
+  let lo = 0, hi = fixedCells.length - 1;
+  while (lo <= hi) {
+    const mid = (lo + hi) >>> 1;
+    const v = fixedCells[mid];
+    if (v === g) return mid;
+    if (v < g) lo = mid + 1;
+    else hi = mid - 1;
+  }
+  return -1;
+}
+
+/** How many of cell g's sides face a free cell of strip s (at least 1 when called from one). */
+function sidesInto(grid: Grid, cellKind: Uint8Array, stripMark: Int32Array, s: number, g: number): number {
+  let count = 0;
+  for (let side = 0; side < 4; side++) {
+    const gj = cellNeighbour(g, side, grid.columns, grid.cells);
+    if (gj >= 0 && cellKind[gj] === CELL_FREE && stripMark[gj] === s) count++;
+  }
+  return count;
 }
 
 function lineLosses(solve: GridSolve, lineCount: number): { loss: Float64Array; cells: Uint32Array } {
@@ -342,16 +383,44 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
   }
 
   const stripCells = polygonCells(grid, inputs.stripRings.map((ring) => [ring]));
+  const lineOfCell = fine.burned.line;
+  const cellAreaM2 = cellM * cellM;
+  // which strip a cell was last found in, so a line cell's sides into the current strip can be counted
+  const stripMark = new Int32Array(grid.cells).fill(-1);
   const strips: DistrictStripFigures[] = inputs.stripRings.map((_, s) => {
-    let minDepthM = Infinity, shallow = 0;
+    const [lineA, lineB] = inputs.stripLines[s];
+    let minDepthM = Infinity, shallow = 0, lossA = 0, lossB = 0;
+    for (let k = stripCells.start[s]; k < stripCells.start[s + 1]; k++) stripMark[stripCells.cell[k]] = s;
     for (let k = stripCells.start[s]; k < stripCells.start[s + 1]; k++) {
       const g = stripCells.cell[k];
-      if (cellKind[g] !== CELL_FREE || banks[g]) continue;
+      if (cellKind[g] !== CELL_FREE) continue;
+      // water that line a's or b's cells send into this cell of the strip
+      for (let side = 0; side < 4; side++) {
+        const gj = cellNeighbour(g, side, grid.columns, grid.cells);
+        if (gj < 0 || cellKind[gj] !== CELL_FIXED) continue;
+        const l = lineOfCell[gj];
+        if (l !== lineA && l !== lineB) continue;
+        // the face lies half a cell from the line: the recharge on the half of the line cell between
+        // the line and the strip reaches the line, shared among the faces into the strip [derived]
+        const flow =
+          fine.sideFlowM3PerDay[4 * fixedIndex(fine.fixedCells, gj) + OPPOSITE_SIDE[side]] -
+          (0.5 * fine.rechargeMPerDay[gj] * cellAreaM2) / sidesInto(grid, cellKind, stripMark, s, gj);
+        if (l === lineA) lossA += flow;
+        else lossB += flow;
+      }
+      if (banks[g]) continue;
       if (depthM[g] < minDepthM) minDepthM = depthM[g];
       if (depthM[g] < settings.risk.waterloggedDepthM) shallow += areaHa;
     }
     const counted = Number.isFinite(minDepthM);
-    return { minDepthM: counted ? minDepthM : NaN, shallowAreaHa: shallow, risk: counted ? riskClass(minDepthM, settings.risk) : null };
+    return {
+      minDepthM: counted ? minDepthM : NaN,
+      shallowAreaHa: shallow,
+      risk: counted ? riskClass(minDepthM, settings.risk) : null,
+      lossAM3PerDay: lossA,
+      lossBM3PerDay: lossB,
+      lossM3PerDay: Math.max(lossA, 0) + Math.max(lossB, 0),
+    };
   });
 
   let lossSum = 0, gainSum = 0, edgeIn = 0, edgeOut = 0;

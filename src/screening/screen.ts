@@ -154,7 +154,7 @@ export function screenDistrict(
   } else {
     onProgress('district solve', 0, 1);
     district = districtSolve(
-      { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM) },
+      { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM), stripLines: strips.map((s) => [s.strip.lineA, s.strip.lineB] as const) },
       settings,
     );
     warnings.push(...district.warnings);
@@ -162,7 +162,8 @@ export function screenDistrict(
     district.strips.forEach((figures, i) => {
       const strip = strips[i];
       strip.district = figures;
-      if (Math.abs(strip.minDepthM - figures.minDepthM) > settings.districtDepthToleranceM) strip.flags.push('district-differs');
+      if (depthsDiffer(strip.minDepthM, figures.minDepthM, settings.districtDepthToleranceM)) strip.flags.push(FLAG_DISTRICT_DEPTH);
+      if (lossesDiffer(strip.lossM3PerDay, figures.lossM3PerDay, settings.districtLossTolerance)) strip.flags.push(FLAG_DISTRICT_LOSS);
     });
     onProgress('district solve', 1, 1);
   }
@@ -194,6 +195,23 @@ export function screenDistrict(
       strips: strips.length,
     },
   };
+}
+
+/** Strip flags where the quick method and the district solve part ways. */
+export const FLAG_DISTRICT_DEPTH = 'district-depth-differs';
+export const FLAG_DISTRICT_LOSS = 'district-loss-differs';
+/** Losses smaller than this (m^3/d) on both sides are too small to flag for a relative difference. */
+const LOSS_FLOOR_M3_PER_DAY = 1;
+
+function depthsDiffer(stripM: number, districtM: number, toleranceM: number): boolean {
+  // NaN on either side (no solved transect, no free cell) compares as not differing: risk says 'unsolved' there
+  return Math.abs(stripM - districtM) > toleranceM;
+}
+
+function lossesDiffer(stripM3PerDay: number, districtM3PerDay: number, tolerance: number): boolean {
+  const larger = Math.max(Math.abs(stripM3PerDay), Math.abs(districtM3PerDay));
+  if (!(larger >= LOSS_FLOOR_M3_PER_DAY)) return false;
+  return Math.abs(stripM3PerDay - districtM3PerDay) > tolerance * larger;
 }
 
 /** Ranks in place: by loss per km (where lining pays first) or by smallest depth (shallowest first). */

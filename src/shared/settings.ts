@@ -40,6 +40,8 @@ export interface ScreenSettings {
   districtMemoryMB: number;
   /** A strip whose smallest depth differs from the district solve's inside it by more than this is flagged (m). */
   districtDepthToleranceM: number;
+  /** A strip whose loss differs from what the district solve has its lines send into it by more than this fraction of the larger is flagged. */
+  districtLossTolerance: number;
   /** Largest input file read (MB); a JavaScript string holds at most about 512 MiB, so no more than 500 until inputs stream. */
   maxInputMB: number;
   /** Largest a zipped input may expand to (MB), and the largest expansion ratio of its members. */
@@ -145,6 +147,7 @@ export const SETTINGS: Readonly<Record<SettingKey, SettingSpec>> = Object.freeze
   districtCellM: { default: DEFAULT_DISTRICT_CELL_M, check: positive, type: 'number', unit: 'm', doc: 'cell size of the district solve (also solved at twice this size for its uncertainty)', flag: '--cell <m>' },
   districtMemoryMB: { default: 2048, check: positive, type: 'number', unit: 'MB', doc: 'memory the district solve may use; a grid that needs more is solved at a coarser cell, and said', flag: '--memory-mb <mb>' },
   districtDepthToleranceM: { default: 0.5, check: positive, type: 'number', unit: 'm', doc: "strips whose smallest depth differs from the district solve's inside them by more than this are flagged", advanced: true },
+  districtLossTolerance: { default: 0.25, check: positive, type: 'number', unit: 'fraction', doc: "strips whose loss differs from the district solve's loss into them by more than this fraction of the larger are flagged", advanced: true },
   maxInputMB: { default: 500, check: inputMegabytes, type: 'number', unit: 'MB', doc: 'largest input file doab reads (at most 500)', flag: '--max-input-mb <mb>', advanced: true },
   maxUnzippedMB: { default: 1000, check: positive, type: 'number', unit: 'MB', doc: 'largest a zipped shapefile may expand to', advanced: true },
   maxZipRatio: { default: 100, check: positive, type: 'number', unit: '', doc: 'largest expansion ratio of a member of a zipped shapefile (a zip bomb expands thousands of times)', advanced: true },

@@ -15,7 +15,7 @@ const STRIP_FIELDS = [
 const LINE_FIELDS = ['net_loss_m3_d', 'net_loss_m3_d_km', 'paired_m', 'unpaired_m', 'unpaired_reasons'];
 const RANKING_FIELDS = [
   'rank', 'strip_id', 'line_a', 'line_b', 'length_m', 'spacing_m', 'loss_m3_d', 'loss_m3_d_km', 'loss_m3_yr',
-  'losing_line', 'losing_share', 'min_depth_m', 'risk', 'risk_area_ha', 'flags',
+  'losing_line', 'losing_share', 'min_depth_m', 'risk', 'risk_area_ha', 'district_loss_m3_d_km', 'district_min_depth_m', 'flags',
 ];
 const TEXT_FIELDS = new Set(['strip_id', 'line_a', 'line_b', 'losing_line', 'risk', 'flags']);
 

@@ -72,6 +72,16 @@ describe('district solve against the Dupuit closed forms', () => {
         expect(gridPeak).toBeCloseTo(BASE + Math.sqrt(u(CELL)), 6);
       }
       expect(district.balance.residualRelative).toBeLessThan(1e-6);
+      // the strip between A and B: what the district solve has each line send into the strip polygon
+      // is the strip's own figure, line by line, within 2% (the strip's figure is the closed form above)
+      expect(result.strips.length).toBe(1);
+      const strip = result.strips[0];
+      const figures = strip.district!;
+      expect(figures.lossAM3PerDay / strip.lossAM3PerDay).toBeGreaterThan(0.98);
+      expect(figures.lossAM3PerDay / strip.lossAM3PerDay).toBeLessThan(1.02);
+      expect(figures.lossBM3PerDay / strip.lossBM3PerDay).toBeGreaterThan(0.98);
+      expect(figures.lossBM3PerDay / strip.lossBM3PerDay).toBeLessThan(1.02);
+      expect(strip.flags).not.toContain('district-loss-differs');
     });
   }
 
