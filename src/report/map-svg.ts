@@ -170,8 +170,8 @@ function mapKey(result: ScreenResult, lineWidth: LineWidths): string {
   const depthNote: Record<StripClass, string> = {
     ponded: 'water table at or above ground',
     waterlogged: `water table less than ${escapeHtml(risk.waterloggedDepthM)} m below ground`,
-    potential: `${escapeHtml(risk.waterloggedDepthM)} to ${escapeHtml(risk.potentialDepthM)} m below ground`,
-    safe: `${escapeHtml(risk.potentialDepthM)} m or more below ground`,
+    potential: `potentially waterlogged, water table ${escapeHtml(risk.waterloggedDepthM)} to ${escapeHtml(risk.potentialDepthM)} m below ground`,
+    safe: `water table ${escapeHtml(risk.potentialDepthM)} m or more below ground`,
     unsolved: 'no transect could be solved',
   };
   const classes = STRIP_CLASSES.map(

@@ -97,7 +97,8 @@ export const PAGE_SCRIPT = `
   function keyOf(row, col, kind) {
     var text = row.cells[col].textContent;
     if (text === '') return null;
-    if (kind === 'num') return Number(text);
+    // numbers are grouped with thin spaces for reading, and a share is written with %
+    if (kind === 'num') return Number(text.replace(/[\\s%]/g, ''));
     if (kind === 'risk') return text in riskOrder ? riskOrder[text] : 5;
     return text;
   }
@@ -137,9 +138,12 @@ export const PAGE_SCRIPT = `
 
   if (!map || !tip) return;
   var rowsById = null;
-  var shown = ['line_a', 'line_b', 'loss_m3_d', 'loss_m3_d_km', 'loss_m3_yr', 'min_depth_m', 'risk', 'risk_area_ha', 'flags'];
+  // the strip's figures on hover, in the table's words and units (each header carries them)
+  var shown = ['line_a', 'line_b', 'loss_m3_d_km', 'loss_m3_d', 'losing_line', 'losing_share', 'min_depth_m', 'risk',
+    'risk_area_ha', 'district_loss_m3_d_km', 'district_min_depth_m', 'flags'];
   var columns = heads.map(function (th) { return th.getAttribute('data-column'); });
   var idColumn = columns.indexOf('strip_id');
+  var key = document.querySelector('.map-key');
 
   function rowOf(id) {
     if (rowsById === null) {
@@ -154,15 +158,16 @@ export const PAGE_SCRIPT = `
     var row = rowOf(id);
     tip.textContent = '';
     var head = document.createElement('b');
-    head.textContent = 'strip ' + id;
+    head.textContent = 'Strip ' + id;
     tip.appendChild(head);
     if (row) {
       shown.forEach(function (name) {
         var col = columns.indexOf(name);
         var text = col < 0 ? '' : row.cells[col].textContent;
         if (text === '') return;
+        var unit = heads[col].getAttribute('data-unit');
         var line = document.createElement('div');
-        line.textContent = name + ': ' + text;
+        line.textContent = heads[col].getAttribute('data-words') + ': ' + text + (unit === '%' ? '%' : unit ? ' ' + unit : '');
         tip.appendChild(line);
       });
     }
@@ -170,13 +175,25 @@ export const PAGE_SCRIPT = `
     move(event);
   }
 
+  function clamp(v, low, high) { return Math.max(low, Math.min(v, high)); }
+  function meets(x, y, w, h, box) { return x < box.right && box.left < x + w && y < box.bottom && box.top < y + h; }
+
+  // beside the pointer, on the first side where the tip stays in the window and off the map's key;
+  // where every side meets the key, beside the key instead
   function move(event) {
-    var x = event.clientX + 14, y = event.clientY + 14;
-    var w = tip.offsetWidth, h = tip.offsetHeight;
-    if (x + w > window.innerWidth - 4) x = event.clientX - w - 14;
-    if (y + h > window.innerHeight - 4) y = event.clientY - h - 14;
-    tip.style.left = x + 'px';
-    tip.style.top = y + 'px';
+    var w = tip.offsetWidth, h = tip.offsetHeight, gap = 14;
+    var cx = event.clientX, cy = event.clientY;
+    var keyBox = key ? key.getBoundingClientRect() : null;
+    var places = [[cx + gap, cy + gap], [cx - w - gap, cy + gap], [cx + gap, cy - h - gap], [cx - w - gap, cy - h - gap]];
+    if (keyBox) places.push([keyBox.left - w - gap, cy + gap], [cx + gap, keyBox.top - h - gap], [cx + gap, keyBox.bottom + gap]);
+    var chosen = null;
+    for (var i = 0; i < places.length && chosen === null; i++) {
+      var x = clamp(places[i][0], 4, window.innerWidth - w - 4), y = clamp(places[i][1], 4, window.innerHeight - h - 4);
+      if (!keyBox || !meets(x, y, w, h, keyBox)) chosen = [x, y];
+    }
+    if (chosen === null) chosen = [clamp(places[0][0], 4, window.innerWidth - w - 4), clamp(places[0][1], 4, window.innerHeight - h - 4)];
+    tip.style.left = chosen[0] + 'px';
+    tip.style.top = chosen[1] + 'px';
   }
 
   map.addEventListener('mouseover', function (event) {

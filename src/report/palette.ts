@@ -18,6 +18,7 @@ export const OKABE_ITO = {
 export type StripClass = RiskClass | 'unsolved';
 
 export interface StripStyle {
+  /** The class name as ranking.csv, the table and the legend all write it. */
   label: string;
   colour: string;
   /** Marks drawn over the colour in a 6 x 6 tile, as SVG path data. */
@@ -31,7 +32,7 @@ export const STRIP_STYLES: Record<StripClass, StripStyle> = {
   // single diagonal hatch
   waterlogged: { label: 'waterlogged', colour: OKABE_ITO.orange, hatch: 'M0 6L6 0M-1 1L1 -1M5 7L7 5', hatchColour: '#000000' },
   // dotted
-  potential: { label: 'potentially waterlogged', colour: OKABE_ITO.yellow, hatch: 'M2.5 3h1', hatchColour: '#000000' },
+  potential: { label: 'potential', colour: OKABE_ITO.yellow, hatch: 'M2.5 3h1', hatchColour: '#000000' },
   safe: { label: 'safe', colour: OKABE_ITO.bluishGreen, hatch: '', hatchColour: '#000000' },
   // horizontal lines on pale grey: no solution, so no colour of risk
   unsolved: { label: 'unsolved', colour: '#DDDDDD', hatch: 'M0 3h6', hatchColour: '#666666' },

@@ -71,12 +71,12 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
   const source = district ? 'district solve' : 'strips alone';
   const seepage = netSeepageTotals(result);
   const seepageParts = (figure: NetSeepage) =>
-    `= lost by losing lines ${formatGrouped(figure.lostByLosingLinesM3PerDay, figure.decimals)} − taken in by gaining lines ` +
+    `lost by losing lines ${formatGrouped(figure.lostByLosingLinesM3PerDay, figure.decimals)} − taken in by gaining lines ` +
     `${formatGrouped(figure.takenInByGainingLinesM3PerDay, figure.decimals)} m³/d`;
   const cards = [
     `<div class="total-card net-seepage" data-method="${seepage.main.method}"><span class="what">${escapeHtml(NET_SEEPAGE_NAME)} (${source})</span>` +
       `<span class="figure">${formatGrouped(seepage.main.netM3PerDay, seepage.main.decimals)} m³/d</span>` +
-      `<span class="what">${formatGrouped(seepage.main.netM3PerYear, seepage.main.yearDecimals)} m³/yr; ${seepageParts(seepage.main)}` +
+      `<span class="what">${formatGrouped(seepage.main.netM3PerYear, seepage.main.yearDecimals)} m³/yr</span><span class="what">= ${seepageParts(seepage.main)}` +
       `${seepage.main.netM3PerDay < 0 ? ' (negative: the lines take in more than they lose)' : ''}</span></div>`,
     ...(district
       ? [
@@ -91,7 +91,7 @@ function summarySection(result: ScreenResult, inputWarnings: string[]): string {
       ? [
           totalCard(
             `${formatGrouped(seepage.stripsAlone.netM3PerDay, seepage.stripsAlone.decimals)} m³/d`,
-            `net seepage by the strips alone, the quicker method, for comparison ${seepageParts(seepage.stripsAlone)}`,
+            `net seepage by the strips alone (the quicker method, for comparison): ${seepageParts(seepage.stripsAlone)}`,
           ),
         ]
       : []),
@@ -171,17 +171,64 @@ function profilesSection(result: ScreenResult, top: number): string {
   );
 }
 
+/** A figure for reading: about three digits or more, never more than two decimals, thousands grouped. */
+export function readableNumber(value: number): string {
+  const magnitude = Math.abs(value);
+  return formatGrouped(value, magnitude >= 100 || magnitude === 0 ? 0 : magnitude >= 10 ? 1 : 2);
+}
+
+interface RankingHeading {
+  /** Words for the column's header and for the map's hover text. */
+  words: string;
+  /** The unit, after the words in the header and after the value on hover; '' for none. */
+  unit: string;
+  show: (value: unknown) => string;
+}
+
+/**
+ * The ranked table's columns as a reader wants them: words with units, numbers rounded for reading
+ * (ranking.csv keeps six digits). Each header keeps the CSV column's name in data-column.
+ */
+function rankingHeadings(result: ScreenResult): Record<(typeof RANKING_COLUMNS)[number], RankingHeading> {
+  const text = (v: unknown) => String(v);
+  const shallow = result.settings.risk.waterloggedDepthM;
+  return {
+    rank: { words: 'Rank', unit: '', show: text },
+    strip_id: { words: 'Strip', unit: '', show: text },
+    line_a: { words: 'Line a', unit: '', show: text },
+    line_b: { words: 'Line b', unit: '', show: text },
+    length_m: { words: 'Length', unit: 'km', show: (v) => formatFixed((v as number) / 1000, 2) },
+    spacing_m: { words: 'Spacing of the lines', unit: 'm', show: (v) => formatGrouped(v as number) },
+    loss_m3_d: { words: 'Loss', unit: 'm³/d', show: (v) => readableNumber(v as number) },
+    loss_m3_d_km: { words: 'Loss per km', unit: 'm³/d per km', show: (v) => readableNumber(v as number) },
+    loss_m3_yr: { words: 'Loss per year', unit: 'm³/yr', show: (v) => formatGrouped(v as number) },
+    losing_line: { words: 'Losing line', unit: '', show: text },
+    losing_share: { words: "Losing line's share of the loss", unit: '%', show: (v) => formatFixed(100 * (v as number), 0) },
+    min_depth_m: { words: 'Smallest depth to water table', unit: 'm', show: (v) => formatFixed(v as number, 2) },
+    risk: { words: 'Risk class', unit: '', show: text },
+    risk_area_ha: { words: `Area with water table less than ${shallow} m deep`, unit: 'ha', show: (v) => formatGrouped(v as number, 1) },
+    district_loss_m3_d_km: { words: 'Loss per km, district solve', unit: 'm³/d per km', show: (v) => readableNumber(v as number) },
+    district_min_depth_m: { words: 'Smallest depth to water table, district solve', unit: 'm', show: (v) => formatFixed(v as number, 2) },
+    flags: { words: 'Flags', unit: '', show: text },
+  };
+}
+
 function rankingSection(result: ScreenResult, rowsShown: number): string {
-  const head = RANKING_COLUMNS.map(
-    (column) => `<th scope="col" data-column="${column}" data-kind="${columnKind(column)}" aria-sort="none"><button type="button">${column}</button></th>`,
-  ).join('');
+  const headings = rankingHeadings(result);
+  const head = RANKING_COLUMNS.map((column) => {
+    const { words, unit } = headings[column];
+    return (
+      `<th scope="col" data-column="${column}" data-kind="${columnKind(column)}" data-words="${escapeHtml(words)}" data-unit="${escapeHtml(unit)}" aria-sort="none">` +
+      `<button type="button">${escapeHtml(unit ? `${words} (${unit})` : words)}</button></th>`
+    );
+  }).join('');
   const rows = result.strips.map((strip, i) => {
     const row = rankingRow(strip, i + 1);
     // end tags of td are optional in HTML, and the style sheet aligns numbers by column: both
     // keep a 10,000-row table smaller
     const cells = RANKING_COLUMNS.map((column) => {
       const value = row[column];
-      return `<td>${value === null || value === undefined ? '' : escapeHtml(value)}`;
+      return `<td>${value === null || value === undefined || value === '' ? '' : escapeHtml(headings[column].show(value))}`;
     }).join('');
     return `<tr class="rank-row">${cells}</tr>`;
   });
@@ -192,7 +239,7 @@ function rankingSection(result: ScreenResult, rowsShown: number): string {
     : '';
   return (
     `<section id="ranking"><h2>Ranked strips</h2><p class="run-line">The rows and columns of ranking.csv, ranked by ` +
-    `${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}. Click a column header to sort.</p>${cap}` +
+    `${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}, with numbers rounded for reading (ranking.csv keeps six digits). Click a column header to sort.</p>${cap}` +
     `<div class="table-wrap"><table id="ranking-table" class="ranking${capped ? ' is-capped' : ''}"><thead><tr>${head}</tr></thead>` +
     `<tbody>\n${rows.join('\n')}\n</tbody></table></div></section>`
   );

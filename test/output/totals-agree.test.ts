@@ -114,7 +114,7 @@ describe.each([
     const d = decimalsOf(shown.text[2]);
     expect(card![2]).toContain(`Net seepage from the lines into the aquifer (${method === 'district' ? 'district solve' : 'strips alone'})`);
     expect(card![2]).toContain(`<span class="figure">${formatGrouped(block.m3_d, d)} m³/d</span>`);
-    expect(card![2]).toContain(`lost by losing lines ${formatGrouped(block.lost_by_losing_lines_m3_d, d)} − taken in by gaining lines ${formatGrouped(block.taken_in_by_gaining_lines_m3_d, d)} m³/d`);
+    expect(card![2]).toContain(`= lost by losing lines ${formatGrouped(block.lost_by_losing_lines_m3_d, d)} − taken in by gaining lines ${formatGrouped(block.taken_in_by_gaining_lines_m3_d, d)} m³/d`);
     expect(card![2]).toContain(`${formatGrouped(block.m3_yr, decimalsOf(shown.text[1]))} m³/yr`);
   });
 });

@@ -8,7 +8,7 @@ import { pathToFileURL } from 'node:url';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rankingRow, stripProperties } from '../../src/output/layers.js';
-import { renderReport, type ReportMeta } from '../../src/report/report.js';
+import { readableNumber, renderReport, type ReportMeta } from '../../src/report/report.js';
 import type { ScreenResult } from '../../src/screening/screen.js';
 import { DEMO_AQUIFER, DEMO_CANALS, ROOT, screenFiles } from './demo-result.js';
 
@@ -82,18 +82,51 @@ describe.skipIf(!present && !process.env.CI)('the demo report in headless chromi
     expect(await label.textContent()).toBe(`${(stripProperties(top).peak_water_table_m as number).toFixed(2)} m`);
   });
 
-  it('shows a strip\'s figures on hover', async () => {
-    const strip = result.strips[3];
-    const shape = page.locator(`svg.district-map .strip-shape[data-strip-id="${strip.stripId}"]`);
-    const box = (await shape.boundingBox())!;
-    await shape.dispatchEvent('mouseover', { clientX: box.x + box.width / 2, clientY: box.y + box.height / 2 });
+  it("shows a strip's figures on hover in words with units, and never over the map's key", async () => {
+    await page.locator('svg.district-map').scrollIntoViewIfNeeded();
+    // every strip hovered in the page, at its middle and at its edge nearest the key (where a tip
+    // placed to the right would cover it); boxes in the window's coordinates
+    const hovers = await page.evaluate(() => {
+      type Box = { left: number; top: number; right: number; bottom: number };
+      const plain = (r: DOMRect): Box => ({ left: r.left, top: r.top, right: r.right, bottom: r.bottom });
+      const tip = document.getElementById('map-tip')!;
+      const out: { id: string; x: number; y: number; text: string; shown: boolean; tip: Box; key: Box }[] = [];
+      for (const shape of Array.from(document.querySelectorAll('svg.district-map .strip-shape'))) {
+        const box = shape.getBoundingClientRect();
+        for (const x of [box.left + box.width / 2, box.right - 1]) {
+          const y = box.top + box.height / 2;
+          shape.dispatchEvent(new MouseEvent('mouseover', { bubbles: true, clientX: x, clientY: y }));
+          out.push({
+            id: shape.getAttribute('data-strip-id')!, x, y, text: tip.innerText, shown: getComputedStyle(tip).display !== 'none',
+            tip: plain(tip.getBoundingClientRect()), key: plain(document.querySelector('.map-key')!.getBoundingClientRect()),
+          });
+          shape.dispatchEvent(new MouseEvent('mouseout', { bubbles: true, clientX: x, clientY: y }));
+        }
+      }
+      return out;
+    });
+    expect(hovers).toHaveLength(2 * result.strips.length);
+    for (const hover of hovers) {
+      const rank = result.strips.findIndex((s) => s.stripId === hover.id);
+      const strip = result.strips[rank];
+      const row = rankingRow(strip, rank + 1);
+      expect(hover.shown).toBe(true);
+      expect(hover.text).toContain(`Strip ${strip.stripId}`);
+      expect(hover.text).toContain(`Risk class: ${strip.risk}`);
+      expect(hover.text).toContain(`Loss per km: ${readableNumber(row.loss_m3_d_km as number)} m³/d per km`);
+      expect(hover.text).toContain(`Smallest depth to water table: ${(row.min_depth_m as number).toFixed(2)} m`);
+      // no field name of the CSV shows
+      expect(hover.text.replace(strip.stripId, '')).not.toMatch(/\w_\w/);
+      const { tip, key } = hover;
+      const meets = tip.left < key.right && key.left < tip.right && tip.top < key.bottom && key.top < tip.bottom;
+      expect(meets, `tip of ${hover.id} hovered at ${hover.x}, ${hover.y}: ${JSON.stringify(tip)} over the key ${JSON.stringify(key)}`).toBe(false);
+    }
+    // and the page's own pointer events show and hide it
     const tip = page.locator('#map-tip');
+    const first = page.locator('svg.district-map .strip-shape').first();
+    await first.hover({ force: true });
     await expect.poll(() => tip.isVisible()).toBe(true);
-    const text = (await tip.textContent()) ?? '';
-    expect(text).toContain(`strip ${strip.stripId}`);
-    expect(text).toContain(`risk: ${strip.risk}`);
-    expect(text).toContain(`loss_m3_d_km: ${rankingRow(strip, 4).loss_m3_d_km}`);
-    await shape.dispatchEvent('mouseout');
+    await page.mouse.move(1, 1);
     await expect.poll(() => tip.isVisible()).toBe(false);
   });
 
