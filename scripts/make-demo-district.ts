@@ -21,6 +21,8 @@ const METRES_PER_DEGREE_LAT = 110574;
 
 type Point = [number, number];
 
+const round = (value: number, decimals: number) => Number(value.toFixed(decimals));
+
 // ---------------------------------------------------------------- aquifer zones
 
 const BASE_M = 150; // one horizontal aquifer base for the whole district
@@ -35,18 +37,19 @@ interface ZoneSpec {
   rects: [number, number, number, number][];
 }
 
-// One big rectangle (the network plus at least 3.5 km all round) split by straight cuts: three
-// north-south cuts into soil bands, and one east-west cut across the second and fourth bands
-// whose southern pieces form one zone. Conductivities lie in the ranges of H. Bouwer (1978),
-// Groundwater Hydrology, m/d: fine sand 1-5, medium sand 5-20, coarse sand 20-100, sand and
-// gravel 5-100. Ground falls from the ridge in the east to the flat in the west.
-const WEST = -5000, EAST = 19500, SOUTH = -2500, NORTH = 13500;
+// One rectangle (the network plus 1.0-2.5 km all round, where the district's regional water table
+// is held) split by straight cuts: three north-south cuts into soil bands, and one east-west cut
+// across the second and fourth bands whose southern pieces form one zone. Conductivities lie in
+// the ranges of H. Bouwer (1978), Groundwater Hydrology, m/d: fine sand 1-5, medium sand 5-20,
+// coarse sand 20-100, sand and gravel 5-100. Ground falls from the ridge in the east to the flat
+// in the west.
+const WEST = -2500, EAST = 17000, SOUTH = 500, NORTH = 10800;
 const CUT_X = [3500, 8000, 12500];
 const CUT_Y = 2000;
 
 const ZONES: ZoneSpec[] = [
-  { id: 'Z-1', name: 'Grey Silty Fine Sand Flat', kMPerDay: 2, groundM: 178.5, rechargeMmPerYear: 100, rects: [[WEST, SOUTH, CUT_X[0], NORTH]] },
-  { id: 'Z-2', name: 'Tamarisk Medium Sand', kMPerDay: 8, groundM: 180.5, rechargeMmPerYear: 200, rects: [[CUT_X[0], CUT_Y, CUT_X[1], NORTH]] },
+  { id: 'Z-1', name: 'Grey Silty Fine Sand Flat', kMPerDay: 3, groundM: 179.2, rechargeMmPerYear: 60, rects: [[WEST, SOUTH, CUT_X[0], NORTH]] },
+  { id: 'Z-2', name: 'Tamarisk Medium Sand', kMPerDay: 8, groundM: 180.5, rechargeMmPerYear: 150, rects: [[CUT_X[0], CUT_Y, CUT_X[1], NORTH]] },
   { id: 'Z-3', name: 'Amber Coarse Sand', kMPerDay: 25, groundM: 182, rechargeMmPerYear: 50, rects: [[CUT_X[1], SOUTH, CUT_X[2], NORTH]] },
   { id: 'Z-4', name: 'Juniper Sand and Gravel Ridge', kMPerDay: 60, groundM: 184, rechargeMmPerYear: 0, rects: [[CUT_X[2], CUT_Y, EAST, NORTH]] },
   {
@@ -54,7 +57,7 @@ const ZONES: ZoneSpec[] = [
     name: 'Ochre Fine Sand',
     kMPerDay: 4,
     groundM: 179.5,
-    rechargeMmPerYear: 100,
+    rechargeMmPerYear: 80,
     rects: [[CUT_X[0], SOUTH, CUT_X[1], CUT_Y], [CUT_X[2], SOUTH, EAST, CUT_Y]],
   },
 ];
@@ -111,14 +114,16 @@ function bendingSouth(x: number, yStart: number, center: Point, turnDeg: number,
 const MAIN_Y = 9000;
 const MAIN_EAST = 15500;
 const MAIN_WEST = -500;
-// Drains between distributaries begin just short of the main canal, so that they flank the distributaries' heads.
-const DRAIN_Y = 8950;
+const MAIN_STAGE = { startM: 181, fallMPerKm: 0.125 };
+// Field drains begin 400 m short of the main canal and fall south to the collector drain.
+const DRAIN_Y = 8600;
 
-// The cross drain runs 25 degrees south of west, across Distributaries 6 to 3, to an outfall on Finch Drain;
-// it falls gently so that it stays 2-4 m below ground on both sides of the step between the medium sand and the flat.
-const CROSS_START: Point = [7600, 5800];
-const CROSS_TAN = Math.tan((25 * Math.PI) / 180);
-const crossY = (x: number) => CROSS_START[1] - (CROSS_START[0] - x) * CROSS_TAN;
+// The collector drain runs west along the south of the district, below every canal's tail, to an
+// outfall at the district's western edge; the field drains end on it at its own stage (T junctions).
+const COLLECTOR_Y = 2200;
+const COLLECTOR_EAST = 13800;
+const COLLECTOR_STAGE = { startM: 179.5, fallMPerKm: 0.3 };
+const collectorStageAt = (x: number) => COLLECTOR_STAGE.startM - (COLLECTOR_STAGE.fallMPerKm * (COLLECTOR_EAST - x)) / 1000;
 
 // The curved distributaries in the coarse sand share one bend centre, so they stay a constant distance apart.
 const BEND_CENTRE: Point = [11300, 6000];
@@ -133,43 +138,45 @@ function mainCanal(): Point[] {
   return [[MAIN_EAST, MAIN_Y], ...heads, [MAIN_WEST, MAIN_Y]];
 }
 
+/** A distributary's stage: from the main canal's stage where it takes off (no drop at the head regulator), falling. */
+function offtakeStage(x: number, fallMPerKm: number): Stage {
+  return { startM: round(MAIN_STAGE.startM - (MAIN_STAGE.fallMPerKm * (MAIN_EAST - x)) / 1000, 3), fallMPerKm };
+}
+
+/** A field drain from DRAIN_Y south to the collector, ending at the collector's stage. */
+function fieldDrain(id: string, name: string, x: number, fallMPerKm: number): LineSpec {
+  const lengthM = DRAIN_Y - COLLECTOR_Y;
+  return { id, name, kind: 'drain', parts: [[[x, DRAIN_Y], [x, COLLECTOR_Y]]], stage: { startM: round(collectorStageAt(x) + (fallMPerKm * lengthM) / 1000, 3), fallMPerKm } };
+}
+
 const LINES: LineSpec[] = [
-  // main canal along the north edge: head in cut through the ridge in the east, falling west onto the
+  // main canal along the north: head in cut through the ridge in the east, falling west onto the
   // flat, where it runs in fill above the ground; a vertex at every distributary's head
-  { id: 'C-01', name: 'Heron Main Canal', kind: 'canal', parts: [mainCanal()], stage: { startM: 181, fallMPerKm: 0.125 } },
+  { id: 'C-01', name: 'Heron Main Canal', kind: 'canal', parts: [mainCanal()], stage: MAIN_STAGE },
   // interceptor drains on the outer side of the main canal, where it crosses the flat and the medium sand
   { id: 'D-01', name: 'Kestrel Seepage Drain', kind: 'drain', parts: [[[3400, 9600], [-1000, 9600]]], stage: { startM: 176.2, fallMPerKm: 0.1 } },
   { id: 'D-02', name: 'Lark Seepage Drain', kind: 'drain', parts: [[[7800, 9700], [3600, 9700]]], stage: { startM: 177.3, fallMPerKm: 0.1 } },
-  // silty flat: distributaries near ground with drains between, and a short toe drain close beside Distributary 1
-  { id: 'C-02', name: 'Distributary 1', kind: 'canal', parts: [[[DISTRIBUTARY_X[0], MAIN_Y], [DISTRIBUTARY_X[0], 3500]]], stage: { startM: 178.2, fallMPerKm: 0.3 } },
+  // silty flat: distributaries in low fill with drains between, and a short toe drain close beside Distributary 1
+  { id: 'C-02', name: 'Distributary 1', kind: 'canal', parts: [[[DISTRIBUTARY_X[0], MAIN_Y], [DISTRIBUTARY_X[0], 3500]]], stage: offtakeStage(DISTRIBUTARY_X[0], 0.3) },
   { id: 'D-03', name: 'Wren Toe Drain', kind: 'drain', parts: [[[330, 8200], [330, 6700]]], stage: { constantM: 176.3 } },
-  { id: 'D-04', name: 'Plover Drain', kind: 'drain', parts: [[[900, DRAIN_Y], [900, 2500]]], stage: { startM: 175.7, fallMPerKm: 0.15 } },
-  { id: 'C-03', name: 'Distributary 2', kind: 'canal', parts: [[[DISTRIBUTARY_X[1], MAIN_Y], [DISTRIBUTARY_X[1], 2900]]], stage: { startM: 178.3, fallMPerKm: 0.3 } },
-  { id: 'D-05', name: 'Finch Drain', kind: 'drain', parts: [[[2300, DRAIN_Y], [2300, 2900]]], stage: { startM: 175.8, fallMPerKm: 0.08 } },
-  { id: 'C-04', name: 'Distributary 3', kind: 'canal', parts: [[[DISTRIBUTARY_X[2], MAIN_Y], [DISTRIBUTARY_X[2], 2900]]], stage: { startM: 178.3, fallMPerKm: 0.3 } },
-  // medium sand: the drain between Distributaries 4 and 5 comes in two reaches, both out-falling into
-  // the cross drain; Distributaries 3 and 4, and 5 and 6, have no drain between them
-  { id: 'C-05', name: 'Distributary 4', kind: 'canal', parts: [[[DISTRIBUTARY_X[3], MAIN_Y], [DISTRIBUTARY_X[3], 1500]]], stage: { startM: 179.2, fallMPerKm: 0.28 } },
-  {
-    id: 'D-06',
-    name: 'Sparrow Drain',
-    kind: 'drain',
-    parts: [
-      [[5000, DRAIN_Y], [5000, crossY(5000)]],
-      [[5000, 2800], [5000, crossY(5000)]],
-    ],
-    stage: { constantM: 177 },
-  },
-  { id: 'C-06', name: 'Distributary 5', kind: 'canal', parts: [[[DISTRIBUTARY_X[4], MAIN_Y], [DISTRIBUTARY_X[4], 1800]]], stage: { startM: 179.4, fallMPerKm: 0.28 } },
-  { id: 'C-07', name: 'Distributary 6', kind: 'canal', parts: [[[DISTRIBUTARY_X[5], MAIN_Y], [DISTRIBUTARY_X[5], 4000]]], stage: { startM: 179.5, fallMPerKm: 0.3 } },
-  { id: 'D-07', name: 'Crimson Cross Drain', kind: 'drain', parts: [[CROSS_START, [2300, crossY(2300)]]], stage: { startM: 177, fallMPerKm: 0.11 } },
-  // coarse sand: two distributaries and a drain bending together about one centre
-  { id: 'C-08', name: 'Distributary 7', kind: 'canal', parts: [bendingSouth(DISTRIBUTARY_X[6], MAIN_Y, BEND_CENTRE, BEND_TURN_DEG, 1500)], stage: { startM: 179.9, fallMPerKm: 0.22 } },
-  { id: 'D-08', name: 'Tern Drain', kind: 'drain', parts: [bendingSouth(9500, DRAIN_Y, BEND_CENTRE, BEND_TURN_DEG, 1500)], stage: { startM: 179.3, fallMPerKm: 0.17 } },
-  { id: 'C-09', name: 'Distributary 8', kind: 'canal', parts: [bendingSouth(DISTRIBUTARY_X[7], MAIN_Y, BEND_CENTRE, BEND_TURN_DEG, 1500)], stage: { startM: 179.9, fallMPerKm: 0.25 } },
+  fieldDrain('D-04', 'Plover Drain', 900, 0.1),
+  { id: 'C-03', name: 'Distributary 2', kind: 'canal', parts: [[[DISTRIBUTARY_X[1], MAIN_Y], [DISTRIBUTARY_X[1], 2900]]], stage: offtakeStage(DISTRIBUTARY_X[1], 0.3) },
+  fieldDrain('D-05', 'Finch Drain', 2300, 0.08),
+  { id: 'C-04', name: 'Distributary 3', kind: 'canal', parts: [[[DISTRIBUTARY_X[2], MAIN_Y], [DISTRIBUTARY_X[2], 2900]]], stage: offtakeStage(DISTRIBUTARY_X[2], 0.3) },
+  // medium sand: Distributaries 3 and 4, and 5 and 6, have no drain between them
+  { id: 'C-05', name: 'Distributary 4', kind: 'canal', parts: [[[DISTRIBUTARY_X[3], MAIN_Y], [DISTRIBUTARY_X[3], 2800]]], stage: offtakeStage(DISTRIBUTARY_X[3], 0.28) },
+  fieldDrain('D-06', 'Sparrow Drain', 5000, 0.1),
+  { id: 'C-06', name: 'Distributary 5', kind: 'canal', parts: [[[DISTRIBUTARY_X[4], MAIN_Y], [DISTRIBUTARY_X[4], 2900]]], stage: offtakeStage(DISTRIBUTARY_X[4], 0.28) },
+  { id: 'C-07', name: 'Distributary 6', kind: 'canal', parts: [[[DISTRIBUTARY_X[5], MAIN_Y], [DISTRIBUTARY_X[5], 4000]]], stage: offtakeStage(DISTRIBUTARY_X[5], 0.3) },
+  // the collector along the south, below every tail
+  { id: 'D-07', name: 'Crimson Collector Drain', kind: 'drain', parts: [[[COLLECTOR_EAST, COLLECTOR_Y], [WEST, COLLECTOR_Y]]], stage: COLLECTOR_STAGE },
+  // coarse sand: two distributaries and a drain bending together about one centre; the drain's tail ends in the field
+  { id: 'C-08', name: 'Distributary 7', kind: 'canal', parts: [bendingSouth(DISTRIBUTARY_X[6], MAIN_Y, BEND_CENTRE, BEND_TURN_DEG, 1500)], stage: offtakeStage(DISTRIBUTARY_X[6], 0.22) },
+  { id: 'D-08', name: 'Tern Drain', kind: 'drain', parts: [bendingSouth(9500, DRAIN_Y, BEND_CENTRE, BEND_TURN_DEG, 1500)], stage: { startM: 179.0, fallMPerKm: 0.17 } },
+  { id: 'C-09', name: 'Distributary 8', kind: 'canal', parts: [bendingSouth(DISTRIBUTARY_X[7], MAIN_Y, BEND_CENTRE, BEND_TURN_DEG, 1500)], stage: offtakeStage(DISTRIBUTARY_X[7], 0.25) },
   // sand and gravel ridge: the distributaries run in cut, more than 3 m below ground
-  { id: 'C-10', name: 'Distributary 9', kind: 'canal', parts: [[[DISTRIBUTARY_X[8], MAIN_Y], [DISTRIBUTARY_X[8], 3000]]], stage: { startM: 180.6, fallMPerKm: 0.2 } },
-  { id: 'C-11', name: 'Distributary 10', kind: 'canal', parts: [[[DISTRIBUTARY_X[9], MAIN_Y], [DISTRIBUTARY_X[9], 4000]]], stage: { startM: 180.8, fallMPerKm: 0.15 } },
+  { id: 'C-10', name: 'Distributary 9', kind: 'canal', parts: [[[DISTRIBUTARY_X[8], MAIN_Y], [DISTRIBUTARY_X[8], 3000]]], stage: offtakeStage(DISTRIBUTARY_X[8], 0.2) },
+  { id: 'C-11', name: 'Distributary 10', kind: 'canal', parts: [[[DISTRIBUTARY_X[9], MAIN_Y], [DISTRIBUTARY_X[9], 4000]]], stage: offtakeStage(DISTRIBUTARY_X[9], 0.15) },
   { id: 'D-09', name: 'Oak Drain', kind: 'drain', parts: [[[15400, 8600], [15400, 5600]]], stage: { constantM: 180.1 } },
 ];
 
@@ -183,7 +190,6 @@ function partLengthM(part: Point[]): number {
 }
 const lineLengthM = (line: LineSpec) => line.parts.reduce((sum, p) => sum + partLengthM(p), 0);
 
-const round = (value: number, decimals: number) => Number(value.toFixed(decimals));
 
 function stageProperties(line: LineSpec): Record<string, number> {
   if ('constantM' in line.stage) return { stage_m: line.stage.constantM };
@@ -293,7 +299,6 @@ const CHECKS: { a: string; b: string; at: Point; note: string }[] = [
   { a: 'C-03', b: 'D-05', at: [DISTRIBUTARY_X[1], 6000], note: 'flat, canal and drain' },
   { a: 'C-05', b: 'D-06', at: [DISTRIBUTARY_X[3], 7000], note: 'medium sand, canal and drain' },
   { a: 'C-06', b: 'C-07', at: [DISTRIBUTARY_X[4], 7000], note: 'medium sand, two canals, no drain' },
-  { a: 'C-05', b: 'C-06', at: [DISTRIBUTARY_X[3], 1800], note: 'fine sand at the tails, two canals' },
   { a: 'C-08', b: 'D-08', at: [DISTRIBUTARY_X[6], 7500], note: 'coarse sand, canal and drain' },
   { a: 'C-09', b: 'D-08', at: [DISTRIBUTARY_X[7], 7500], note: 'coarse sand, canal and drain' },
   { a: 'C-08', b: 'D-08', at: [10050, 3835], note: 'coarse sand, after the bend' },

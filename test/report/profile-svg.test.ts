@@ -51,7 +51,7 @@ describe('renderProfileSvg', () => {
     const label = svg.match(/<text class="peak-label"[^>]*>([^<]*)<\/text>/);
     expect(label?.[1]).toBe(peakLabelText(profile.peakWaterTableM));
     // change detector on the invented demo (the top strip's peak), not a reference value
-    expect(label?.[1]).toBe('180.73 m');
+    expect(label?.[1]).toBe('178.83 m');
     const circle = svg.match(/<circle [^>]*>/)![0];
     expect(attribute(label![0], 'y')).toBeLessThan(attribute(circle, 'cy'));
   });
@@ -86,12 +86,12 @@ describe('orientFromLineA', () => {
   });
 
   it("mirrors a key transect cast from line b so that x runs from the strip's line a", () => {
-    const strip = result.strips.find((s) => s.stripId === 'C-05|D-06|0')!;
+    const strip = result.strips.find((s) => s.stripId === 'D-06|C-06|0')!;
     const cast = profileOfFacing(result, strip, keyFacing(result, strip))!;
-    // in the demo this strip's highest water table is on a transect cast from the drain
-    expect(cast.lineA).toBe('D-06');
+    // in the demo this strip's highest water table is on a transect cast from the canal, its line b
+    expect(cast.lineA).toBe('C-06');
     const seen = orientFromLineA(cast, strip.lineAId);
-    expect([seen.lineA, seen.lineB]).toEqual(['C-05', 'D-06']);
+    expect([seen.lineA, seen.lineB]).toEqual(['D-06', 'C-06']);
     expect([seen.stageAM, seen.stageBM]).toEqual([cast.stageBM, cast.stageAM]);
     expect(seen.xM[0]).toBe(0);
     expect(seen.xM[seen.xM.length - 1]).toBeCloseTo(cast.transectLengthM, 9);
@@ -102,7 +102,7 @@ describe('orientFromLineA', () => {
     expect(seen.peakOffsetM).toBeCloseTo(strip.peakOffsetM, 6);
     expect(seen.zones[0].fromM).toBe(0);
     expect(seen.seepageAM2PerDay).toBe(cast.seepageBM2PerDay);
-    expect(renderProfileSvg(seen)).toContain('distance from line a (C-05), m');
+    expect(renderProfileSvg(seen)).toContain('distance from line a (D-06), m');
   });
 
   it('leaves a profile cast from line a as it is', () => {
