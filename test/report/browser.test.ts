@@ -8,7 +8,10 @@ import { pathToFileURL } from 'node:url';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rankingRow, stripProperties } from '../../src/output/layers.js';
+import { renderProfileSvg } from '../../src/report/profile-svg.js';
 import { readableNumber, renderReport, type ReportMeta } from '../../src/report/report.js';
+import { CRAFTED_PROFILES } from './crafted-profiles.js';
+import { drawnTexts } from './label-boxes.js';
 import type { ScreenResult } from '../../src/screening/screen.js';
 import { DEMO_AQUIFER, DEMO_CANALS, ROOT, screenFiles } from './demo-result.js';
 
@@ -128,6 +131,54 @@ describe.skipIf(!present && !process.env.CI)('the demo report in headless chromi
     await expect.poll(() => tip.isVisible()).toBe(true);
     await page.mouse.move(1, 1);
     await expect.poll(() => tip.isVisible()).toBe(false);
+  });
+
+  it("keeps the cross-sections' labels apart as the browser draws them, on the demo and where they crowd", async () => {
+    type Box = { left: number; top: number; right: number; bottom: number; text: string };
+    const meeting = (boxes: Box[]) => {
+      const found: string[] = [];
+      for (let i = 0; i < boxes.length; i++) {
+        for (let j = i + 1; j < boxes.length; j++) {
+          const a = boxes[i], b = boxes[j];
+          if (a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom) found.push(`"${a.text}" meets "${b.text}"`);
+        }
+      }
+      return found;
+    };
+    const textBoxes = (p: Page) =>
+      p.locator('svg.profile-svg').evaluateAll((svgs) =>
+        svgs.map((svg) =>
+          Array.from(svg.querySelectorAll('text')).map((t) => {
+            const r = t.getBoundingClientRect();
+            return { left: r.left, top: r.top, right: r.right, bottom: r.bottom, text: t.textContent ?? '' };
+          }),
+        ),
+      );
+    const demo = await textBoxes(page);
+    expect(demo.length).toBeGreaterThan(0);
+    for (const boxes of demo) expect(meeting(boxes)).toEqual([]);
+
+    // the crafted crowded cases, drawn at their own size, where the drawing's measure of each text
+    // (labelBox) must hold the browser's box of it
+    const crafted = await page.context().newPage();
+    const svgs = CRAFTED_PROFILES.map(({ profile, widthPx, heightPx }) => renderProfileSvg(profile, { widthPx, heightPx }));
+    await crafted.setContent(`<!DOCTYPE html><html><body style="margin:0">${svgs.map((svg) => `<div>${svg}</div>`).join('')}</body></html>`);
+    const drawn = await textBoxes(crafted);
+    const measured = await crafted.locator('svg.profile-svg').evaluateAll((list) =>
+      list.map((svg) => Array.from(svg.querySelectorAll('text')).map((t) => (t.hasAttribute('transform') ? null : (({ x, y, width, height }) => ({ x, y, width, height }))(t.getBBox())))),
+    );
+    await crafted.close();
+    svgs.forEach((svg, k) => {
+      expect(meeting(drawn[k]), CRAFTED_PROFILES[k].name).toEqual([]);
+      const estimated = drawnTexts(svg);
+      expect(estimated).toHaveLength(measured[k].length);
+      estimated.forEach((text, i) => {
+        const real = measured[k][i];
+        if (!real) return;
+        const [left, top, right, bottom] = text.box;
+        expect(left <= real.x + 0.5 && top <= real.y + 0.5 && right >= real.x + real.width - 0.5 && bottom >= real.y + real.height - 0.5, `"${text.text}": ${JSON.stringify(real)} outside ${JSON.stringify(text.box)}`).toBe(true);
+      });
+    });
   });
 
   it('sorts the table by a column when its header is clicked, and back the other way', async () => {
