@@ -17,6 +17,16 @@ export interface StripProblem {
   baseM: number;
   /** Zones in series from line a to line b. */
   zones: ZoneSpec[];
+  /** Optional beds of line a (own) and line b (partner); a clean bed when absent. */
+  ownBed?: BedSpec;
+  partnerBed?: BedSpec;
+}
+
+export interface BedSpec {
+  /** The bed's conductance per metre of line on this side (m/d): the side's wetted perimeter over the bed resistance. */
+  conductanceMPerDay: number;
+  /** Elevation of the bed's underside (m); below it the bank head no longer matters. Default: none. */
+  floorM?: number;
 }
 
 export interface StripSolution {
@@ -32,6 +42,11 @@ export interface StripSolution {
   meanThicknessM: number;
   dupuitRatio: number;
   massResidualM2PerDay: number;
+  /** Water table at the banks of a and b (m). */
+  ownBankHeadM: number;
+  partnerBankHeadM: number;
+  /** |seepage through a bed - seepage into the aquifer| at the worse bank (m^2/d). */
+  bedResidualM2PerDay: number;
   /** Water-table elevation (m) at distance xM from line a. */
   headAt(xM: number): number;
   /** Flow towards line b (m^2/d) at distance xM from line a. */
@@ -54,6 +69,10 @@ export function solveStrip(problem: StripProblem): StripSolution | StripFailure 
     solver.rechargeMPerDay[j] = zone.rechargeMPerDay;
     solver.groundM[j] = zone.groundM;
   });
+  solver.ownBedConductanceMPerDay = problem.ownBed?.conductanceMPerDay ?? Infinity;
+  solver.ownBedFloorM = problem.ownBed?.floorM ?? -Infinity;
+  solver.partnerBedConductanceMPerDay = problem.partnerBed?.conductanceMPerDay ?? Infinity;
+  solver.partnerBedFloorM = problem.partnerBed?.floorM ?? -Infinity;
   const status = solver.solve(problem.ownStageM, problem.partnerStageM, problem.baseM, problem.zones.length);
   if (status !== SOLVE_OK) {
     const reason = SOLVE_STATUS_NAMES[status];
@@ -72,6 +91,9 @@ export function solveStrip(problem: StripProblem): StripSolution | StripFailure 
     meanThicknessM: solver.meanThicknessM,
     dupuitRatio: solver.dupuitRatio,
     massResidualM2PerDay: solver.massResidualM2PerDay,
+    ownBankHeadM: solver.ownBankHeadM,
+    partnerBankHeadM: solver.partnerBankHeadM,
+    bedResidualM2PerDay: solver.bedResidualM2PerDay,
     headAt: (xM) => solver.headAt(xM),
     fluxAt: (xM) => solver.fluxAt(xM),
     shallowLengthM: (depthM) => solver.shallowLengthM(depthM),
@@ -91,6 +113,8 @@ export function describeFailure(reason: SolveStatusName, problem: StripProblem, 
       return `hydraulic conductivity ${problem.zones[zone]?.kMPerDay} m/d is not positive${where}`;
     case 'stage-at-or-below-base':
       return `a line's stage (a ${problem.ownStageM} m, b ${problem.partnerStageM} m) is at or below the aquifer base ${problem.baseM} m`;
+    case 'bed-solve-failed':
+      return "the heads at the banks of the lines' beds did not converge";
     case 'aquifer-dries':
       return `the water table would fall to the aquifer base${where}: the Dupuit-Forchheimer strip solution does not hold`;
     default:

@@ -20,6 +20,7 @@ export const SOLVE_NON_POSITIVE_LENGTH = 3;
 export const SOLVE_NON_POSITIVE_K = 4;
 export const SOLVE_STAGE_AT_OR_BELOW_BASE = 5;
 export const SOLVE_AQUIFER_DRIES = 6;
+export const SOLVE_BED_NOT_CONVERGED = 7;
 
 export const SOLVE_STATUS_NAMES = [
   'ok',
@@ -29,9 +30,13 @@ export const SOLVE_STATUS_NAMES = [
   'non-positive-conductivity',
   'stage-at-or-below-base',
   'aquifer-dries',
+  'bed-solve-failed',
 ] as const;
 export type SolveStatusName = (typeof SOLVE_STATUS_NAMES)[number];
 
+
+/** Newton steps allowed for the bank heads where a bed resists (it takes a handful). */
+const MAX_BED_ITERATIONS = 100;
 
 export class TransectSolver {
   readonly maxZones: number;
@@ -40,6 +45,17 @@ export class TransectSolver {
   readonly kMPerDay: Float64Array;
   readonly rechargeMPerDay: Float64Array;
   readonly groundM: Float64Array;
+  /**
+   * The lines' beds, set by the caller before `solve`: the conductance of the bed on this side,
+   * per metre of line (m/d; the side's share of the wetted perimeter over the bed resistance), and
+   * the elevation of the bed's underside (m). Infinity (a clean bed: the line holds the bank at its
+   * stage) and -Infinity (no underside known) by default. Seepage into this side is
+   * conductance x (stage - max(bank head, underside)).
+   */
+  ownBedConductanceMPerDay = Infinity;
+  partnerBedConductanceMPerDay = Infinity;
+  ownBedFloorM = -Infinity;
+  partnerBedFloorM = -Infinity;
 
   /** u = h^2 (m^2) at zone edges, and the edges' distance from line a (m). */
   readonly uEdgeM2: Float64Array;
@@ -70,6 +86,13 @@ export class TransectSolver {
   massResidualM2PerDay = NaN;
   /** Zone where the last failed solve found its problem, or -1. */
   failedZone = -1;
+  /** Water table at each bank (m): the stage for a clean bed, below it where a losing line's bed resists. */
+  ownBankHeadM = NaN;
+  partnerBankHeadM = NaN;
+  /** Newton iterations the beds took (0 for clean beds). */
+  bedIterations = 0;
+  /** Largest |seepage through the bed - seepage into the aquifer| at the banks (m^2/d); 0 for clean beds. */
+  bedResidualM2PerDay = 0;
 
   constructor(maxZones = 64) {
     if (!(maxZones >= 1)) throw new Error(`Unexpected maxZones value: ${maxZones}.`);
@@ -106,8 +129,17 @@ export class TransectSolver {
     if (!(ownStageM > baseM) || !(partnerStageM > baseM)) return SOLVE_STAGE_AT_OR_BELOW_BASE;
 
     const h0 = ownStageM - baseM, hL = partnerStageM - baseM;
-    uEdgeM2[0] = h0 * h0;
-    uEdgeM2[zoneCount] = hL * hL;
+    this.bedIterations = 0;
+    this.bedResidualM2PerDay = 0;
+    const ownC = this.ownBedConductanceMPerDay, partnerC = this.partnerBedConductanceMPerDay;
+    if (!(ownC > 0) || !(partnerC > 0) || Number.isNaN(this.ownBedFloorM) || Number.isNaN(this.partnerBedFloorM)) return SOLVE_NON_FINITE;
+    if (ownC === Infinity && partnerC === Infinity) {
+      uEdgeM2[0] = h0 * h0;
+      uEdgeM2[zoneCount] = hL * hL;
+    } else {
+      const banks = this.solveBanks(h0, hL, baseM, zoneCount);
+      if (banks !== SOLVE_OK) return banks;
+    }
     this.solveInteriorEdges(zoneCount);
 
     this.zoneCount = zoneCount;
@@ -115,16 +147,91 @@ export class TransectSolver {
     this.transectLengthM = x;
 
     // Flux towards +x at the a end of zone 0 and at the b end of the last zone.
-    const l0 = lengthM[0], last = zoneCount - 1, lN = lengthM[last];
-    const q0 = (-kMPerDay[0] / (2 * l0)) * (uEdgeM2[1] - uEdgeM2[0]) - (rechargeMPerDay[0] * l0) / 2;
-    const qL = (-kMPerDay[last] / (2 * lN)) * (uEdgeM2[zoneCount] - uEdgeM2[last]) + (rechargeMPerDay[last] * lN) / 2;
+    const q0 = this.fluxAtA(zoneCount), qL = this.fluxAtB(zoneCount);
     this.ownSeepageM2PerDay = q0;
     this.partnerSeepageM2PerDay = -qL;
+    this.ownBankHeadM = baseM + Math.sqrt(Math.max(uEdgeM2[0], 0));
+    this.partnerBankHeadM = baseM + Math.sqrt(Math.max(uEdgeM2[zoneCount], 0));
+    if (ownC !== Infinity || partnerC !== Infinity) {
+      const bedA = ownC === Infinity ? q0 : ownC * (ownStageM - Math.max(this.ownBankHeadM, this.ownBedFloorM));
+      const bedB = partnerC === Infinity ? -qL : partnerC * (partnerStageM - Math.max(this.partnerBankHeadM, this.partnerBedFloorM));
+      this.bedResidualM2PerDay = Math.max(Math.abs(bedA - q0), Math.abs(bedB + qL));
+    }
     let rechargeTotal = 0;
     for (let j = 0; j < zoneCount; j++) rechargeTotal += rechargeMPerDay[j] * lengthM[j];
     this.massResidualM2PerDay = q0 - qL + rechargeTotal;
 
     return this.scanProfile(zoneCount);
+  }
+
+  private fluxAtA(zoneCount: number): number {
+    const l0 = this.lengthM[0];
+    return (-this.kMPerDay[0] / (2 * l0)) * (this.uEdgeM2[1] - this.uEdgeM2[0]) - (this.rechargeMPerDay[0] * l0) / 2;
+  }
+
+  private fluxAtB(zoneCount: number): number {
+    const last = zoneCount - 1, lN = this.lengthM[last];
+    return (-this.kMPerDay[last] / (2 * lN)) * (this.uEdgeM2[zoneCount] - this.uEdgeM2[last]) + (this.rechargeMPerDay[last] * lN) / 2;
+  }
+
+  /**
+   * Bank values of u where a bed resists: the seepage into the strip at each bank is affine in u
+   * there (the problem inside is linear in u), and must equal what the bed passes,
+   * C (H - max(h, floor)) with H and h thicknesses above the base. Newton on the two bank
+   * thicknesses, from the clean-bed values, with steps cut to keep them positive. Leaves the bank
+   * values in uEdgeM2[0] and uEdgeM2[zoneCount]. Where the banks head for the base (the beds cannot
+   * pass what recharge takes out, or what a drain would draw) the aquifer dries.
+   */
+  private solveBanks(stageThicknessA: number, stageThicknessB: number, baseM: number, zoneCount: number): number {
+    const u = this.uEdgeM2;
+    // the seepage into the strip at a (fluxAtA) and at b (-fluxAtB), as p + pa ua + pb ub
+    const seepage = (ua: number, ub: number): [number, number] => {
+      u[0] = ua;
+      u[zoneCount] = ub;
+      this.solveInteriorEdges(zoneCount);
+      return [this.fluxAtA(zoneCount), -this.fluxAtB(zoneCount)];
+    };
+    const [a0, b0] = seepage(0, 0);
+    const [a1, b1] = seepage(1, 0);
+    const [a2, b2] = seepage(0, 1);
+    const pAA = a1 - a0, pBA = b1 - b0, pAB = a2 - a0, pBB = b2 - b0;
+    const cA = this.ownBedConductanceMPerDay, cB = this.partnerBedConductanceMPerDay;
+    const floorA = this.ownBedFloorM - baseM, floorB = this.partnerBedFloorM - baseM;
+    let hA = stageThicknessA, hB = stageThicknessB;
+    // the scale of the fluxes, for the stopping test
+    const scale = Math.abs(a0) + Math.abs(b0) + Math.abs(pAA) * hA * hA + Math.abs(pBB) * hB * hB + Math.abs(pAB) * hB * hB + Math.abs(pBA) * hA * hA;
+    for (let iteration = 1; iteration <= MAX_BED_ITERATIONS; iteration++) {
+      const intoA = a0 + pAA * hA * hA + pAB * hB * hB, intoB = b0 + pBA * hA * hA + pBB * hB * hB;
+      // a clean bed holds its bank at the stage: its equation is h = H
+      const fA = cA === Infinity ? hA - stageThicknessA : intoA - cA * (stageThicknessA - Math.max(hA, floorA));
+      const fB = cB === Infinity ? hB - stageThicknessB : intoB - cB * (stageThicknessB - Math.max(hB, floorB));
+      const jAA = cA === Infinity ? 1 : 2 * pAA * hA + (hA > floorA ? cA : 0), jAB = cA === Infinity ? 0 : 2 * pAB * hB;
+      const jBA = cB === Infinity ? 0 : 2 * pBA * hA, jBB = cB === Infinity ? 1 : 2 * pBB * hB + (hB > floorB ? cB : 0);
+      const det = jAA * jBB - jAB * jBA;
+      if (!(Math.abs(det) > 0) || !Number.isFinite(det)) return this.bankFailure(hA, hB, stageThicknessA, stageThicknessB);
+      let dA = -(fA * jBB - fB * jAB) / det, dB = -(jAA * fB - jBA * fA) / det;
+      // keep both thicknesses positive: never more than nine tenths of the way to zero
+      const cut = Math.min(1, dA < 0 ? (-0.9 * hA) / dA : 1, dB < 0 ? (-0.9 * hB) / dB : 1);
+      dA *= cut;
+      dB *= cut;
+      hA += dA;
+      hB += dB;
+      this.bedIterations = iteration;
+      const tolerance = 1e-14 * (scale + (cA === Infinity ? 0 : cA * stageThicknessA) + (cB === Infinity ? 0 : cB * stageThicknessB));
+      if (Math.abs(fA) <= tolerance && Math.abs(fB) <= tolerance && cut === 1) break;
+      if (Math.abs(dA) <= 1e-13 * hA && Math.abs(dB) <= 1e-13 * hB && cut === 1) break;
+      if (iteration === MAX_BED_ITERATIONS) return this.bankFailure(hA, hB, stageThicknessA, stageThicknessB);
+    }
+    if (!(hA > 0) || !(hB > 0)) return this.bankFailure(hA, hB, stageThicknessA, stageThicknessB);
+    u[0] = hA * hA;
+    u[zoneCount] = hB * hB;
+    return SOLVE_OK;
+  }
+
+  /** Why the banks did not settle: a bank driven to the base is a drying aquifer; anything else the bed solve's own failure. */
+  private bankFailure(hA: number, hB: number, stageThicknessA: number, stageThicknessB: number): number {
+    const dry = !(hA > 1e-3 * stageThicknessA) || !(hB > 1e-3 * stageThicknessB);
+    return dry ? SOLVE_AQUIFER_DRIES : SOLVE_BED_NOT_CONVERGED;
   }
 
   // Thomas algorithm on (a_j-1 + a_j) U_j - a_j-1 U_j-1 - a_j U_j+1 = N_j-1 l_j-1 + N_j l_j, a = K/l.

@@ -40,6 +40,16 @@ const words: Checker = (value, key) => {
   return value;
 };
 
+const nonNegativeNumber: Checker = (value, key) => {
+  if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) throw new Error(`"${key}" must be a number of 0 or more, found ${shown(value)}`);
+  return value;
+};
+const positiveOrNull: Checker = (value, key) => {
+  if (value === null) return null;
+  if (typeof value !== 'number' || !Number.isFinite(value) || !(value > 0)) throw new Error(`"${key}" must be a positive number, or null for none, found ${shown(value)}`);
+  return value;
+};
+
 type Section = { [key: string]: Checker | Section };
 
 /** The settings' part of the schema, from the settings table (`risk.x` keys nest under "risk"). */
@@ -56,11 +66,11 @@ function settingsSection(): Section {
 const SCHEMA: Section = {
   ...settingsSection(),
   fields: {
-    lines: { id: text, kind: text, name: text, stage: text, stageStart: text, stageEnd: text },
+    lines: { id: text, kind: text, name: text, stage: text, stageStart: text, stageEnd: text, bedResistance: text, wettedPerimeter: text, bottomWidth: text, waterDepth: text },
     zones: { id: text, k: text, base: text, ground: text, recharge: text, edgeHead: text },
   },
   units: { k: oneOf(CONDUCTIVITY_UNITS), recharge: oneOf(RECHARGE_UNITS), elevation: oneOf(LENGTH_UNITS) },
-  defaults: { kind: oneOf(['canal', 'drain']), recharge: finite },
+  defaults: { kind: oneOf(['canal', 'drain']), recharge: finite, bedResistanceD: nonNegativeNumber, wettedPerimeterM: positiveOrNull, bankSlope: nonNegativeNumber },
   kindWords: { canal: words, drain: words },
 };
 

@@ -23,6 +23,16 @@ export interface LineRecord {
   stageEndM: number;
   /** The attribute(s) the stage came from, for messages: "stage_m" or "stage_start_m/stage_end_m". */
   stageField: string;
+  /** The bed's resistance to seepage (days); 0 for a clean bed (the line holds the aquifer at its stage). */
+  bedResistanceD: number;
+  /** Where the resistance came from: the line's attribute, or the config's default. */
+  bedResistanceFrom: 'attribute' | 'default';
+  /** Wetted perimeter (m); NaN when the bed is clean and none was given. */
+  wettedPerimeterM: number;
+  /** Where the wetted perimeter came from. */
+  wettedPerimeterFrom: 'attribute' | 'width-and-depth' | 'default' | 'none';
+  /** Water depth (m), for the bed's underside; NaN when not given. */
+  waterDepthM: number;
   /** Parts in lon/lat: one per LineString part. */
   partsLonLat: number[][][];
   /** The feature's own attributes, copied into a prototype-free object. */
@@ -341,6 +351,64 @@ function resolveCutNames<T extends object>(file: string, features: unknown[], fi
   return resolved;
 }
 
+const BED_FIELD_WHAT = {
+  bedResistance: 'the bed resistance, days',
+  wettedPerimeter: 'the wetted perimeter',
+  bottomWidth: 'the bottom width',
+  waterDepth: 'the water depth',
+} as const;
+
+/** Bed resistances above this (days, about 270 years) are taken for a unit error: such a bed seals the line. */
+export const BED_RESISTANCE_PLAUSIBLE_D = 100_000;
+
+/**
+ * A line's bed: its resistance (attribute, else the default), and when it has one the wetted
+ * perimeter, from its attribute, else from bottom width and water depth on the default side slope
+ * (P = b + 2 d sqrt(1 + z^2), a trapezoid), else the default; no perimeter then is an error.
+ */
+function lineBed(
+  view: FeatureView,
+  f: InputRules['fields']['lines'],
+  rules: InputRules,
+  toM: (value: number) => number,
+  attempt: <T>(check: () => T) => T | undefined,
+) {
+  const given = (field: string) => view.properties[field] !== undefined && view.properties[field] !== null && view.properties[field] !== '';
+  const resistanceD = attempt(() => {
+    const c = numberField(view, f.bedResistance, rules.defaults.bedResistanceD);
+    if (!(c >= 0)) throw new FeatureProblem(f.bedResistance, `a bed resistance must be 0 (a clean bed) or more days, found ${c}`);
+    if (c > BED_RESISTANCE_PLAUSIBLE_D) throw new FeatureProblem(f.bedResistance, `a bed resistance of ${c} days seals the line (limit ${BED_RESISTANCE_PLAUSIBLE_D}); check the value, which is in days`);
+    return c;
+  });
+  const positiveLength = (field: string, what: string, zeroAllowed = false) =>
+    attempt(() => {
+      if (!given(field)) return Number.NaN;
+      const value = toM(numberField(view, field));
+      if (!(value > 0 || (zeroAllowed && value === 0))) throw new FeatureProblem(field, `${what} must be ${zeroAllowed ? '0 or more' : 'positive'}, found ${value} m`);
+      return value;
+    });
+  const perimeterGiven = positiveLength(f.wettedPerimeter, 'a wetted perimeter');
+  const widthM = positiveLength(f.bottomWidth, 'a bottom width', true);
+  const depthM = positiveLength(f.waterDepth, 'a water depth');
+  if (resistanceD === undefined || perimeterGiven === undefined || widthM === undefined || depthM === undefined) return undefined;
+  let perimeterM = perimeterGiven;
+  let perimeterFrom: LineRecord['wettedPerimeterFrom'] = 'attribute';
+  if (Number.isNaN(perimeterM) && !Number.isNaN(widthM) && !Number.isNaN(depthM)) {
+    perimeterM = widthM + 2 * depthM * Math.sqrt(1 + rules.defaults.bankSlope ** 2);
+    perimeterFrom = 'width-and-depth';
+  } else if (Number.isNaN(perimeterM) && rules.defaults.wettedPerimeterM !== null) {
+    perimeterM = rules.defaults.wettedPerimeterM;
+    perimeterFrom = 'default';
+  } else if (Number.isNaN(perimeterM)) perimeterFrom = 'none';
+  if (resistanceD > 0 && perimeterFrom === 'none') {
+    throw new FeatureProblem(
+      f.wettedPerimeter,
+      `the line has a bed resistance of ${resistanceD} days but no wetted perimeter: give "${f.wettedPerimeter}", or "${f.bottomWidth}" and "${f.waterDepth}", or the config's "defaults.wettedPerimeterM"`,
+    );
+  }
+  return { resistanceD, resistanceFrom: given(f.bedResistance) ? ('attribute' as const) : ('default' as const), perimeterM, perimeterFrom, depthM };
+}
+
 export function checkLines(file: string, features: unknown[], rules: InputRules): Checked<LineRecord> {
   const cutWarnings: Problem[] = [];
   const f = resolveCutNames(file, features, rules.fields.lines, cutWarnings);
@@ -359,6 +427,10 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       { key: 'fields.lines.kind', name: f.kind, what: 'canal or drain', mapped: mapped('kind'), fallback: `the default kind "${rules.defaults.kind}"` },
       ...stageUses.filter((use) => use.fallback !== 'none'),
       ...(mapped('name') ? [{ key: 'fields.lines.name', name: f.name, what: 'a name', mapped: true, fallback: 'no name' }] : []),
+      // the bed's attributes are optional; one the config names must be there
+      ...(['bedResistance', 'wettedPerimeter', 'bottomWidth', 'waterDepth'] as const)
+        .filter((key) => mapped(key))
+        .map((key) => ({ key: `fields.lines.${key}`, name: f[key], what: BED_FIELD_WHAT[key], mapped: true, fallback: 'none' })),
     ]),
   );
   const toM = (value: number) => lengthToM(value, rules.units.elevation);
@@ -390,6 +462,7 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       }
       throw new FeatureProblem(f.stage, `missing water level: give "${f.stage}", or "${f.stageStart}" and "${f.stageEnd}"`);
     });
+    const bed = attempt(() => lineBed(view, f, rules, toM, attempt));
     const partsLonLat = attempt(() => lineParts(view));
     if (partsLonLat && partsLonLat.every((part) => part.every(([lon, lat]) => lon === part[0][0] && lat === part[0][1]))) {
       warn('geometry', 'the line has no length (all its positions are the same point): it gets no stations');
@@ -404,6 +477,11 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       stageStartM: stage?.start as number,
       stageEndM: stage?.end as number,
       stageField: stage?.field as string,
+      bedResistanceD: bed?.resistanceD as number,
+      bedResistanceFrom: bed?.resistanceFrom as 'attribute' | 'default',
+      wettedPerimeterM: bed?.perimeterM as number,
+      wettedPerimeterFrom: bed?.perimeterFrom as LineRecord['wettedPerimeterFrom'],
+      waterDepthM: bed?.depthM as number,
       partsLonLat: partsLonLat as number[][][],
       properties: view.properties,
     };

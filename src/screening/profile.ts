@@ -3,7 +3,7 @@
 import { cutTransect } from '../geometry/index.js';
 import { SOLVE_OK, TransectSolver } from '../hydraulics/transect-solver.js';
 import type { StripSummary } from './aggregate.js';
-import { loadCut } from './solve-facings.js';
+import { loadCut, setBeds } from './solve-facings.js';
 import type { ScreenResult } from './screen.js';
 
 export interface ProfileZone {
@@ -64,6 +64,7 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
     pieces.push({ id: zone.id, fromM: x, toM: x + solver.lengthM[p], groundM: zone.groundM, kMPerDay: zone.kMPerDay });
     x += solver.lengthM[p];
   }
+  setBeds(solver, result.lines[stations.line[station]], results.ownStageM[facing], result.lines[facings.partner[facing]], results.partnerStageM[facing]);
   const status = solver.solve(results.ownStageM[facing], results.partnerStageM[facing], results.baseM[facing], n);
   if (status !== SOLVE_OK) return null;
   solver.scanDepth(result.settings.bankWidthM);

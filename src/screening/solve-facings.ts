@@ -114,6 +114,7 @@ export function solveFacings(
     results.baseM[i] = baseM;
     if (cut.overlapM > UNCOVERED_TOLERANCE_M) results.flags[i] |= FLAG_ZONE_OVERLAP;
     if (cut.uncoveredM > 0) results.uncoveredM[i] = cut.uncoveredM;
+    setBeds(solver, lines[ownLine], ownStageM, lines[partner], partnerStageM);
     const status = solver.solve(ownStageM, partnerStageM, baseM, pieces);
     results.status[i] = status;
     if (status !== SOLVE_OK) continue;
@@ -146,6 +147,23 @@ export const LOADED_BASE_HIGH = 2;
  * on, the length-weighted mean of the zones crossed, and the lowest and highest base; `zoneOfPiece`,
  * when given, gets each filled piece's zone index. Allocates nothing.
  */
+/**
+ * The beds of a transect's two lines: each side passes its half of the wetted perimeter over the
+ * bed resistance (m/d per metre of line), a clean bed none (Infinity); the bed's underside lies the
+ * water depth below the stage where the depth is known.
+ */
+export function setBeds(solver: TransectSolver, own: LineRecord, ownStageM: number, partner: LineRecord, partnerStageM: number): void {
+  solver.ownBedConductanceMPerDay = sideConductance(own);
+  solver.ownBedFloorM = Number.isNaN(own.waterDepthM) ? -Infinity : ownStageM - own.waterDepthM;
+  solver.partnerBedConductanceMPerDay = sideConductance(partner);
+  solver.partnerBedFloorM = Number.isNaN(partner.waterDepthM) ? -Infinity : partnerStageM - partner.waterDepthM;
+}
+
+/** A side's bed conductance per metre of line (m/d): half the wetted perimeter over the resistance; Infinity for a clean bed. */
+export function sideConductance(line: LineRecord): number {
+  return line.bedResistanceD > 0 ? line.wettedPerimeterM / 2 / line.bedResistanceD : Infinity;
+}
+
 export function loadCut(solver: TransectSolver, cut: TransectCut, zones: ZoneRecord[], loaded: Float64Array, zoneOfPiece?: Int32Array): number {
   let pieces = 0, carryM = 0, baseSum = 0, lengthSum = 0, baseLow = Infinity, baseHigh = -Infinity;
   for (let p = 0; p < cut.count; p++) {

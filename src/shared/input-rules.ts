@@ -10,6 +10,13 @@ export interface LineFields {
   stage: string;
   stageStart: string;
   stageEnd: string;
+  /** Optional: the bed's resistance to seepage, days (the clogging layer's thickness over its conductivity). */
+  bedResistance: string;
+  /** Optional: the wetted perimeter (length unit of elevations). */
+  wettedPerimeter: string;
+  /** Optional, for the wetted perimeter when none is given: bottom width and water depth (length unit of elevations). */
+  bottomWidth: string;
+  waterDepth: string;
 }
 
 export interface ZoneFields {
@@ -30,6 +37,12 @@ export interface InputRules {
     kind: 'canal' | 'drain';
     /** Recharge of a zone without one, in units.recharge. */
     recharge: number;
+    /** Bed resistance of a line without one (days); 0 is a clean bed. */
+    bedResistanceD: number;
+    /** Wetted perimeter of a line with a bed resistance that gives none (m); null: such a line is an error. */
+    wettedPerimeterM: number | null;
+    /** Side slope of a channel, horizontal over vertical, for the wetted perimeter from bottom width and water depth. */
+    bankSlope: number;
   };
   /** The user's words for canal and drain in the kind attribute (compared without case). */
   kindWords: { canal: string[]; drain: string[] };
@@ -37,11 +50,15 @@ export interface InputRules {
 
 export const DEFAULT_RULES: InputRules = {
   fields: {
-    lines: { id: 'id', kind: 'kind', name: 'name', stage: 'stage_m', stageStart: 'stage_start_m', stageEnd: 'stage_end_m' },
+    lines: {
+      id: 'id', kind: 'kind', name: 'name', stage: 'stage_m', stageStart: 'stage_start_m', stageEnd: 'stage_end_m',
+      bedResistance: 'bed_resistance_d', wettedPerimeter: 'wetted_perimeter_m', bottomWidth: 'bottom_width_m', waterDepth: 'water_depth_m',
+    },
     zones: { id: 'id', k: 'k_m_d', base: 'base_m', ground: 'ground_m', recharge: 'recharge_mm_yr', edgeHead: 'edge_head_m' },
   },
   units: { k: 'm/d', recharge: 'mm/yr', elevation: 'm' },
-  defaults: { kind: 'canal', recharge: 0 },
+  // a side slope of 1.5 horizontal to 1 vertical is usual for earth canals in sandy soils (common practice, from memory)
+  defaults: { kind: 'canal', recharge: 0, bedResistanceD: 0, wettedPerimeterM: null, bankSlope: 1.5 },
   kindWords: { canal: ['canal'], drain: ['drain'] },
 };
 
