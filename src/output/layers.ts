@@ -144,6 +144,7 @@ function reasonsText(bySide: [Record<string, number>, Record<string, number>]): 
 const LINE_REAL_FIELDS: ReadonlySet<string> = new Set([
   'length_m', 'net_loss_m3_d', 'net_loss_m3_d_km', 'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d',
   'strip_net_loss_m3_d_km', 'strip_diff_m3_d', 'paired_m', 'unpaired_m', 'solved_sides_m',
+  'bed_resistance_used_d', 'wetted_perimeter_used_m',
 ]);
 
 export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
@@ -167,6 +168,10 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
       properties.unpaired_m = roundNumber(summary.unpairedM);
       properties.solved_sides_m = roundNumber(summary.solvedSidesM);
       properties.unpaired_reasons = reasonsText(summary.unpairedBySideM);
+      // the bed the solve used (from the line's attributes or the config's defaults): 0 d is a clean bed
+      properties.bed_resistance_used_d = roundNumber(line.bedResistanceD);
+      // 0 where the bed is clean and no perimeter was given (none is needed), so the field is Real in every run
+      properties.wetted_perimeter_used_m = Number.isNaN(line.wettedPerimeterM) ? 0 : roundNumber(line.wettedPerimeterM);
       const parts = line.partsLonLat.map((part) => part.map(([lon, lat]) => [roundDegrees(lon), roundDegrees(lat)]));
       // one geometry type for the whole layer, so a GIS sees a line layer, not "any"
       return { type: 'Feature' as const, properties, geometry: { type: 'MultiLineString', coordinates: parts } };

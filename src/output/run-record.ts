@@ -1,4 +1,5 @@
 // The run record (run.json): what was run, on which inputs, with which settings, and what it found.
+import { bedsText, bedsUsed } from '../screening/beds.js';
 import type { FigureMethod, ScreenResult } from '../screening/screen.js';
 import { formatFixed, roundNumber } from './format.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
@@ -152,6 +153,22 @@ function districtRecord(result: ScreenResult) {
   };
 }
 
+function lineBedsRecord(result: ScreenResult) {
+  const used = bedsUsed(result.lines);
+  return {
+    text: bedsText(used),
+    lines: used.lines,
+    clean: used.clean,
+    resistance_from_attribute: used.resistanceFromAttribute,
+    resistance_from_default: used.resistanceFromDefault,
+    perimeter_from_attribute: used.perimeterFromAttribute,
+    perimeter_from_width_and_depth: used.perimeterFromWidthAndDepth,
+    perimeter_from_default: used.perimeterFromDefault,
+    resistance_min_d: roundNumber(used.resistanceMinD),
+    resistance_max_d: roundNumber(used.resistanceMaxD),
+  };
+}
+
 export function runRecord(result: ScreenResult, meta: RunMeta): string {
   const { totals, counts, settings } = result;
   const seepage = netSeepageTotals(result);
@@ -192,6 +209,7 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
       risk_area_ha: roundNumber(totals.riskAreaHa),
     },
     district_solve: districtRecord(result),
+    line_beds: lineBedsRecord(result),
     outputs: meta.outputs,
     warnings: [...meta.problems.filter((p) => p.severity === 'warning').map(formatProblem), ...result.warnings],
     skipped_features: meta.problems.filter((p) => p.severity === 'error').map((p) => ({

@@ -1,4 +1,5 @@
 // The end-of-run summary printed to stdout: district totals, the top strips and the caution.
+import { bedsText, bedsUsed } from '../screening/beds.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { formatFixed } from './format.js';
 import { rankedLines } from './layers.js';
@@ -8,6 +9,7 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
   const { totals, counts } = result;
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
+  lines.push(bedsText(bedsUsed(result.lines)));
   const district = result.district;
   const seepage = netSeepageTotals(result);
   const net = (figure: NetSeepage) =>

@@ -1,6 +1,7 @@
 // report.html: one self-contained page from a screening result (summary, map, cross-sections of the
 // top strips, the ranked table, the run). Pure: same result and meta in, same bytes out. Inline
 // CSS, inline SVG and one small inline script; a Content-Security-Policy forbids every fetch.
+import { bedsText, bedsUsed } from '../screening/beds.js';
 import { FACING_REASON_NAMES } from '../geometry/index.js';
 import { CAUTION, NET_SEEPAGE_NAME, netSeepageTotals, type NetSeepage } from '../output/run-record.js';
 import { lineTableRow, RANKING_COLUMNS, rankedLines, rankingRow } from '../output/layers.js';
@@ -298,6 +299,7 @@ function runSection(result: ScreenResult, meta: ReportMeta): string {
         .join('') +
       `<tr><th scope="row">units of the inputs</th><td>${escapeHtml(`K in ${rules.units.k}, recharge in ${rules.units.recharge}, elevations in ${rules.units.elevation}`)}; every output is in metres and days whatever the input units</td></tr>` +
       `<tr><th scope="row">defaults</th><td>${escapeHtml(`kind ${rules.defaults.kind} where a line gives none, recharge ${rules.defaults.recharge} ${rules.units.recharge} where a zone gives none; kind words: canal = ${rules.kindWords.canal.join(', ')}; drain = ${rules.kindWords.drain.join(', ')}`)} (a default that applied to every feature is among the warnings above)</td></tr>` +
+      `<tr><th scope="row">line beds</th><td>${escapeHtml(bedsText(bedsUsed(result.lines)))}; defaults: bed resistance ${rules.defaults.bedResistanceD} d, wetted perimeter ${rules.defaults.wettedPerimeterM ?? 'none'}${rules.defaults.wettedPerimeterM === null ? '' : ' m'}, side slope ${rules.defaults.bankSlope} horizontal to 1 vertical</td></tr>` +
       `</tbody></table>`
     : '';
   return (

@@ -33,6 +33,11 @@ export interface LineRecord {
   wettedPerimeterFrom: 'attribute' | 'width-and-depth' | 'default' | 'none';
   /** Water depth (m), for the bed's underside; NaN when not given. */
   waterDepthM: number;
+  /**
+   * Optional: chainage ranges where a lining takes the place of the bed (a lining plan), sorted by
+   * fromM and not overlapping; chainage in metres along the line in the work CRS, as everywhere.
+   */
+  lined?: readonly LinedRange[];
   /** Parts in lon/lat: one per LineString part. */
   partsLonLat: number[][][];
   /** The feature's own attributes, copied into a prototype-free object. */
@@ -567,6 +572,24 @@ export function checkZones(file: string, features: unknown[], rules: InputRules)
 }
 
 /** The line's stage (m) at a chainage (m), varying linearly from its first vertex to its end. */
+export interface LinedRange {
+  fromM: number;
+  toM: number;
+  /** The lining's resistance (days) and the wetted perimeter it covers (m). */
+  bedResistanceD: number;
+  wettedPerimeterM: number;
+}
+
+/** The bed at a chainage: the lining's where a lined range covers it, else the line's own. */
+export function bedAt(line: LineRecord, chainageM: number): { resistanceD: number; perimeterM: number } {
+  if (line.lined) {
+    for (const range of line.lined) {
+      if (chainageM >= range.fromM && chainageM <= range.toM) return { resistanceD: range.bedResistanceD, perimeterM: range.wettedPerimeterM };
+    }
+  }
+  return { resistanceD: line.bedResistanceD, perimeterM: line.wettedPerimeterM };
+}
+
 export function stageAtChainage(line: LineRecord, chainageM: number, lineLengthM: number): number {
   if (line.stageStartM === line.stageEndM || !(lineLengthM > 0)) return line.stageStartM;
   const fraction = Math.min(Math.max(chainageM / lineLengthM, 0), 1);

@@ -64,7 +64,15 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
     pieces.push({ id: zone.id, fromM: x, toM: x + solver.lengthM[p], groundM: zone.groundM, kMPerDay: zone.kMPerDay });
     x += solver.lengthM[p];
   }
-  setBeds(solver, result.lines[stations.line[station]], results.ownStageM[facing], result.lines[facings.partner[facing]], results.partnerStageM[facing]);
+  setBeds(
+    solver,
+    result.lines[stations.line[station]],
+    stations.chainageM[station],
+    results.ownStageM[facing],
+    result.lines[facings.partner[facing]],
+    facings.partnerChainageM[facing],
+    results.partnerStageM[facing],
+  );
   const status = solver.solve(results.ownStageM[facing], results.partnerStageM[facing], results.baseM[facing], n);
   if (status !== SOLVE_OK) return null;
   solver.scanDepth(result.settings.bankWidthM);

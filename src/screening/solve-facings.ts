@@ -12,7 +12,7 @@ import {
   type ZoneIndex,
 } from '../geometry/index.js';
 import { SOLVE_OK, TransectSolver } from '../hydraulics/transect-solver.js';
-import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
+import { bedAt, stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
 import type { ScreenSettings } from '../shared/settings.js';
 
 export const FLAG_NARROW = 1;
@@ -114,7 +114,7 @@ export function solveFacings(
     results.baseM[i] = baseM;
     if (cut.overlapM > UNCOVERED_TOLERANCE_M) results.flags[i] |= FLAG_ZONE_OVERLAP;
     if (cut.uncoveredM > 0) results.uncoveredM[i] = cut.uncoveredM;
-    setBeds(solver, lines[ownLine], ownStageM, lines[partner], partnerStageM);
+    setBeds(solver, lines[ownLine], stations.chainageM[station], ownStageM, lines[partner], facings.partnerChainageM[i], partnerStageM);
     const status = solver.solve(ownStageM, partnerStageM, baseM, pieces);
     results.status[i] = status;
     if (status !== SOLVE_OK) continue;
@@ -152,16 +152,25 @@ export const LOADED_BASE_HIGH = 2;
  * bed resistance (m/d per metre of line), a clean bed none (Infinity); the bed's underside lies the
  * water depth below the stage where the depth is known.
  */
-export function setBeds(solver: TransectSolver, own: LineRecord, ownStageM: number, partner: LineRecord, partnerStageM: number): void {
-  solver.ownBedConductanceMPerDay = sideConductance(own);
+export function setBeds(
+  solver: TransectSolver,
+  own: LineRecord,
+  ownChainageM: number,
+  ownStageM: number,
+  partner: LineRecord,
+  partnerChainageM: number,
+  partnerStageM: number,
+): void {
+  solver.ownBedConductanceMPerDay = sideConductance(own, ownChainageM);
   solver.ownBedFloorM = Number.isNaN(own.waterDepthM) ? -Infinity : ownStageM - own.waterDepthM;
-  solver.partnerBedConductanceMPerDay = sideConductance(partner);
+  solver.partnerBedConductanceMPerDay = sideConductance(partner, partnerChainageM);
   solver.partnerBedFloorM = Number.isNaN(partner.waterDepthM) ? -Infinity : partnerStageM - partner.waterDepthM;
 }
 
-/** A side's bed conductance per metre of line (m/d): half the wetted perimeter over the resistance; Infinity for a clean bed. */
-export function sideConductance(line: LineRecord): number {
-  return line.bedResistanceD > 0 ? line.wettedPerimeterM / 2 / line.bedResistanceD : Infinity;
+/** A side's bed conductance per metre of line at a chainage (m/d): half the wetted perimeter over the resistance; Infinity for a clean bed. */
+export function sideConductance(line: LineRecord, chainageM: number): number {
+  const bed = bedAt(line, chainageM);
+  return bed.resistanceD > 0 ? bed.perimeterM / 2 / bed.resistanceD : Infinity;
 }
 
 export function loadCut(solver: TransectSolver, cut: TransectCut, zones: ZoneRecord[], loaded: Float64Array, zoneOfPiece?: Int32Array): number {
