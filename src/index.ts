@@ -28,6 +28,11 @@ import { screenDistrict, type ProgressListener, type ScreenResult } from './scre
 import type { StripSummary } from './screening/aggregate.js';
 import { DataError, errorsOf, formatProblem, InputProblems, type Problem } from './shared/errors.js';
 import { VERSION } from './shared/version.js';
+import { readLiningPlan } from './input/lining-plan.js';
+import { liningLayer, liningTable, programmeTable } from './output/lining-tables.js';
+import { planLining, type LiningOutcome } from './screening/lining.js';
+import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
 
 export { DataError, UsageError, InputProblems, errorsOf, problemLines, PROBLEMS_SHOWN, formatProblem, describePlace, type Problem, type DataProblemPlace } from './shared/errors.js';
 export {
@@ -64,6 +69,9 @@ export type { DistrictResult, DistrictBalance, DistrictStripFigures } from './sc
 export { summaryText } from './output/summary.js';
 export { renderReport, type ReportMeta } from './report/report.js';
 export { renderProfileSvg, peakLabelText } from './report/profile-svg.js';
+export { readLiningPlan, parseLiningPlan, MAX_PLAN_REACHES } from './input/lining-plan.js';
+export { planLining, type LiningPlan, type LiningOutcome, type PlanReach, type ReachOutcome } from './screening/lining.js';
+export { LINING_COLUMNS, PROGRAMME_COLUMNS } from './output/lining-tables.js';
 
 /** The config file's settings over the defaults, or the defaults when no file is named. */
 export function readConfig(path?: string): RunConfig {
@@ -193,7 +201,17 @@ export interface StripProfile {
  * The cross-section of one strip of an earlier run: screens the recorded inputs again with the
  * recorded settings (run.json keeps them in config form), after checking the inputs are unchanged.
  */
-export async function profileFromRun(runDir: string, stripId: string): Promise<StripProfile> {
+/** An earlier run read back: its record, settings and inputs, the inputs checked unchanged and loaded again. */
+interface RecordedRun {
+  recordPath: string;
+  record: Record<string, unknown>;
+  config: RunConfig;
+  district: LoadedDistrict;
+  /** Features the run skipped (--skip-invalid); the run stopped on errors otherwise. */
+  skipped: number;
+}
+
+async function loadRun(runDir: string, command: string): Promise<RecordedRun> {
   const recordPath = join(runDir, 'run.json');
   if (!existsSync(recordPath)) throw new DataError({ file: recordPath }, `not found: is ${runDir} an output folder of doab screen?`);
   let record: unknown;
@@ -212,7 +230,7 @@ export async function profileFromRun(runDir: string, stripId: string): Promise<S
     if (!existsSync(input.path)) {
       throw new DataError(
         { file: input.path },
-        `the ${label} input of the run in ${recordPath} is not found from ${process.cwd()}; run doab profile from the folder doab screen ran in`,
+        `the ${label} input of the run in ${recordPath} is not found from ${process.cwd()}; run doab ${command} from the folder doab screen ran in`,
       );
     }
   }
@@ -224,12 +242,17 @@ export async function profileFromRun(runDir: string, stripId: string): Promise<S
     if (sha256 !== input.sha256) {
       throw new DataError(
         { file: input.path },
-        `changed since the run in ${recordPath} (SHA-256 now ${sha256}, recorded ${input.sha256}); screen it again before drawing a profile`,
+        `changed since the run in ${recordPath} (SHA-256 now ${sha256}, recorded ${input.sha256}); screen it again before doab ${command}`,
       );
     }
   }
   const district = await loadDistrict(canals.path, aquifer.path, config);
   const skipped = Array.isArray(record.skipped_features) ? record.skipped_features.length : 0;
+  return { recordPath, record, config, district, skipped };
+}
+
+export async function profileFromRun(runDir: string, stripId: string): Promise<StripProfile> {
+  const { recordPath, config, district, skipped } = await loadRun(runDir, 'profile');
   // the run itself stopped on errors unless it skipped them (--skip-invalid)
   // a profile draws a strip's own transect: the district solve would add seconds and change nothing drawn
   const result = screenLoaded(district, { ...config, settings: { ...config.settings, stripsOnly: true } }, { skipInvalid: skipped > 0 });
@@ -261,4 +284,108 @@ export function profileText({ strip, profile }: StripProfile, peakLabel: (peakM:
     `peak water table ${peakLabel(profile.peakWaterTableM)} at ${roundNumber(profile.peakOffsetM)} m from ${profile.lineA}; ` +
     `smallest depth ${profile.minDepthM.toFixed(2)} m\n\nCAUTION: ${CAUTION}\n`
   );
+}
+
+/** The names `doab lining` writes into its output folder. */
+export const LINING_OUTPUT_NAMES: ReadonlySet<string> = new Set(['lining.csv', 'lining-programme.csv', 'lining.geojson', 'report.html', 'run.json']);
+
+export interface LiningRun {
+  outcome: LiningOutcome;
+  run: RecordedRun;
+  planSha256: string;
+}
+
+/**
+ * A lining plan on an earlier run: the run's inputs (checked unchanged) screened with its settings
+ * now, with each reach lined, and with the programme; the district solve when the run had it.
+ */
+export async function liningFromRun(runDir: string, planPath: string, onScreening?: (done: number, total: number) => void): Promise<LiningRun> {
+  const plan = readLiningPlan(planPath);
+  const planSha256 = createHash('sha256').update(readFileSync(planPath)).digest('hex');
+  const run = await loadRun(runDir, 'lining');
+  const stopping = stoppingProblems(run.district, { skipInvalid: run.skipped > 0 });
+  if (stopping) throw new InputProblems(stopping);
+  checkRunBudget(run.district.lines, run.config.settings);
+  const outcome = planLining(run.district.lines, run.district.zones, run.config.settings, plan, onScreening);
+  return { outcome, run, planSha256 };
+}
+
+/** The files of a lining run: the tables, the reaches' layer, the report with its lining section, and its record. */
+export function liningFiles({ outcome, run, planSha256 }: LiningRun, commandLine: string[] = ['doab', 'lining'], startedAt: string = new Date().toISOString()): OutputFile[] {
+  const { district, config } = run;
+  if (!district.canals || !district.aquifer) throw new Error('Unexpected district without both input files.');
+  const files: OutputFile[] = [
+    { name: 'lining.csv', content: liningTable(outcome) },
+    { name: 'lining-programme.csv', content: programmeTable(outcome) },
+    { name: 'lining.geojson', content: liningLayer(outcome) },
+    {
+      name: 'report.html',
+      content: renderReport(outcome.resultNow, {
+        version: VERSION,
+        commandLine,
+        startedAt,
+        inputs: [
+          { label: 'canals', path: district.canals.path, sha256: district.canals.sha256, sourceCrs: district.canals.sourceCrs },
+          { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256, sourceCrs: district.aquifer.sourceCrs },
+        ],
+        inputWarnings: district.problems.map(formatProblem),
+        rules: config.rules,
+        lining: outcome,
+      }),
+    },
+  ];
+  const record = JSON.parse(runRecord(outcome.resultNow, {
+    version: VERSION,
+    commandLine,
+    startedAt,
+    canals: district.canals,
+    aquifer: district.aquifer,
+    config: null,
+    rules: config.rules,
+    outputs: [...files.map((file) => file.name), 'run.json'],
+    problems: district.problems,
+  }));
+  record.lining = {
+    base_run: run.recordPath,
+    plan: { path: outcome.plan.file, sha256: planSha256 },
+    method: outcome.method,
+    ranked_by: outcome.rankedBy,
+    budget: outcome.plan.budget,
+    screenings: outcome.screenings,
+    reaches: outcome.reaches.length,
+    programme: outcome.programme.map((step) => step.outcome.reach.id),
+    programme_saved_m3_d: roundNumber(outcome.programmeSavedM3PerDay),
+    programme_waterlogged_ha_change: roundNumber(outcome.programmeWaterloggedHaChange),
+    programme_potential_ha_change: roundNumber(outcome.programmePotentialHaChange),
+  };
+  files.push({ name: 'run.json', content: `${JSON.stringify(record, null, 2)}\n` });
+  return files;
+}
+
+/** Writes a lining run into outDir, all or nothing, after the same checks as a screening's folder. */
+export async function writeLining(outDir: string, lining: LiningRun, commandLine?: string[], startedAt?: string): Promise<string[]> {
+  const files = liningFiles(lining, commandLine, startedAt);
+  const inputs = [lining.run.district.canals?.path, lining.run.district.aquifer?.path, lining.outcome.plan.file].flatMap((path) => (path ? filesOfInput(path) : []));
+  checkOutputFolder(outDir, [...inputs, lining.run.recordPath], new Set(files.map((file) => file.name)));
+  await writeRunFolder(outDir, files);
+  return files.map((file) => file.name);
+}
+
+/** A paragraph on a lining run, for a terminal. */
+export function liningText({ outcome }: LiningRun): string {
+  const lines: string[] = [];
+  const f = (value: number, decimals = 0) => (Number.isFinite(value) ? value.toFixed(decimals) : '-');
+  lines.push(`doab lining: ${outcome.reaches.length} reaches, ${outcome.screenings} screenings (${outcome.method === 'district' ? 'district solve' : 'strips alone'}); programme ranked by ${outcome.rankedBy}`);
+  lines.push('rank  reach        line   km     saved m3/d  saved m3/d/km  waterlogged ha');
+  outcome.programme.forEach((step, i) => {
+    const o = step.outcome;
+    lines.push(`${String(i + 1).padEnd(4)}  ${o.reach.id.padEnd(11)}  ${o.reach.lineId.padEnd(5)}  ${f(o.lengthM / 1000, 2).padStart(5)}  ${f(o.savedM3PerDay).padStart(10)}  ${f(o.savedM3PerDayKm).padStart(13)}  ${f(o.waterloggedHaChange, 1).padStart(14)}`);
+  });
+  if (outcome.programme.length > 0) {
+    lines.push(
+      `Programme lined at once: canals keep ${f(outcome.programmeSavedM3PerDay)} m3/d; waterlogged area ${f(outcome.programmeWaterloggedHaChange, 1)} ha, potentially waterlogged ${f(outcome.programmePotentialHaChange, 1)} ha`,
+    );
+  } else lines.push('Programme empty: no reach saves water or none fits the budget');
+  lines.push('', `CAUTION: ${CAUTION}`);
+  return `${lines.join('\n')}\n`;
 }

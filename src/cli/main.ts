@@ -4,6 +4,7 @@ import { Command, CommanderError, InvalidArgumentError, Option } from 'commander
 import { DataError, InputProblems, problemLines, PROBLEMS_SHOWN, SETTINGS, SETTING_KEYS, UsageError, VERSION, type SettingSpec } from '../index.js';
 import { checkCommand, type CheckOptions } from './check-command.js';
 import { initConfigCommand, type InitConfigOptions } from './init-config-command.js';
+import { registerLiningCommand } from './lining-command.js';
 import type { CliIo } from './io.js';
 import { registerProfileCommand } from './profile-command.js';
 import { progressReporter } from './progress.js';
@@ -76,6 +77,9 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
       exitCode = await initConfigCommand(options, io);
     });
   registerProfileCommand(program, io, (code) => {
+    exitCode = code;
+  });
+  registerLiningCommand(program, io, argv, (code) => {
     exitCode = code;
   });
   if (argv.length === 0) {

@@ -1,4 +1,4 @@
-export { buildLineTable, lineLengthM, type LineGeometry, type LineTable } from './lines.js';
+export { buildLineTable, cutByChainage, lineLengthM, type LineGeometry, type LineTable } from './lines.js';
 export { placeStations, type StationTable } from './stations.js';
 export {
   castTransects,

@@ -156,3 +156,29 @@ export function directionAt(t: LineTable, part: number, c: number, halfWindowM: 
   out[0] = len > 0 ? dx / len : 1;
   out[1] = len > 0 ? dy / len : 0;
 }
+
+/**
+ * The stretch of a line between two chainages (m, cumulative across its parts, as in the line
+ * table), as parts of x, y pairs: one part per part of the line the stretch touches.
+ */
+export function cutByChainage(geometry: LineGeometry, fromM: number, toM: number): Float64Array[] {
+  const pieces: Float64Array[] = [];
+  let start = 0;
+  for (const part of geometry.parts) {
+    const out: number[] = [];
+    let chainage = start;
+    for (let i = 2; i < part.length; i += 2) {
+      const x0 = part[i - 2], y0 = part[i - 1], x1 = part[i], y1 = part[i + 1];
+      const length = Math.hypot(x1 - x0, y1 - y0);
+      const c0 = chainage, c1 = chainage + length;
+      chainage = c1;
+      if (c1 < fromM || c0 > toM || length === 0) continue;
+      const a = Math.max(0, (fromM - c0) / length), b = Math.min(1, (toM - c0) / length);
+      if (out.length === 0) out.push(x0 + a * (x1 - x0), y0 + a * (y1 - y0));
+      out.push(x0 + b * (x1 - x0), y0 + b * (y1 - y0));
+    }
+    if (out.length >= 4) pieces.push(Float64Array.from(out));
+    start = chainage;
+  }
+  return pieces;
+}

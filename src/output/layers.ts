@@ -16,7 +16,7 @@ function roundDegrees(value: number): number {
   return Math.round(value * 1e7) / 1e7;
 }
 
-function toLonLat(crs: WorkCrs, x: number, y: number): [number, number] {
+export function toLonLat(crs: WorkCrs, x: number, y: number): [number, number] {
   const [lon, lat] = crs.inverse([x, y]);
   return [roundDegrees(lon), roundDegrees(lat)];
 }

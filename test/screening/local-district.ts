@@ -22,6 +22,14 @@ export function box(id: string, properties: Record<string, unknown>, [x0, y0, x1
   return { type: 'Feature', properties: { id, ...properties }, geometry: { type: 'Polygon', coordinates: [ring] } };
 }
 
+/** Checks the features (no error allowed): the records, and the settings of the layout's work CRS. */
+export function checkedLocal(lineFeatures: object[], zoneFeatures: object[], settings: Partial<ScreenSettings> = {}) {
+  const lines = checkLines('lines.geojson', lineFeatures, DEFAULT_RULES);
+  const zones = checkZones('zones.geojson', zoneFeatures, DEFAULT_RULES);
+  expect([...lines.problems, ...zones.problems].filter((p) => p.severity === 'error')).toEqual([]);
+  return { lines: lines.records, zones: zones.records, settings: { ...DEFAULT_SETTINGS, crs: WORK_CRS, ...settings } };
+}
+
 /** Checks the features (no problem allowed) and screens them in the same work CRS as the layout. */
 export function screenLocal(lineFeatures: object[], zoneFeatures: object[], settings: Partial<ScreenSettings> = {}): ScreenResult {
   const lines = checkLines('lines.geojson', lineFeatures, DEFAULT_RULES);
