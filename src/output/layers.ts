@@ -144,7 +144,7 @@ function reasonsText(bySide: [Record<string, number>, Record<string, number>]): 
 const LINE_REAL_FIELDS: ReadonlySet<string> = new Set([
   'length_m', 'net_loss_m3_d', 'net_loss_m3_d_km', 'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d',
   'strip_net_loss_m3_d_km', 'strip_diff_m3_d', 'paired_m', 'unpaired_m', 'solved_sides_m',
-  'bed_resistance_used_d', 'wetted_perimeter_used_m',
+  'bed_resistance_used_d', 'wetted_perimeter_used_m', 'covers_share',
 ]);
 
 export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
@@ -160,6 +160,7 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
       properties.net_loss_m3_d = roundNumber(figure.netLossM3PerDay);
       properties.net_loss_m3_d_km = roundNumber(figure.netLossM3PerDayKm);
       properties.loss_method = figure.method;
+      properties.covers_share = roundNumber(figure.coversShare);
       properties.coarse_cell_diff_m3_d = roundNumber(figure.coarseDiffM3PerDay);
       properties.strip_net_loss_m3_d = roundNumber(figure.stripNetLossM3PerDay);
       properties.strip_net_loss_m3_d_km = roundNumber(figure.stripNetLossM3PerDayKm);
@@ -281,7 +282,7 @@ export function rankingTable(result: ScreenResult): string {
 
 export const LINE_TABLE_COLUMNS = [
   'rank', 'line_id', 'name', 'kind', 'length_m', 'net_loss_m3_d', 'net_loss_m3_d_km', 'net_loss_m3_yr', 'loss_method',
-  'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d', 'solved_sides_m', 'paired_m', 'unpaired_m',
+  'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d', 'covers_share', 'solved_sides_m', 'paired_m', 'unpaired_m',
 ] as const;
 
 /**
@@ -316,6 +317,7 @@ export function lineTableRow(result: ScreenResult, i: number, rank: number): Rec
     loss_method: figure.method,
     coarse_cell_diff_m3_d: roundNumber(figure.coarseDiffM3PerDay),
     strip_net_loss_m3_d: roundNumber(figure.stripNetLossM3PerDay),
+    covers_share: roundNumber(figure.coversShare),
     solved_sides_m: roundNumber(summary.solvedSidesM),
     paired_m: roundNumber(summary.pairedM),
     unpaired_m: roundNumber(summary.unpairedM),

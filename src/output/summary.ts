@@ -48,8 +48,10 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0): string
   const ranked = rankedLines(result).filter((i) => result.lineFigures[i].netLossM3PerDay > 0).slice(0, 5);
   if (ranked.length > 0) {
     lines.push(
-      `Lines that lose most per km (${result.district ? 'district solve' : 'strips alone'}; all in lines.csv): ` +
-        ranked.map((i) => `${result.lines[i].id} ${formatFixed(result.lineFigures[i].netLossM3PerDayKm, 0)} m3/d/km`).join(', '),
+      `Lines that lose most per km (${result.district ? 'district solve' : 'strips alone, each over its solved sides only: share of its sides in brackets'}; all in lines.csv): ` +
+        ranked
+          .map((i) => `${result.lines[i].id} ${formatFixed(result.lineFigures[i].netLossM3PerDayKm, 0)} m3/d/km${result.district ? '' : ` (${formatFixed(result.lineFigures[i].coversShare * 100, 0)}%)`}`)
+          .join(', '),
     );
   }
   const byRisk = totals.stripsByRisk;

@@ -260,6 +260,7 @@ const LINE_HEADINGS: [string, string, (value: unknown) => string][] = [
   ['net_loss_m3_d', 'Net loss (m³/d)', (v) => formatGrouped(v as number)],
   ['net_loss_m3_d_km', 'Net loss per km (m³/d per km)', (v) => formatGrouped(v as number)],
   ['loss_method', 'From', (v) => (v === 'district' ? 'district solve' : 'strips alone')],
+  ['covers_share', 'Share of its sides covered', (v) => `${formatFixed((v as number) * 100, 0)}%`],
   ['coarse_cell_diff_m3_d', 'Change at twice the cell (m³/d)', (v) => formatGrouped(v as number)],
   ['strip_net_loss_m3_d', 'Strips alone (m³/d)', (v) => formatGrouped(v as number)],
 ];
@@ -273,7 +274,9 @@ function linesSection(result: ScreenResult): string {
   return (
     `<section id="lines"><h2>Lines by loss per km</h2><p class="run-line">Every line, ranked by the net loss per km a planner lines by ` +
     `(${result.district ? 'from the district solve, the whole water table' : 'from the strips alone: no district solve ran'}); the rows of lines.csv. ` +
-    `A negative net loss is a line that takes in water (a drain, mostly).</p>` +
+    `A negative net loss is a line that takes in water (a drain, mostly).` +
+    (result.district ? '' : ' Each figure covers only the line\'s solved sides (the share column): two lines compare only as far as their shares do, and a share well under 100% is a lower bound.') +
+    `</p>` +
     `<div class="table-wrap"><table id="lines-table" class="lines"><thead><tr>${head}</tr></thead><tbody>\n${rows.join('\n')}\n</tbody></table></div></section>`
   );
 }

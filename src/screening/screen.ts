@@ -39,6 +39,12 @@ export interface LineFigure {
   stripNetLossM3PerDayKm: number;
   /** The district solve at twice the cell less the figure (m^3/d): its numerical uncertainty; NaN from strips. */
   coarseDiffM3PerDay: number;
+  /**
+   * Share of the line's sides (both sides, whole length) that the figure covers, 0 to 1: 1 for the
+   * district solve; for the strips, the solved sides only, so two lines' strip figures compare only
+   * as far as their shares do.
+   */
+  coversShare: number;
 }
 
 export interface DistrictTotals {
@@ -248,6 +254,7 @@ function lineFigure(summary: LineSummary, district: DistrictResult | null, line:
       stripNetLossM3PerDay: summary.netLossM3PerDay,
       stripNetLossM3PerDayKm: stripPerKm,
       coarseDiffM3PerDay: district.lineLossCoarseM3PerDay[line] - districtLoss,
+      coversShare: 1,
     };
   }
   return {
@@ -257,6 +264,7 @@ function lineFigure(summary: LineSummary, district: DistrictResult | null, line:
     stripNetLossM3PerDay: summary.netLossM3PerDay,
     stripNetLossM3PerDayKm: stripPerKm,
     coarseDiffM3PerDay: NaN,
+    coversShare: summary.lengthM > 0 ? Math.min(summary.solvedSidesM / (2 * summary.lengthM), 1) : 0,
   };
 }
 

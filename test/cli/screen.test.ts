@@ -141,7 +141,7 @@ describe('doab screen on the demo district', () => {
     const rows = readCsv(join(out, 'lines.csv'));
     expect(Object.keys(rows[0])).toEqual([
       'rank', 'line_id', 'name', 'kind', 'length_m', 'net_loss_m3_d', 'net_loss_m3_d_km', 'net_loss_m3_yr', 'loss_method',
-      'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d', 'solved_sides_m', 'paired_m', 'unpaired_m',
+      'coarse_cell_diff_m3_d', 'strip_net_loss_m3_d', 'covers_share', 'solved_sides_m', 'paired_m', 'unpaired_m',
     ]);
     expect(rows.map((row) => row.line_id).sort()).toEqual(layers.canals.features.map((f: any) => f.properties.id).sort());
     const perKm = rows.map((row) => Number(row.net_loss_m3_d_km));
@@ -150,6 +150,8 @@ describe('doab screen on the demo district', () => {
       const feature = layers.canals.features.find((f: any) => f.properties.id === row.line_id);
       expect(Number(row.net_loss_m3_d)).toBe(feature.properties.net_loss_m3_d);
       expect(row.loss_method).toBe(feature.properties.loss_method);
+      // the district solve's figure covers the whole line, both sides
+      expect(Number(row.covers_share)).toBe(row.loss_method === 'district' ? 1 : Number(row.solved_sides_m) / (2 * Number(row.length_m)));
       // a year is 365.25 days (Julian year, common practice); both figures are rounded to 6 digits
       expect(Number(row.net_loss_m3_yr) / (Number(row.net_loss_m3_d) * 365.25)).toBeCloseTo(1, 4);
     }

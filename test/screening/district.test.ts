@@ -203,6 +203,13 @@ describe('district solve settings', () => {
     expect(result.lineFigures.every((figure) => figure.method === 'strips')).toBe(true);
     expect(result.strips.every((strip) => strip.district === null)).toBe(true);
     expect(result.warnings.join('\n')).toMatch(/district solve skipped \(stripsOnly\)/);
+    // each figure says which share of its line's sides it covers: the solved sides only, here
+    // short of the whole line for some (tails, junctions), so their figures do not compare as whole lines
+    result.lineFigures.forEach((figure, i) => {
+      const summary = result.lineSummaries[i];
+      expect(figure.coversShare).toBeCloseTo(summary.solvedSidesM / (2 * summary.lengthM), 12);
+    });
+    expect(Math.min(...result.lineFigures.map((figure) => figure.coversShare))).toBeLessThan(0.9);
   });
 
   it('warns where a line meets another at a different stage', () => {
