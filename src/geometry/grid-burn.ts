@@ -108,7 +108,8 @@ function clip(p: number, q: number): void {
  * segment-by-cell traversal, so a diagonal skips no cell) gets the line's index, the chainage of
  * its point nearest the cell centre and its length inside the cell. Chainage runs on across a
  * line's parts, as in buildLineTable. Cells are half-open squares (see Grid): a line touching a
- * cell only at a corner has no length there and does not burn it; a line running exactly along
+ * cell only at a corner has no length there and does not burn it, nor does one passing less than
+ * a millionth of the cell through it (rounding); a line running exactly along
  * a row edge burns the row to its north. A cell passed by several lines goes to the line passing
  * nearest its centre (ties: lower line index) and holds that line's length only.
  * Example: burnLines(grid, [{ id: 'c1', parts: [Float64Array.from([0, 5, 100, 5])] }]).line
@@ -176,6 +177,12 @@ export function burnLines(grid: Grid, lines: LineGeometry[] | LineTable): Burned
   return gather(grid, passages, outsideM);
 }
 
+/**
+ * Length of line in a cell, as a fraction of the cell, below which the line only grazes it: a line
+ * along a cell edge lands a few 1e-10 m on either side after projecting to lon/lat and back.
+ */
+const SLIVER = 1e-6;
+
 /** One line per cell from the passages: sum each line's passages, keep its nearest point, pick the nearest line. */
 function gather(grid: Grid, p: Passages, outsideM: number): BurnedLines {
   const line = new Int32Array(grid.cells).fill(-1);
@@ -201,6 +208,8 @@ function gather(grid: Grid, p: Passages, outsideM: number): BurnedLines {
           chainage = pChainage[i];
         }
       }
+      // a line that only grazes the cell (an edge or corner missed by rounding of the projection) does not burn it
+      if (length < SLIVER * grid.cellM) continue;
       lineCount++;
       // lines come in index order, so strict < gives ties to the lower index
       if (dist < bestDist) {
@@ -210,6 +219,7 @@ function gather(grid: Grid, p: Passages, outsideM: number): BurnedLines {
         bestLength = length;
       }
     }
+    if (lineCount === 0) continue;
     if (lineCount > 1) sharedCells++;
     line[cell] = bestLine;
     chainageM[cell] = bestChainage;

@@ -34,6 +34,30 @@
 // Phys. 176, 205-227 [from memory]). It only changes diagonal and right-hand side terms, so every
 // system stays symmetric positive definite.
 //
+// A line whose bed resists seepage (a bed cell) does not hold its stage: its cell's head is unknown,
+// and the bed passes Q = C (S - max(H, floor)) into it (m^3/d), C the bed's conductance over the
+// cell (m^2/d: wetted perimeter x length of line in the cell / resistance), S the stage and floor
+// the bed's underside, below which the water table no longer draws on the bed (the semi-pervious
+// lining of H. Bouwer (1978), Groundwater Hydrology [from memory]). With the face scale above, the
+// bed cell's head stands for the water table where the line runs, so it is the bank head of the
+// bed law and no further grid resistance enters. The whole wetted perimeter counts: the cell holds
+// both sides of the line. A bed cell is joined to every active neighbour, line cells too: what
+// flows from it into another line's cell is water its bed passed, so as the resistance goes to 0
+// the figures become those of fixed cells, whose flows into each other count in their exchange.
+//
+// In H (Picard, differing bases) the bed is linear: C on the diagonal, C S on the right. In u over
+// one base, H = base + sqrt(u) is not: Newton on that term, sqrt(u) ~ h_k/2 + u/(2 h_k) about the
+// last iterate's thickness h_k, puts C/(2 h_k) on the diagonal and C (S - base - h_k/2) on the
+// right [derived]; the operator stays a symmetric M-matrix and the term is concave in u, so the
+// iterates approach from below and never overshoot after the first (the monotone Newton of J.M.
+// Ortega and W.C. Rheinboldt (1970), Iterative Solution of Nonlinear Equations in Several
+// Variables, section 13.3 [from memory]). Where the last iterate is perched (below the floor) the
+// bed passes C (S - floor) whatever the head; to keep the diagonal positive the same C/(2 h_k)
+// stays there and its product with u_k moves to the right side (a fixed point at the same
+// answer). The Newton steps run like the Picard steps: from a loose linear tolerance tightened
+// each step, each from the last iterate, until no unknown head moves by headToleranceM in a step
+// solved to the full tolerance. h_k is never taken below dryThicknessM.
+//
 // Every linear solve is conjugate gradients with a multigrid preconditioner (multigrid.ts). All
 // sums run in one fixed order, so a rerun gives the same bits.
 import { MultigridConjugateGradient, type MultigridOptions } from './multigrid.js';
@@ -41,22 +65,33 @@ import { MultigridConjugateGradient, type MultigridOptions } from './multigrid.j
 export const CELL_OUTSIDE = 0;
 export const CELL_FREE = 1;
 export const CELL_FIXED = 2;
+/** A cell of a line whose bed resists seepage: head unknown, exchanging through the bed. */
+export const CELL_BED = 3;
 
 export interface DistrictGrid {
   columns: number;
   rows: number;
   /** Side of a square cell (m). Cell index = row * columns + column. */
   cellM: number;
-  /** CELL_OUTSIDE (no flow), CELL_FREE (head unknown) or CELL_FIXED (a line burned into the cell). */
+  /**
+   * CELL_OUTSIDE (no flow), CELL_FREE (head unknown), CELL_FIXED (a line burned into the cell, or
+   * an edge head) or CELL_BED (a line with a resistive bed: head unknown, exchanging through it).
+   */
   cellKind: Uint8Array;
   kMPerDay: Float64Array;
   rechargeMPerDay: Float64Array;
   baseM: Float64Array;
-  /** Stage of the line in the cell (m); read only where cellKind is CELL_FIXED. */
+  /** Stage of the line in the cell (m); read only where cellKind is CELL_FIXED or CELL_BED. */
   fixedHeadM: Float64Array;
   /**
+   * Needed when any cell is CELL_BED, read only there: the bed's conductance over the cell
+   * (m^2/d, > 0: wetted perimeter x length of line in the cell / bed resistance) and the
+   * elevation of its underside (m; -Infinity when not known).
+   */
+  bed?: { conductanceM2PerDay: Float64Array; floorM: Float64Array };
+  /**
    * Optional: a multiplier (> 0) of the face east of each cell (to cell + 1) and north of it (to
-   * cell + columns), read only where the face joins a fixed cell and a free one; 1 when absent.
+   * cell + columns), read only where the face joins a fixed or bed cell to another cell; 1 when absent.
    */
   fixedFaceScale?: { east: Float64Array; north: Float64Array };
 }
@@ -75,23 +110,26 @@ export interface DistrictSolveOptions {
   multigrid?: MultigridOptions;
 }
 
-export type DistrictSolveStatus = 'converged' | 'picard-not-converged' | 'linear-not-converged';
+export type DistrictSolveStatus = 'converged' | 'picard-not-converged' | 'newton-not-converged' | 'linear-not-converged';
 
 export interface DistrictSolution {
   status: DistrictSolveStatus;
   /** Water table per cell (m): the stage in fixed cells, NaN outside. */
   headM: Float64Array;
-  /** The fixed cells' indices, ascending. */
+  /** The indices of the cells that exchange with a line or an edge (fixed and bed cells), ascending. */
   fixedCells: Uint32Array;
   /**
-   * Per fixed cell, the water it gives the aquifer (m^3/d; positive when the line loses water):
-   * its flows into active neighbours less the recharge falling on the cell, which joins the line.
+   * Per fixed or bed cell, the water it gives the aquifer (m^3/d; positive when the line loses
+   * water). A fixed cell: its flows into active neighbours less the recharge falling on the cell,
+   * which joins the line. A bed cell: what the bed passes, C (S - max(H, floor)); the recharge on
+   * the cell stays in the aquifer.
    */
   exchangeM3PerDay: Float64Array;
   /**
-   * Per fixed cell, what it sends across each of its four sides (m^3/d; negative when water comes
-   * in): index 4k + side, sides in the order west, east, previous row, next row (cellNeighbour's).
-   * The exchange is their sum less the recharge on the cell.
+   * Per fixed or bed cell, what it sends across each of its four sides (m^3/d; negative when water
+   * comes in): index 4k + side, sides in the order west, east, previous row, next row
+   * (cellNeighbour's). A fixed cell's exchange is their sum less the recharge on the cell; so is a
+   * bed cell's, up to its cell residual.
    */
   sideFlowM3PerDay: Float64Array;
   /** Recharge over every active cell (m^3/d). */
@@ -100,15 +138,18 @@ export interface DistrictSolution {
   balanceResidualM3PerDay: number;
   /** |balance residual| over the larger of the water entering and leaving the aquifer. */
   balanceRelative: number;
-  /** Largest |N cellM^2 - outflows| over the free cells (m^3/d), from the final heads. */
+  /** Largest |N cellM^2 (+ the bed's exchange) - outflows| over the free and bed cells (m^3/d), from the final heads. */
   largestCellResidualM3PerDay: number;
   /** Conjugate gradient iterations summed over all linear solves. */
   linearIterations: number;
   linearSolves: number;
   /** Picard iterations after the first u-solve (0 when every base is equal). */
   picardIterations: number;
-  /** Largest change in head over the last Picard iteration (m; 0 when every base is equal). */
+  /** Newton iterations on the beds after the first u-solve (0 without bed cells, or with differing bases, where Picard carries the beds). */
+  bedIterations: number;
+  /** Largest change in head over the last Picard or Newton iteration (m; 0 when neither ran). */
   lastHeadChangeM: number;
+  bedCellCount: number;
   dryCellCount: number;
   freeCellCount: number;
   /** Bytes the linear solver held in typed arrays. */
@@ -147,39 +188,46 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
   const cellCount = columns * rows;
   const solver = new MultigridConjugateGradient(columns, rows, options.multigrid);
 
-  let freeCellCount = 0, activeCellCount = 0, baseSum = 0, firstBase = NaN, equalBases = true;
+  let freeCellCount = 0, bedCellCount = 0, activeCellCount = 0, baseSum = 0, firstBase = NaN, equalBases = true;
   for (let g = 0; g < cellCount; g++) {
     if (cellKind[g] === CELL_OUTSIDE) continue;
     if (cellKind[g] === CELL_FREE) freeCellCount++;
+    else if (cellKind[g] === CELL_BED) bedCellCount++;
     activeCellCount++;
     baseSum += baseM[g];
     if (activeCellCount === 1) firstBase = baseM[g];
     else if (baseM[g] !== firstBase) equalBases = false;
   }
   const referenceBaseM = equalBases ? firstBase : baseSum / activeCellCount;
+  // one linear solve is exact only with equal bases and no bed
+  const iterates = !equalBases || bedCellCount > 0;
 
-  // u-solve: exact with equal bases, and the first iterate otherwise
+  // u-solve: exact with equal bases and no bed, and the first iterate otherwise
   const headM = new Float64Array(cellCount);
-  assemble(grid, solver, referenceBaseM, 0, null);
+  assemble(grid, solver, referenceBaseM, settings.dryThicknessM, null, false);
   solver.prepare();
-  let tolerance = equalBases ? settings.linearTolerance : Math.max(settings.linearTolerance, LOOSEST_PICARD_TOLERANCE);
+  let tolerance = iterates ? Math.max(settings.linearTolerance, LOOSEST_PICARD_TOLERANCE) : settings.linearTolerance;
   let report = solver.solve(tolerance, settings.maxLinearIterations);
   let linearIterations = report.iterations, linearSolves = 1;
   readHeadsFromU(grid, solver.x, referenceBaseM, headM);
   let status: DistrictSolveStatus = report.converged ? 'converged' : 'linear-not-converged';
 
-  let picardIterations = 0, lastHeadChangeM = 0;
-  if (!equalBases && report.converged) {
-    status = 'picard-not-converged';
-    while (picardIterations < settings.maxPicardIterations) {
-      picardIterations++;
+  let picardIterations = 0, bedIterations = 0, lastHeadChangeM = 0;
+  if (iterates && report.converged) {
+    // Picard in H with differing bases (the beds linear in H), else Newton in u on the beds
+    const picard = !equalBases;
+    status = picard ? 'picard-not-converged' : 'newton-not-converged';
+    while ((picard ? picardIterations : bedIterations) < settings.maxPicardIterations) {
+      if (picard) picardIterations++;
+      else bedIterations++;
       tolerance = Math.max(settings.linearTolerance, tolerance * PICARD_TOLERANCE_STEP);
-      assemble(grid, solver, NaN, settings.dryThicknessM, headM);
+      if (picard) assemble(grid, solver, NaN, settings.dryThicknessM, headM, false);
+      else assemble(grid, solver, referenceBaseM, settings.dryThicknessM, null, true);
       solver.prepare();
       report = solver.solve(tolerance, settings.maxLinearIterations);
       linearIterations += report.iterations;
       linearSolves++;
-      lastHeadChangeM = readHeads(grid, solver.x, headM);
+      lastHeadChangeM = picard ? readHeads(grid, solver.x, headM) : readHeadsFromU(grid, solver.x, referenceBaseM, headM);
       if (!report.converged) {
         status = 'linear-not-converged';
         break;
@@ -200,24 +248,29 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
     linearIterations,
     linearSolves,
     picardIterations,
+    bedIterations,
     lastHeadChangeM,
     freeCellCount,
+    bedCellCount,
     solverBytes: solver.bytes,
   };
 }
 
 /**
  * Fills the solver's operator, right-hand side and first guess. `headM` null: the u-system over
- * `referenceBaseM`; otherwise the H-system with the face thickness of `headM`, floored at `floorM`.
+ * `referenceBaseM`, its beds linearised about the stage (`newton` false: the first solve, from a
+ * level guess) or about the u in the solver's x (`newton` true, which keeps x as the guess);
+ * otherwise the H-system with the face thickness of `headM`. Thicknesses are floored at `dryM`.
  */
 function assemble(
   grid: DistrictGrid,
   solver: MultigridConjugateGradient,
   referenceBaseM: number,
-  floorM: number,
+  dryM: number,
   headM: Float64Array | null,
+  newton: boolean,
 ): void {
-  const { columns, rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale } = grid;
+  const { columns, rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale, bed } = grid;
   const { eastT, northT, diag } = solver.fine;
   const rhs = solver.rhs, x = solver.x;
   const areaM2 = cellM * cellM;
@@ -226,19 +279,19 @@ function assemble(
   northT.fill(0);
   diag.fill(0);
   rhs.fill(0);
-  x.fill(0);
 
-  // the first guess in u: the mean over fixed cells, a level water table at the lines' mean stage
+  // the first guess in u: the mean over line cells, a level water table at the lines' mean stage
   let guessU = 0;
-  if (headM === null) {
+  if (headM === null && !newton) {
+    x.fill(0);
     let fixedCount = 0;
     for (let g = 0; g < cellKind.length; g++) {
-      if (cellKind[g] !== CELL_FIXED) continue;
+      if (cellKind[g] !== CELL_FIXED && cellKind[g] !== CELL_BED) continue;
       guessU += fixedValue(fixedHeadM[g], referenceBaseM);
       fixedCount++;
     }
     guessU = fixedCount > 0 ? guessU / fixedCount : 0;
-  }
+  } else if (headM !== null) x.fill(0);
 
   for (let row = 0; row < rows; row++) {
     for (let col = 0; col < columns; col++) {
@@ -246,9 +299,27 @@ function assemble(
       const kind = cellKind[g];
       if (kind === CELL_OUTSIDE) continue;
       const p = (row + 1) * w + col + 1;
-      if (kind === CELL_FREE) {
+      if (kind === CELL_FREE || kind === CELL_BED) {
         rhs[p] += rechargeMPerDay[g] * areaM2;
-        x[p] = headM === null ? guessU : headM[g];
+        if (headM !== null) x[p] = headM[g];
+        else if (!newton) x[p] = kind === CELL_BED ? fixedValue(fixedHeadM[g], referenceBaseM) : guessU;
+      }
+      if (kind === CELL_BED) {
+        const c = (bed as NonNullable<DistrictGrid['bed']>).conductanceM2PerDay[g], floor = (bed as NonNullable<DistrictGrid['bed']>).floorM[g];
+        const stageM = fixedHeadM[g];
+        if (headM !== null) {
+          // linear in H; a perched cell passes C (S - floor), its C H_k moved to the right side
+          const hk = headM[g];
+          diag[p] += c;
+          rhs[p] += hk > floor ? c * stageM : c * (stageM - floor + hk);
+        } else {
+          // Newton on sqrt(u) about h_k (see the head of this file)
+          const uk = newton ? x[p] : fixedValue(stageM, referenceBaseM);
+          const root = Math.sqrt(uk > 0 ? uk : 0);
+          const hk = root > dryM ? root : dryM;
+          diag[p] += c / (2 * hk);
+          rhs[p] += referenceBaseM + hk > floor ? c * (stageM - referenceBaseM - hk / 2) : c * (stageM - floor + hk / 2);
+        }
       }
       for (let side = 0; side < 2; side++) {
         // side 0: the east face, side 1: the face to the next row
@@ -259,14 +330,14 @@ function assemble(
         const pj = side === 0 ? p + 1 : p + w;
         let t = headM === null
           ? faceCoefficientU(kMPerDay[g], kMPerDay[gj])
-          : faceCoefficientH(kMPerDay[g], kMPerDay[gj], headM[g] - baseM[g], headM[gj] - baseM[gj], floorM);
-        if (fixedFaceScale && (kind === CELL_FIXED || kindJ === CELL_FIXED)) t *= side === 0 ? fixedFaceScale.east[g] : fixedFaceScale.north[g];
-        if (kind === CELL_FREE && kindJ === CELL_FREE) {
+          : faceCoefficientH(kMPerDay[g], kMPerDay[gj], headM[g] - baseM[g], headM[gj] - baseM[gj], dryM);
+        if (fixedFaceScale && (kind >= CELL_FIXED || kindJ >= CELL_FIXED)) t *= side === 0 ? fixedFaceScale.east[g] : fixedFaceScale.north[g];
+        if (kind !== CELL_FIXED && kindJ !== CELL_FIXED) {
           if (side === 0) eastT[p] = t;
           else northT[p] = t;
           diag[p] += t;
           diag[pj] += t;
-        } else if (kind === CELL_FREE) {
+        } else if (kind !== CELL_FIXED) {
           diag[p] += t;
           rhs[p] += t * (headM === null ? fixedValue(fixedHeadM[gj], referenceBaseM) : fixedHeadM[gj]);
         } else {
@@ -295,20 +366,28 @@ function faceCoefficientH(kI: number, kJ: number, hI: number, hJ: number, floorM
   return ((2 * kI * kJ) / (kI + kJ)) * (hbar > floorM ? hbar : floorM);
 }
 
-function readHeadsFromU(grid: DistrictGrid, u: Float64Array, referenceBaseM: number, headM: Float64Array): void {
+/** Heads from u over the reference base; returns the largest change over the free and bed cells. */
+function readHeadsFromU(grid: DistrictGrid, u: Float64Array, referenceBaseM: number, headM: Float64Array): number {
   const { columns, rows, cellKind, fixedHeadM } = grid;
   const w = columns + 2;
+  let change = 0;
   for (let row = 0; row < rows; row++) {
     for (let col = 0; col < columns; col++) {
       const g = row * columns + col;
       const kind = cellKind[g];
       const value = u[(row + 1) * w + col + 1];
-      headM[g] = kind === CELL_OUTSIDE ? NaN : kind === CELL_FIXED ? fixedHeadM[g] : referenceBaseM + Math.sqrt(value > 0 ? value : 0);
+      const next = kind === CELL_OUTSIDE ? NaN : kind === CELL_FIXED ? fixedHeadM[g] : referenceBaseM + Math.sqrt(value > 0 ? value : 0);
+      if (kind === CELL_FREE || kind === CELL_BED) {
+        const d = Math.abs(next - headM[g]);
+        if (d > change) change = d;
+      }
+      headM[g] = next;
     }
   }
+  return change;
 }
 
-/** Copies the free cells' heads from the solver; returns the largest change. */
+/** Copies the free and bed cells' heads from the solver; returns the largest change. */
 function readHeads(grid: DistrictGrid, x: Float64Array, headM: Float64Array): number {
   const { columns, rows, cellKind } = grid;
   const w = columns + 2;
@@ -316,7 +395,7 @@ function readHeads(grid: DistrictGrid, x: Float64Array, headM: Float64Array): nu
   for (let row = 0; row < rows; row++) {
     for (let col = 0; col < columns; col++) {
       const g = row * columns + col;
-      if (cellKind[g] !== CELL_FREE) continue;
+      if (cellKind[g] !== CELL_FREE && cellKind[g] !== CELL_BED) continue;
       const next = x[(row + 1) * w + col + 1];
       const d = Math.abs(next - headM[g]);
       if (d > change) change = d;
@@ -331,11 +410,11 @@ function readHeads(grid: DistrictGrid, x: Float64Array, headM: Float64Array): nu
  * solve balanced), else from the heads with the face thickness of those same heads.
  */
 function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: number, headM: Float64Array, dryThicknessM: number) {
-  const { columns, rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale } = grid;
+  const { columns, rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale, bed } = grid;
   const areaM2 = cellM * cellM;
   const w = columns + 2;
   let fixedCount = 0;
-  for (let g = 0; g < cellKind.length; g++) if (cellKind[g] === CELL_FIXED) fixedCount++;
+  for (let g = 0; g < cellKind.length; g++) if (cellKind[g] >= CELL_FIXED) fixedCount++;
   const fixedCells = new Uint32Array(fixedCount);
   const exchangeM3PerDay = new Float64Array(fixedCount);
   const sideFlowM3PerDay = new Float64Array(4 * fixedCount);
@@ -372,7 +451,7 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
         }
         const kindJ = cellKind[gj];
         if (kindJ === CELL_OUTSIDE) continue;
-        const scale = fixedFaceScale && (kind === CELL_FIXED || kindJ === CELL_FIXED) ? (side < 2 ? fixedFaceScale.east[face] : fixedFaceScale.north[face]) : 1;
+        const scale = fixedFaceScale && (kind >= CELL_FIXED || kindJ >= CELL_FIXED) ? (side < 2 ? fixedFaceScale.east[face] : fixedFaceScale.north[face]) : 1;
         let flow: number;
         if (u === null) {
           const t = faceCoefficientH(kMPerDay[g], kMPerDay[gj], headM[g] - baseM[g], headM[gj] - baseM[gj], dryThicknessM);
@@ -382,16 +461,19 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
           flow = scale * faceCoefficientU(kMPerDay[g], kMPerDay[gj]) * (valueI - valueJ);
         }
         out += flow;
-        if (kind === CELL_FIXED) sideFlowM3PerDay[4 * k + side] = flow;
+        if (kind >= CELL_FIXED) sideFlowM3PerDay[4 * k + side] = flow;
       }
-      if (kind === CELL_FIXED) {
-        const exchange = out - rechargeM3PerDay;
+      // a bed passes C (S - max(H, floor)), H from the final heads; a fixed cell what it sends less its recharge
+      const bedFlow = kind === CELL_BED ? bedExchange(bed!, g, fixedHeadM[g], headM[g]) : 0;
+      if (kind >= CELL_FIXED) {
+        const exchange = kind === CELL_BED ? bedFlow : out - rechargeM3PerDay;
         fixedCells[k] = g;
         exchangeM3PerDay[k++] = exchange;
         if (exchange > 0) inflow += exchange;
         else outflow -= exchange;
-      } else {
-        const residual = Math.abs(rechargeM3PerDay - out);
+      }
+      if (kind !== CELL_FIXED) {
+        const residual = Math.abs(rechargeM3PerDay + bedFlow - out);
         if (residual > largestCellResidualM3PerDay) largestCellResidualM3PerDay = residual;
         const thickness = u === null ? headM[g] - baseM[g] : valueI;
         if (thickness <= (u === null ? dryThicknessM : dryU)) dryCellCount++;
@@ -411,6 +493,12 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
     largestCellResidualM3PerDay,
     dryCellCount,
   };
+}
+
+/** What a bed passes into its cell (m^3/d): C (S - max(H, floor)) [H. Bouwer (1978), Groundwater Hydrology, from memory]. */
+function bedExchange(bed: NonNullable<DistrictGrid['bed']>, g: number, stageM: number, headM: number): number {
+  const floor = bed.floorM[g];
+  return bed.conductanceM2PerDay[g] * (stageM - (headM > floor ? headM : floor));
 }
 
 function checkSettings(s: typeof DEFAULTS): void {
@@ -433,6 +521,12 @@ function checkGrid(grid: DistrictGrid): void {
   }
   const { cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM } = grid;
   const where = (g: number) => `at cell ${g} (row ${Math.floor(g / columns)}, column ${g % columns})`;
+  if (grid.bed) {
+    for (const name of ['conductanceM2PerDay', 'floorM'] as const) {
+      const length = grid.bed[name]?.length;
+      if (length !== n) throw new Error(`Unexpected bed.${name} length: ${length} (columns * rows = ${n}).`);
+    }
+  }
   if (grid.fixedFaceScale) {
     for (const name of ['east', 'north'] as const) {
       const scale = grid.fixedFaceScale[name];
@@ -442,12 +536,18 @@ function checkGrid(grid: DistrictGrid): void {
   }
   for (let g = 0; g < n; g++) {
     const kind = cellKind[g];
-    if (kind > CELL_FIXED) throw new Error(`Unexpected cellKind value: ${kind} ${where(g)}.`);
+    if (kind > CELL_BED) throw new Error(`Unexpected cellKind value: ${kind} ${where(g)}.`);
     if (kind === CELL_OUTSIDE) continue;
     if (!(kMPerDay[g] > 0 && Number.isFinite(kMPerDay[g]))) throw new Error(`Unexpected kMPerDay value: ${kMPerDay[g]} ${where(g)}.`);
     if (!Number.isFinite(rechargeMPerDay[g])) throw new Error(`Unexpected rechargeMPerDay value: ${rechargeMPerDay[g]} ${where(g)}.`);
     if (!Number.isFinite(baseM[g])) throw new Error(`Unexpected baseM value: ${baseM[g]} ${where(g)}.`);
-    if (kind === CELL_FIXED && !Number.isFinite(fixedHeadM[g])) throw new Error(`Unexpected fixedHeadM value: ${fixedHeadM[g]} ${where(g)}.`);
+    if (kind >= CELL_FIXED && !Number.isFinite(fixedHeadM[g])) throw new Error(`Unexpected fixedHeadM value: ${fixedHeadM[g]} ${where(g)}.`);
+    if (kind === CELL_BED) {
+      if (!grid.bed) throw new Error(`Unexpected bed value: undefined with a bed cell ${where(g)}.`);
+      const c = grid.bed.conductanceM2PerDay[g], floor = grid.bed.floorM[g];
+      if (!(c > 0 && Number.isFinite(c))) throw new Error(`Unexpected bed.conductanceM2PerDay value: ${c} ${where(g)}.`);
+      if (Number.isNaN(floor) || floor === Infinity) throw new Error(`Unexpected bed.floorM value: ${floor} ${where(g)}.`);
+    }
   }
 }
 
@@ -470,7 +570,8 @@ function checkEveryFreeGroupMeetsAFixedCell(grid: DistrictGrid): void {
         const gj = cellNeighbour(g, side, columns, n);
         if (gj < 0) continue;
         const kind = cellKind[gj];
-        if (kind === CELL_FIXED) meetsFixed = true;
+        // a bed's exchange falls as the head rises: it gives a steady state as a fixed head does
+        if (kind === CELL_FIXED || kind === CELL_BED) meetsFixed = true;
         else if (kind === CELL_FREE && !seen[gj]) {
           seen[gj] = 1;
           stack[top++] = gj;

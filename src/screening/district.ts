@@ -8,10 +8,10 @@ import { fillZones, polygonCells } from '../geometry/grid-fill.js';
 import { gridOver, gridSize, zonesExtent, type Grid } from '../geometry/grid.js';
 import type { LineTable } from '../geometry/lines.js';
 import type { ZonePolygons } from '../geometry/zones.js';
-import { CELL_FIXED, CELL_FREE, CELL_OUTSIDE, cellNeighbour, solveDistrict, type DistrictGrid, type DistrictSolveStatus } from '../hydraulics/district-solver.js';
+import { CELL_BED, CELL_FIXED, CELL_FREE, CELL_OUTSIDE, cellNeighbour, solveDistrict, type DistrictGrid, type DistrictSolveStatus } from '../hydraulics/district-solver.js';
 import { UsageError } from '../shared/errors.js';
 import { RISK_CLASSES, riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
-import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
+import { bedAt, stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
 import { lineFaceScales } from './line-faces.js';
 
 /**
@@ -46,7 +46,9 @@ export interface DistrictStripFigures {
   /**
    * What lines a and b send into the cells inside the strip polygon (m^3/d; positive when the line
    * loses water): the flows across their cells' sides into those cells, so a line's water that
-   * leaves past the strip's ends or into another strip is not counted here.
+   * leaves past the strip's ends or into another strip is not counted here. A line with a bed
+   * counts the same flows: what its cells (the water table where it runs) send into the strip's
+   * cells, not what its bed passes, which also feeds the other side and the flow along the line.
    */
   lossAM3PerDay: number;
   lossBM3PerDay: number;
@@ -79,11 +81,13 @@ export interface DistrictResult {
   status: DistrictSolveStatus;
   linearIterations: number;
   picardIterations: number;
+  /** Newton iterations on the lines' beds (0 when no line has a bed, or when Picard carries them). */
+  bedIterations: number;
   /** Water table per cell (m; NaN outside the aquifer); row 0 is the southernmost. */
   waterTableM: Float64Array;
   /** Ground minus water table per cell (m; NaN outside). */
   depthM: Float64Array;
-  /** CELL_OUTSIDE, CELL_FREE or CELL_FIXED per cell. */
+  /** CELL_OUTSIDE, CELL_FREE, CELL_FIXED or CELL_BED per cell. */
   cellKind: Uint8Array;
   /** Each line's net loss (m^3/d, positive when it loses); NaN for a line with no cell in the aquifer. */
   lineLossM3PerDay: Float64Array;
@@ -138,6 +142,7 @@ interface GridSolve {
   status: DistrictSolveStatus;
   linearIterations: number;
   picardIterations: number;
+  bedIterations: number;
   totalRechargeM3PerDay: number;
   largestCellResidualM3PerDay: number;
   dryCells: number;
@@ -158,6 +163,9 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
   const cellKind = new Uint8Array(n);
   const kMPerDay = new Float64Array(n), rechargeMPerDay = new Float64Array(n), baseM = new Float64Array(n), fixedHeadM = new Float64Array(n);
   const groundM = new Float64Array(n).fill(NaN);
+  // a line's bed where it resists: its conductance over the cell and its underside
+  const bedConductance = new Float64Array(n), bedFloorM = new Float64Array(n);
+  let bedCells = 0;
   // the zones' figures in typed arrays, so the loop over cells touches no object
   const zoneK = Float64Array.from(zones, (z) => z.kMPerDay), zoneRecharge = Float64Array.from(zones, (z) => z.rechargeMPerDay);
   const zoneBase = Float64Array.from(zones, (z) => z.baseM), zoneGround = Float64Array.from(zones, (z) => z.groundM);
@@ -174,9 +182,18 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     groundM[g] = zoneGround[z];
     const l = lineOf[g];
     if (l >= 0) {
-      cellKind[g] = CELL_FIXED;
-      fixedHeadM[g] = stageAtChainage(lines[l], burned.chainageM[g], lineLengthsM[l]);
+      const line = lines[l];
+      fixedHeadM[g] = stageAtChainage(line, burned.chainageM[g], lineLengthsM[l]);
       if (fixedHeadM[g] <= zoneBase[z]) dryLineCells++;
+      // the bed at the chainage of the cell (a lined range's where one covers it)
+      const bed = bedAt(line, burned.chainageM[g]);
+      if (bed.resistanceD > 0 && burned.lengthM[g] > 0) {
+        // the whole wetted perimeter: the cell holds both sides of the line
+        cellKind[g] = CELL_BED;
+        bedConductance[g] = (bed.perimeterM * burned.lengthM[g]) / bed.resistanceD;
+        bedFloorM[g] = Number.isNaN(line.waterDepthM) ? -Infinity : fixedHeadM[g] - line.waterDepthM;
+        bedCells++;
+      } else cellKind[g] = CELL_FIXED;
     } else if (!Number.isNaN(zoneEdgeHead[z]) && onOuterEdge(grid, zoneOf, g)) {
       // the zone's part of the aquifer's outer edge holds the head its attribute gives (a river, a regional water table)
       cellKind[g] = CELL_FIXED;
@@ -188,6 +205,7 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
   // each line where it runs in its cells, not at their centres (the subgrid correction)
   const fixedFaceScale = lineFaceScales(grid, cellKind, burned, lineTable);
   const districtGrid: DistrictGrid = { columns: grid.columns, rows: grid.rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale };
+  if (bedCells > 0) districtGrid.bed = { conductanceM2PerDay: bedConductance, floorM: bedFloorM };
   const solution = solveDistrict(districtGrid);
   return {
     grid,
@@ -202,6 +220,7 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     status: solution.status,
     linearIterations: solution.linearIterations,
     picardIterations: solution.picardIterations,
+    bedIterations: solution.bedIterations,
     totalRechargeM3PerDay: solution.totalRechargeM3PerDay,
     largestCellResidualM3PerDay: solution.largestCellResidualM3PerDay,
     dryCells: solution.dryCellCount,
@@ -226,7 +245,7 @@ function leaveOutUnreached(grid: Grid, cellKind: Uint8Array): number {
   const reached = new Uint8Array(cells);
   const stack = new Int32Array(cells);
   let top = 0;
-  for (let g = 0; g < cells; g++) if (cellKind[g] === CELL_FIXED) { reached[g] = 1; stack[top++] = g; }
+  for (let g = 0; g < cells; g++) if (cellKind[g] === CELL_FIXED || cellKind[g] === CELL_BED) { reached[g] = 1; stack[top++] = g; }
   while (top > 0) {
     const g = stack[--top];
     for (let side = 0; side < 4; side++) {
@@ -300,7 +319,7 @@ function junctionJumps(inputs: DistrictInputs, solve: GridSolve): { count: numbe
             if (r < 0 || r >= rows || c < 0 || c >= columns) continue;
             const g = r * columns + c;
             const m = burned.line[g];
-            if (m < 0 || m === l || cellKind[g] !== CELL_FIXED) continue;
+            if (m < 0 || m === l || (cellKind[g] !== CELL_FIXED && cellKind[g] !== CELL_BED)) continue;
             const d = Math.abs(stageAtChainage(lines[m], burned.chainageM[g], lineLengthsM[m]) - stageM);
             if (d > jump) { jump = d; other = m; }
           }
@@ -328,7 +347,7 @@ function bankMask(grid: Grid, cellKind: Uint8Array, bankWidthM: number): Uint8Ar
   const reachM = bankWidthM + (cellM * Math.SQRT2) / 2;
   const r = Math.floor(reachM / cellM);
   for (let g = 0; g < grid.cells; g++) {
-    if (cellKind[g] !== CELL_FIXED) continue;
+    if (cellKind[g] !== CELL_FIXED && cellKind[g] !== CELL_BED) continue;
     mask[g] = 1;
     if (bankWidthM === 0) continue;
     const row = Math.floor(g / columns), col = g % columns;
@@ -397,7 +416,7 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
       // water that line a's or b's cells send into this cell of the strip
       for (let side = 0; side < 4; side++) {
         const gj = cellNeighbour(g, side, grid.columns, grid.cells);
-        if (gj < 0 || cellKind[gj] !== CELL_FIXED) continue;
+        if (gj < 0 || (cellKind[gj] !== CELL_FIXED && cellKind[gj] !== CELL_BED)) continue;
         const l = lineOfCell[gj];
         if (l !== lineA && l !== lineB) continue;
         // the face lies half a cell from the line: the recharge on the half of the line cell between
@@ -485,6 +504,7 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
     status: fine.status,
     linearIterations: fine.linearIterations,
     picardIterations: fine.picardIterations,
+    bedIterations: fine.bedIterations,
     waterTableM,
     depthM,
     cellKind,

@@ -1,11 +1,11 @@
 // Where a line really runs inside the cells it is burned into, for the district solve's subgrid
 // correction (see fixedFaceScale in hydraulics/district-solver.ts): for each face between a line
-// cell and a free cell, the distance d from the free cell's centre to the line along the axis
+// cell (fixed, or bed) and a free cell, the distance d from the free cell's centre to the line along the axis
 // through both centres, and the face's scale cellM / d.
 import type { BurnedLines } from '../geometry/grid-burn.js';
 import type { Grid } from '../geometry/grid.js';
 import type { LineTable } from '../geometry/lines.js';
-import { CELL_FIXED, CELL_FREE } from '../hydraulics/district-solver.js';
+import { CELL_BED, CELL_FIXED, CELL_FREE } from '../hydraulics/district-solver.js';
 
 /**
  * The distance is looked for up to MAX_REACH cells from the free cell's centre; a line that cuts
@@ -60,7 +60,8 @@ export function lineFaceScales(grid: Grid, cellKind: Uint8Array, burned: BurnedL
             for (let c = c0 - 1; c <= c0 + 1; c++) {
               if (c < 0 || c >= columns) continue;
               const j = r * columns + c;
-              if (cellKind[j] !== CELL_FIXED || burned.line[j] !== l) continue;
+              // a bed cell's head is the water table where the line runs, so its faces take the same correction
+              if ((cellKind[j] !== CELL_FIXED && cellKind[j] !== CELL_BED) || burned.line[j] !== l) continue;
               // the four free neighbours of the line cell j, each looking at j
               if (c > 0 && cellKind[j - 1] === CELL_FREE) {
                 const d = rayHit(c - 0.5, r + 0.5, 1, 0, ax, ay, bx, by);
