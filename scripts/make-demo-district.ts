@@ -92,6 +92,19 @@ interface LineSpec {
   stage: Stage;
 }
 
+// Beds (invented): the canals' beds are silted, a resistance of some days; the drains are kept
+// clean (no attribute: the config's default, a clean bed). Bottom width and water depth give the
+// wetted perimeter on doab's default side slope.
+interface BedSpec {
+  resistanceD?: number;
+  bottomWidthM: number;
+  waterDepthM: number;
+}
+const MAIN_BED: BedSpec = { resistanceD: 6, bottomWidthM: 10, waterDepthM: 2.2 };
+const DISTRIBUTARY_BED: BedSpec = { resistanceD: 10, bottomWidthM: 2.5, waterDepthM: 1.0 };
+const DRAIN_BED: BedSpec = { bottomWidthM: 1.5, waterDepthM: 0.8 };
+const bedOf = (line: LineSpec): BedSpec => (line.kind === 'drain' ? DRAIN_BED : line.id === 'C-01' ? MAIN_BED : DISTRIBUTARY_BED);
+
 function arc(center: Point, radiusM: number, fromDeg: number, toDeg: number, stepDeg = 5): Point[] {
   const points: Point[] = [];
   const steps = Math.ceil(Math.abs(toDeg - fromDeg) / stepDeg);
@@ -210,7 +223,9 @@ function featureCollection(features: object[]): string {
 function lineFeature(line: LineSpec): object {
   const parts = line.parts.map((p) => p.map(toLonLat));
   const geometry = parts.length === 1 ? { type: 'LineString', coordinates: parts[0] } : { type: 'MultiLineString', coordinates: parts };
-  return { type: 'Feature', properties: { id: line.id, name: line.name, kind: line.kind, ...stageProperties(line) }, geometry };
+  const bed = bedOf(line);
+  const bedProperties = { ...(bed.resistanceD === undefined ? {} : { bed_resistance_d: bed.resistanceD }), bottom_width_m: bed.bottomWidthM, water_depth_m: bed.waterDepthM };
+  return { type: 'Feature', properties: { id: line.id, name: line.name, kind: line.kind, ...stageProperties(line), ...bedProperties }, geometry };
 }
 
 function signedAreaM2(ring: Point[]): number {

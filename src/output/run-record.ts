@@ -8,7 +8,7 @@ import { settingsAsConfig } from '../shared/settings.js';
 import { formatProblem, type Problem } from '../shared/errors.js';
 
 export const CAUTION =
-  'Screening estimate only (steady Dupuit-Forchheimer flow, fully penetrating unlined lines, horizontal base): ' +
+  'Screening estimate only (steady Dupuit-Forchheimer flow, fully penetrating lines, a clean bed unless a bed resistance is given, horizontal base): ' +
   'confirm in the field and defer to local codes and licensed professional practice before acting.';
 
 /** The name of the one seepage total a planner reads, in the summary, run.json and the report. */

@@ -37,6 +37,8 @@ export function orientFromLineA(profile: Profile, lineA: string): Profile {
     peakOffsetM: width - profile.peakOffsetM,
     seepageAM2PerDay: profile.seepageBM2PerDay,
     seepageBM2PerDay: profile.seepageAM2PerDay,
+    bankHeadAM: profile.bankHeadBM,
+    bankHeadBM: profile.bankHeadAM,
   };
 }
 

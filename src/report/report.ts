@@ -51,7 +51,7 @@ export const ASSUMPTIONS: readonly string[] = [
   'Steady state: canal stages and recharge are taken as constant long enough for the water table to settle.',
   'Dupuit-Forchheimer: flow is horizontal and the head is the same over a vertical, in an unconfined aquifer on a horizontal impervious base; ' +
     'fair when a strip is at least about 5 times wider than its mean saturated thickness (common practice), and narrower strips are flagged.',
-  'Lines fully penetrate the aquifer and meet it without entry resistance (no lining, no clogged bed); real losses through a silted bed can be much smaller.',
+  'Lines fully penetrate the aquifer. A line meets it without entry resistance (a clean bed) unless it has a bed resistance, through which it passes (its wetted perimeter / resistance) x (stage - head at the bank), or the bed\'s underside where the water table falls below it; no radial resistance of partial penetration is added, so losses are upper estimates where a bed resistance is not given.',
   'Zones are taken in series across each transect, each with one hydraulic conductivity, recharge and ground level.',
   'All elevations (stages, base, ground) are in one vertical datum.',
   'Only paired, solved line sides are counted by the strips: a side with no partner, outside the aquifer or unsolved adds nothing to their figures, so the strip losses are a lower bound.',

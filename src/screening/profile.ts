@@ -32,6 +32,9 @@ export interface Profile {
   minDepthM: number;
   seepageAM2PerDay: number;
   seepageBM2PerDay: number;
+  /** Water table at each bank (m): the stage where the bed is clean, apart from it where the bed resists. */
+  bankHeadAM: number;
+  bankHeadBM: number;
   waterloggedDepthM: number;
   potentialDepthM: number;
 }
@@ -101,6 +104,8 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
     minDepthM: solver.minDepthM,
     seepageAM2PerDay: solver.ownSeepageM2PerDay,
     seepageBM2PerDay: solver.partnerSeepageM2PerDay,
+    bankHeadAM: solver.ownBankHeadM,
+    bankHeadBM: solver.partnerBankHeadM,
     waterloggedDepthM: result.settings.risk.waterloggedDepthM,
     potentialDepthM: result.settings.risk.potentialDepthM,
   };

@@ -35,26 +35,26 @@ describe('profileCommand', () => {
   it('writes the SVG and the CSV of the top strip into the run folder', async () => {
     const top = readCsv(join(run, 'ranking.csv'))[0];
     // change detector: the invented demo's top-ranked strip; the file name below follows from it
-    expect(top.strip_id).toBe('C-02|D-03|0');
+    expect(top.strip_id).toBe('D-02|C-01|0');
     const { io, out, err } = capture();
     expect(await profileCommand({ run, strip: top.strip_id }, io)).toBe(0);
     const strip = strips.find((s) => s.strip_id === top.strip_id);
 
-    const svg = readFileSync(join(run, 'profile-C-02_D-03_0.svg'), 'utf8');
+    const svg = readFileSync(join(run, 'profile-D-02_C-01_0.svg'), 'utf8');
     expect(svg.startsWith('<svg xmlns="http://www.w3.org/2000/svg"')).toBe(true);
     const label = svg.match(/<text class="peak-label" data-strip-id="([^"]*)"[^>]*>([^<]*)<\/text>/);
-    expect(label?.[1]).toBe('C-02|D-03|0');
+    expect(label?.[1]).toBe('D-02|C-01|0');
     expect(label?.[2]).toBe(`${strip.peak_water_table_m.toFixed(2)} m`);
 
-    const text = readFileSync(join(run, 'profile-C-02_D-03_0.csv'), 'utf8');
+    const text = readFileSync(join(run, 'profile-D-02_C-01_0.csv'), 'utf8');
     expect(text.split('\n')[0]).toBe('x_m,water_table_m,ground_m,base_m');
-    const rows = readCsv(join(run, 'profile-C-02_D-03_0.csv')).map((row) => Object.fromEntries(Object.entries(row).map(([k, v]) => [k, Number(v)])));
+    const rows = readCsv(join(run, 'profile-D-02_C-01_0.csv')).map((row) => Object.fromEntries(Object.entries(row).map(([k, v]) => [k, Number(v)])));
     expect(rows.length).toBeGreaterThan(200);
     expect(rows[0].x_m).toBe(0);
     for (let i = 1; i < rows.length; i++) expect(rows[i].x_m).toBeGreaterThan(rows[i - 1].x_m);
-    // the demo's base is 150 m everywhere; its strip lies in the silty flat, ground 179.2 m
+    // the demo's base is 150 m everywhere; its strip lies in the medium sand, ground 180.5 m
     expect(new Set(rows.map((row) => row.base_m))).toEqual(new Set([150]));
-    expect(new Set(rows.map((row) => row.ground_m))).toEqual(new Set([179.2]));
+    expect(new Set(rows.map((row) => row.ground_m))).toEqual(new Set([180.5]));
     // the highest sample is the peak, which the profile samples exactly
     expect(Math.max(...rows.map((row) => row.water_table_m))).toBeCloseTo(strip.peak_water_table_m, 3);
     // away from the banks (10 m beside each line), the water table is nowhere shallower than the strip's smallest depth
@@ -62,8 +62,8 @@ describe('profileCommand', () => {
     const inland = rows.filter((row) => row.x_m >= 10 && row.x_m <= width - 10);
     expect(Math.min(...inland.map((row) => row.ground_m - row.water_table_m))).toBeGreaterThan(strip.min_depth_m - 1e-3);
 
-    expect(err.join('')).toMatch(/wrote profile-C-02_D-03_0\.svg, profile-C-02_D-03_0\.csv/);
-    expect(out.join('')).toMatch(/peak water table 178\.83 m/);
+    expect(err.join('')).toMatch(/wrote profile-D-02_C-01_0\.svg, profile-D-02_C-01_0\.csv/);
+    expect(out.join('')).toMatch(/peak water table 179\.62 m/);
     expect(out.join('')).toMatch(/CAUTION: Screening estimate/);
   });
 
@@ -99,31 +99,31 @@ describe('profileCommand', () => {
     await expect(profileCommand({ run, strip: 'C-11|D-99|0' }, capture().io)).rejects.toThrow(
       /run\.json: no strip "C-11\|D-99\|0" in this run; its strips include "C-11\|D-09\|0", "C-10\|C-11\|0"/,
     );
-    await expect(profileCommand({ run, strip: 'nothing-like-it' }, capture().io)).rejects.toThrow(/"C-02\|D-03\|0", .*\(27 strips in all; see ranking\.csv\)/);
+    await expect(profileCommand({ run, strip: 'nothing-like-it' }, capture().io)).rejects.toThrow(/"D-02\|C-01\|0", .*\(27 strips in all; see ranking\.csv\)/);
   });
 
   it('refuses an input that changed since the run, naming the file', async () => {
     const changed = screenedCopy();
     appendFileSync(join(changed.data, 'aquifer.geojson'), '\n');
-    await expect(profileCommand({ run: changed.run, strip: 'C-02|D-03|0' }, capture().io)).rejects.toThrow(
+    await expect(profileCommand({ run: changed.run, strip: 'D-02|C-01|0' }, capture().io)).rejects.toThrow(
       new RegExp(`${join(changed.data, 'aquifer.geojson').replace(/[.*+?^${}()|[\]\\/]/g, '\\$&')}: changed since the run in .*run\\.json \\(SHA-256 now [0-9a-f]{64}, recorded [0-9a-f]{64}\\)`),
     );
   });
 
   it('refuses a folder without run.json, and a record with a setting it does not know, naming the key as run.json writes it', async () => {
     const empty = freshDir('profile-empty');
-    await expect(profileCommand({ run: empty, strip: 'C-02|D-03|0' }, capture().io)).rejects.toThrow(/run\.json: not found: is .* an output folder of doab screen\?/);
+    await expect(profileCommand({ run: empty, strip: 'D-02|C-01|0' }, capture().io)).rejects.toThrow(/run\.json: not found: is .* an output folder of doab screen\?/);
 
     const edited = freshDir('profile-edited');
     const record = readJson(join(run, 'run.json'));
     record.settings.newSettingM = 5;
     writeFileSync(join(edited, 'run.json'), JSON.stringify(record));
-    await expect(profileCommand({ run: edited, strip: 'C-02|D-03|0' }, capture().io)).rejects.toThrow(/run\.json: unknown key "settings\.newSettingM"/);
+    await expect(profileCommand({ run: edited, strip: 'D-02|C-01|0' }, capture().io)).rejects.toThrow(/run\.json: unknown key "settings\.newSettingM"/);
 
     delete record.settings.newSettingM;
     record.settings.stepM = -1;
     writeFileSync(join(edited, 'run.json'), JSON.stringify(record));
-    await expect(profileCommand({ run: edited, strip: 'C-02|D-03|0' }, capture().io)).rejects.toThrow(/"settings\.stepM" must be a positive number/);
+    await expect(profileCommand({ run: edited, strip: 'D-02|C-01|0' }, capture().io)).rejects.toThrow(/"settings\.stepM" must be a positive number/);
   });
 
   it('re-runs with the recorded settings, not the defaults', async () => {
@@ -140,7 +140,7 @@ describe('profileCommand', () => {
   });
 
   it('makes a file name of any id', () => {
-    expect(safeId('C-02|D-03|0')).toBe('C-02_D-03_0');
+    expect(safeId('D-02|C-01|0')).toBe('D-02_C-01_0');
     expect(safeId('../../etc/x y')).toBe('.._.._etc_x_y');
     expect(safeId(`a&"'<>\\b`)).toBe('a______b');
   });
@@ -165,7 +165,7 @@ describe('doab profile (through the CLI)', () => {
   it('exits 1 with the valid ids for an unknown strip, and 2 without --strip', () => {
     const unknown = runCli(['profile', '--run', run, '--strip', 'C-99']);
     expect(unknown.status).toBe(1);
-    expect(unknown.stderr).toMatch(/doab: error: .*run\.json: no strip "C-99" in this run; its strips include "C-02\|D-03\|0"/);
+    expect(unknown.stderr).toMatch(/doab: error: .*run\.json: no strip "C-99" in this run; its strips include "D-02\|C-01\|0"/);
     const missing = runCli(['profile', '--run', run]);
     expect(missing.status).toBe(2);
     expect(missing.stderr).toMatch(/--strip/);

@@ -38,6 +38,9 @@ function profile(lengthM: number, stageAM: number, stageBM: number, groundM: num
     minDepthM: groundM - peakM,
     seepageAM2PerDay: 0.012,
     seepageBM2PerDay: -0.034,
+    // clean beds: the water table meets each line at its stage
+    bankHeadAM: stageAM,
+    bankHeadBM: stageBM,
     waterloggedDepthM: 2,
     potentialDepthM: 3,
   };

@@ -51,16 +51,30 @@ describe('renderProfileSvg', () => {
     const label = svg.match(/<text class="peak-label"[^>]*>([^<]*)<\/text>/);
     expect(label?.[1]).toBe(peakLabelText(profile.peakWaterTableM));
     // change detector on the invented demo (the top strip's peak), not a reference value
-    expect(label?.[1]).toBe('178.83 m');
+    expect(label?.[1]).toBe('179.62 m');
     const circle = svg.match(/<circle [^>]*>/)![0];
     expect(attribute(label![0], 'y')).toBeLessThan(attribute(circle, 'cy'));
   });
 
-  it('draws the water table from stage to stage: its ends sit on the stage markers', () => {
+  it('draws the water table from bank to bank: on the stage marker at a clean bed, below it where a losing line\'s bed resists', () => {
     const points = svg.match(/class="profile-water-table" points="([^"]*)"/)![1].split(' ').map((p) => p.split(',').map(Number));
     const stages = [...svg.matchAll(/<path class="profile-stage" d="M([\d.]+) ([\d.]+)/g)].map((m) => [Number(m[1]), Number(m[2])]);
-    expect(points[0]).toEqual(stages[0]);
-    expect(points[points.length - 1]).toEqual(stages[1]);
+    // the profile's own banks: the water table starts and ends at the bank heads
+    expect(profile.waterTableM[0]).toBeCloseTo(profile.bankHeadAM, 9);
+    expect(profile.waterTableM[profile.waterTableM.length - 1]).toBeCloseTo(profile.bankHeadBM, 9);
+    const ends = [
+      { point: points[0], stage: stages[0], bankM: profile.bankHeadAM, stageM: profile.stageAM },
+      { point: points[points.length - 1], stage: stages[1], bankM: profile.bankHeadBM, stageM: profile.stageBM },
+    ];
+    // change detector on the invented demo: its top strip has a clean drain on one side and a canal with a bed on the other
+    expect(ends.some((end) => end.bankM === end.stageM)).toBe(true);
+    expect(ends.some((end) => end.bankM < end.stageM - 0.01)).toBe(true);
+    for (const end of ends) {
+      expect(end.point[0]).toBe(end.stage[0]);
+      // SVG y grows downwards: a bank head below the stage is drawn lower than the stage marker
+      if (end.bankM === end.stageM) expect(end.point[1]).toBe(end.stage[1]);
+      else expect(end.point[1]).toBeGreaterThan(end.stage[1]);
+    }
   });
 
   it('says when the highest water table is a line\'s own stage, not a mound between the lines', () => {
@@ -96,8 +110,9 @@ describe('orientFromLineA', () => {
     expect(seen.xM[0]).toBe(0);
     expect(seen.xM[seen.xM.length - 1]).toBeCloseTo(cast.transectLengthM, 9);
     for (let i = 1; i < seen.xM.length; i++) expect(seen.xM[i]).toBeGreaterThan(seen.xM[i - 1]);
-    expect(seen.waterTableM[0]).toBeCloseTo(seen.stageAM, 9);
-    expect(seen.waterTableM[seen.xM.length - 1]).toBeCloseTo(seen.stageBM, 9);
+    expect([seen.bankHeadAM, seen.bankHeadBM]).toEqual([cast.bankHeadBM, cast.bankHeadAM]);
+    expect(seen.waterTableM[0]).toBeCloseTo(seen.bankHeadAM, 9);
+    expect(seen.waterTableM[seen.xM.length - 1]).toBeCloseTo(seen.bankHeadBM, 9);
     // the peak's offset is now measured as strips.geojson measures it, from line a
     expect(seen.peakOffsetM).toBeCloseTo(strip.peakOffsetM, 6);
     expect(seen.zones[0].fromM).toBe(0);
@@ -106,7 +121,8 @@ describe('orientFromLineA', () => {
   });
 
   it('leaves a profile cast from line a as it is', () => {
-    const strip = result.strips[0];
+    // in the demo this strip's highest water table is on a transect cast from its line a
+    const strip = result.strips.find((s) => s.stripId === 'C-11|D-09|0')!;
     const cast = profileOfFacing(result, strip, keyFacing(result, strip))!;
     expect(cast.lineA).toBe(strip.lineAId);
     expect(orientFromLineA(cast, strip.lineAId)).toBe(cast);
