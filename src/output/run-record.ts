@@ -135,6 +135,8 @@ function districtRecord(result: ScreenResult) {
     status: district.status,
     linear_iterations: district.linearIterations,
     picard_iterations: district.picardIterations,
+    // Newton steps on the beds' square root (0 when every bed is clean)
+    bed_iterations: district.bedIterations,
     dry_cells: district.dryCells,
     water_balance: {
       recharge_m3_d: roundNumber(balance.rechargeM3PerDay),
