@@ -3,7 +3,7 @@
 // strips that the programme's first reaches change most.
 import { m3PerDayToM3PerYear } from '../shared/units.js';
 import type { LiningOutcome } from '../screening/lining.js';
-import { profileOfFacing, keyFacing } from '../screening/profile.js';
+import { profileOfFacing } from '../screening/profile.js';
 import { escapeHtml } from './escape.js';
 import { orientFromLineA, renderProfileSvg } from './profile-svg.js';
 import { formatGrouped } from '../output/format.js';
@@ -62,23 +62,35 @@ export function liningSection(outcome: LiningOutcome): string {
 function beforeAfter(outcome: LiningOutcome): string {
   const after = outcome.resultProgramme;
   if (!after) return '';
+  const { stations } = outcome.resultNow;
   const figures: string[] = [];
   for (const step of outcome.programme.slice(0, PROFILED_REACHES)) {
-    const affected = step.outcome.affectedStrips[0];
-    if (!affected) continue;
-    const stripNow = outcome.resultNow.strips.find((s) => s.stripId === affected.stripId);
-    const stripAfter = after.strips.find((s) => s.stripId === affected.stripId);
-    if (!stripNow || !stripAfter) continue;
-    // the same transect in both: the one with the highest water table now
-    const facing = keyFacing(outcome.resultNow, stripNow);
-    const now = profileOfFacing(outcome.resultNow, stripNow, facing);
+    const { line, fromM, toM } = step.outcome;
+    // the strip beside the lined line that the reach changes most: its own transects show the lining
+    const beside = step.outcome.affectedStrips
+      .map((affected) => outcome.resultNow.strips.find((s) => s.stripId === affected.stripId))
+      .find((s) => s !== undefined && (s.strip.lineA === line || s.strip.lineB === line));
+    if (!beside) continue;
+    const stripAfter = after.strips.find((s) => s.stripId === beside.stripId);
+    if (!stripAfter) continue;
+    // a transect cast from the lined line inside the lined range: the middle one
+    const own = beside.strip.lineA === line ? beside.facingsA : beside.facingsB;
+    const inside = [...own].filter((facing) => stations.chainageM[facing >> 1] >= fromM && stations.chainageM[facing >> 1] <= toM);
+    if (inside.length === 0) continue;
+    const facing = inside[Math.floor(inside.length / 2)];
+    const now = profileOfFacing(outcome.resultNow, beside, facing);
     const lined = profileOfFacing(after, stripAfter, facing);
     if (!now || !lined) continue;
+    const at = `${formatGrouped(stations.chainageM[facing >> 1], 0)} m along ${escapeHtml(step.outcome.reach.lineId)}`;
     figures.push(
-      `<figure class="profile-card"><figcaption>Reach ${escapeHtml(step.outcome.reach.id)} (${escapeHtml(step.outcome.reach.lineId)}): strip ${escapeHtml(affected.stripId)} now</figcaption>${renderProfileSvg(orientFromLineA(now, stripNow.lineAId))}</figure>` +
+      `<figure class="profile-card"><figcaption>Reach ${escapeHtml(step.outcome.reach.id)}: strip ${escapeHtml(beside.stripId)} at ${at}, now</figcaption>${renderProfileSvg(orientFromLineA(now, beside.lineAId))}</figure>` +
         `<figure class="profile-card"><figcaption>the same transect with the programme lined</figcaption>${renderProfileSvg(orientFromLineA(lined, stripAfter.lineAId))}</figure>`,
     );
   }
   if (figures.length === 0) return '';
-  return `<h3>Before and after</h3><p class="run-line">The strip each of the programme's first reaches changes most, on its key transect (the strips' own solution), now and with the whole programme lined.</p><div class="profile-grid">${figures.join('\n')}</div>`;
+  return (
+    `<h3>Before and after</h3><p class="run-line">For each of the programme's first reaches, the strip beside the lined line that it changes most, ` +
+    `on a transect cast from the lined reach (the strips' own solution, with the lining in the bed's place), now and with the whole programme lined.</p>` +
+    `<div class="profile-grid">${figures.join('\n')}</div>`
+  );
 }

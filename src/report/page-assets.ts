@@ -37,6 +37,8 @@ h3{font-size:13px;margin:12px 0 4px}
 .facts{border-collapse:collapse;margin:6px 0}
 .facts th,.facts td{border-bottom:1px solid var(--rule);padding:3px 10px 3px 0;text-align:left;vertical-align:top}
 .facts td.num{text-align:right;font-variant-numeric:tabular-nums}
+table.lining td,table.lining-programme td{white-space:nowrap}
+table.lining td.num,table.lining-programme td.num{text-align:right;font-variant-numeric:tabular-nums}
 .hash{font-family:ui-monospace,Menlo,Consolas,monospace;font-size:12px;word-break:break-all}
 .map-panel{display:grid;grid-template-columns:minmax(0,1fr) 300px;gap:16px;align-items:start}
 .map-panel svg.district-map{width:100%;height:auto;display:block;background:#fff}

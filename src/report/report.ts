@@ -55,7 +55,7 @@ export const ASSUMPTIONS: readonly string[] = [
   'Zones are taken in series across each transect, each with one hydraulic conductivity, recharge and ground level.',
   'All elevations (stages, base, ground) are in one vertical datum.',
   'Only paired, solved line sides are counted by the strips: a side with no partner, outside the aquifer or unsolved adds nothing to their figures, so the strip losses are a lower bound.',
-  'The district solve (when it ran) takes every line as a fixed head burned into the cells it crosses, with no bed resistance; its figures depend on the cell size (each line carries the change at twice the cell), and no water flows across the aquifer\'s outer edge.',
+  'The district solve (when it ran) burns every line into the cells it crosses: a clean line holds its stage there, a line with a bed resistance exchanges through its bed; its figures depend on the cell size (each line carries the change at twice the cell), and water crosses the aquifer\'s outer edge only where a zone gives an edge head.',
   'Where the water table reaches the ground, water that would seep out at the surface is not modelled: losses on such strips (ponded) are not reliable.',
 ];
 

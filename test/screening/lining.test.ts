@@ -5,6 +5,8 @@ import { describe, expect, it } from 'vitest';
 import { parseLiningPlan } from '../../src/input/lining-plan.js';
 import { planLining, programme, type LiningPlan, type ReachOutcome } from '../../src/screening/lining.js';
 import { DataError } from '../../src/shared/errors.js';
+import { liningSection } from '../../src/report/lining-section.js';
+import { profileOfFacing } from '../../src/screening/profile.js';
 import { box, checkedLocal, line } from './local-district.js';
 
 // A canal and a drain 400 m apart, 3 km long, in one zone that ends at their ends (no flow around them)
@@ -83,6 +85,26 @@ describe('lining a canal that faces a drain', () => {
     expect(half.lengthM).toBeCloseTo(LENGTH / 2, 6);
     expect(half.savedM3PerDay / whole.savedM3PerDay).toBeGreaterThan(0.45);
     expect(half.savedM3PerDay / whole.savedM3PerDay).toBeLessThan(0.55);
+  });
+});
+
+describe("the lining's report section", () => {
+  it('draws a transect of the lined reach before and after: the water table lower beside the lined canal', () => {
+    const { lines, zones, settings } = district(true);
+    const outcome = planLining(lines, zones, settings, plan(200));
+    const html = liningSection(outcome);
+    expect(html).toContain('<section id="lining">');
+    expect(html).toContain('Before and after');
+    const polylines = [...html.matchAll(/class="profile-water-table" points="([^"]*)"/g)].map((m) => m[1].split(' ').map((p) => p.split(',').map(Number)));
+    expect(polylines).toHaveLength(2);
+    expect(polylines[0]).not.toEqual(polylines[1]);
+    // what the two drawings show: on the drawn transect the canal's bank head drops once it is lined
+    const strip = outcome.resultNow.strips[0];
+    const stripLined = outcome.resultProgramme!.strips[0];
+    const facing = strip.lineAId === 'C' ? strip.facingsA[Math.floor(strip.facingsA.length / 2)] : strip.facingsB[Math.floor(strip.facingsB.length / 2)];
+    const before = profileOfFacing(outcome.resultNow, strip, facing)!, after = profileOfFacing(outcome.resultProgramme!, stripLined, facing)!;
+    expect(after.bankHeadAM).toBeLessThan(before.bankHeadAM - 0.1);
+    expect(after.seepageAM2PerDay).toBeLessThan(before.seepageAM2PerDay);
   });
 });
 
