@@ -2,14 +2,14 @@
 // with the bytes' SHA-256 for the run record. GeoJSON, GeoJSON text sequences, shapefiles and
 // zipped shapefiles; the source CRS from the .prj, a legacy `crs` member or --input-crs.
 import { createHash } from 'node:crypto';
-import { existsSync, readFileSync, statSync } from 'node:fs';
+import { closeSync, existsSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
 import { basename, dirname, extname, join } from 'node:path';
 import { unzipSync } from 'fflate';
 import * as shapefile from 'shapefile';
 import { DataError } from '../shared/errors.js';
 import { DEFAULT_SETTINGS } from '../shared/settings.js';
-import { parseGeoJsonText } from './read-geojson.js';
-import { decodeText } from './read-text.js';
+import { geoJsonReader, looksLikeSequence, type FeatureSink, type GeoJsonReader } from './read-geojson.js';
+import { refuseUtf16, Utf8Pieces } from './read-text.js';
 import { resolveSourceCrs, type SourceCrs } from './source-crs.js';
 
 export type InputFormat = 'geojson' | 'geojson-seq' | 'shapefile' | 'zipped-shapefile';
@@ -43,7 +43,8 @@ export function filesOfInput(path: string): string[] {
   return [path, ...['.shx', '.dbf', '.prj', '.cpg', '.qix', '.sbn', '.sbx'].map((extension) => sidecar(path, extension)).filter((file): file is string => file !== null)];
 }
 
-function readBytes(path: string, what = 'file', maxInputMB = DEFAULT_SETTINGS.maxInputMB): Buffer {
+/** The size of an input, checked before a byte of it is read: a regular file within the budget. */
+function statInput(path: string, what: string, maxInputMB: number): number {
   let size: number;
   try {
     const stats = statSync(path);
@@ -52,21 +53,97 @@ function readBytes(path: string, what = 'file', maxInputMB = DEFAULT_SETTINGS.ma
     if (!stats.isFile()) throw new DataError({ file: path }, 'not a regular file (a device, pipe or socket); give a file');
     size = stats.size;
   } catch (error) {
-    if (error instanceof DataError) throw error;
-    const code = (error as NodeJS.ErrnoException).code;
-    const why = code === 'ENOENT' ? `${what} not found` : code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (${code ?? String(error)})`;
-    throw new DataError({ file: path }, why);
+    throw unreadable(path, what, error);
   }
   if (size > maxInputMB * MB) {
     throw new DataError({ file: path }, `is ${(size / MB).toFixed(0)} MB, more than the ${maxInputMB} MB an input may be (setting maxInputMB, --max-input-mb)`);
   }
+  return size;
+}
+
+function unreadable(path: string, what: string, error: unknown): DataError {
+  if (error instanceof DataError) return error;
+  const code = (error as NodeJS.ErrnoException).code;
+  const why = code === 'ENOENT' ? `${what} not found` : code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (${code ?? String(error)})`;
+  return new DataError({ file: path }, why);
+}
+
+function readBytes(path: string, what = 'file', maxInputMB = DEFAULT_SETTINGS.maxInputMB): Buffer {
+  statInput(path, what, maxInputMB);
   try {
     return readFileSync(path);
   } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    const why = code === 'ENOENT' ? `${what} not found` : code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (${code ?? String(error)})`;
-    throw new DataError({ file: path }, why);
+    throw unreadable(path, what, error);
   }
+}
+
+// pieces a file is read in: large enough that a piece costs little, small enough to hold many of
+const PIECE_BYTES = 4 * MB;
+
+/** Calls `use` with each piece of a file, in order, synchronously; nothing else is held. */
+function eachPiece(path: string, use: (piece: Buffer) => void): void {
+  let fd: number;
+  try {
+    fd = openSync(path, 'r');
+  } catch (error) {
+    throw unreadable(path, 'file', error);
+  }
+  try {
+    for (;;) {
+      // a fresh buffer each time: a piece may be kept by whoever it is handed to
+      const piece = Buffer.allocUnsafe(PIECE_BYTES);
+      let got: number;
+      try {
+        got = readSync(fd, piece, 0, PIECE_BYTES, null);
+      } catch (error) {
+        throw unreadable(path, 'file', error);
+      }
+      if (got === 0) return;
+      use(got === PIECE_BYTES ? piece : piece.subarray(0, got));
+    }
+  } finally {
+    closeSync(fd);
+  }
+}
+
+export interface StreamedGeoJson {
+  format: 'geojson' | 'geojson-seq';
+  sha256: string;
+  bytes: number;
+  /** The CRS named by a legacy `crs` member, or null. */
+  declaredCrs: string | null;
+  featureCount: number;
+}
+
+/**
+ * Reads a GeoJSON FeatureCollection or text sequence piece by piece, handing each feature to
+ * `onFeature` as soon as it is whole: the file is never one string, so its size is bounded only by
+ * `maxInputMB` (checked before reading). Refuses what parseGeoJsonText refuses, with the same words.
+ */
+export function streamGeoJsonFile(path: string, onFeature: FeatureSink, options: Pick<ReadOptions, 'maxInputMB'> = {}): StreamedGeoJson {
+  const bytes = statInput(path, 'file', options.maxInputMB ?? DEFAULT_SETTINGS.maxInputMB);
+  if (bytes === 0) throw new DataError({ file: path }, 'the file is empty (0 bytes)');
+  const hash = createHash('sha256');
+  const utf8 = new Utf8Pieces();
+  let reader: GeoJsonReader | null = null;
+  let read = 0;
+  eachPiece(path, (piece) => {
+    hash.update(piece);
+    read += piece.length;
+    if (!reader) {
+      // the first piece holds the first 512 bytes (or the whole file): enough to tell UTF-16 and a sequence
+      const start = refuseUtf16(path, piece);
+      piece = piece.subarray(start);
+      reader = geoJsonReader(path, looksLikeSequence(path, piece.subarray(0, 4096)), onFeature);
+    }
+    reader.write(utf8.mend(piece));
+  });
+  // a file that grew or shrank while being read is not the file that was checked
+  if (read !== bytes) throw new DataError({ file: path }, `changed while being read (${bytes} bytes, then ${read})`);
+  const rest = utf8.finish();
+  if (rest) reader!.write(rest);
+  const parsed = (reader as GeoJsonReader | null)!.end();
+  return { format: parsed.sequence ? 'geojson-seq' : 'geojson', sha256: hash.digest('hex'), bytes, declaredCrs: parsed.declaredCrs, featureCount: parsed.featureCount };
 }
 
 export async function readFeatureFile(path: string, options: ReadOptions = {}): Promise<InputFile> {
@@ -78,17 +155,9 @@ export async function readFeatureFile(path: string, options: ReadOptions = {}): 
     const features = await parseShapefile(raw.label, raw.shp, raw.dbf, raw.encoding);
     file = { path, format: raw.format, sha256: raw.sha256, bytes: raw.bytes, features, declaredCrs: raw.prj };
   } else {
-    const buffer = readBytes(path, 'file', options.maxInputMB);
-    if (buffer.length === 0) throw new DataError({ file: path }, 'the file is empty (0 bytes)');
-    const parsed = parseGeoJsonText(path, decodeText(path, buffer));
-    file = {
-      path,
-      format: parsed.sequence ? 'geojson-seq' : 'geojson',
-      sha256: createHash('sha256').update(buffer).digest('hex'),
-      bytes: buffer.length,
-      features: parsed.features,
-      declaredCrs: parsed.declaredCrs,
-    };
+    const features: unknown[] = [];
+    const streamed = streamGeoJsonFile(path, (feature) => void features.push(feature), options);
+    file = { path, format: streamed.format, sha256: streamed.sha256, bytes: streamed.bytes, features, declaredCrs: streamed.declaredCrs };
   }
   const spec = options.inputCrs ?? file.declaredCrs;
   const warnings: string[] = [];
@@ -119,7 +188,10 @@ export function hashInput(path: string, options: ReadOptions = {}): string {
   const extension = extname(path).toLowerCase();
   if (extension === '.shp') return readShapefileFromDisk(path, options).sha256;
   if (extension === '.zip') return readZippedShapefile(path, options).sha256;
-  return createHash('sha256').update(readBytes(path, 'file', options.maxInputMB)).digest('hex');
+  statInput(path, 'file', options.maxInputMB ?? DEFAULT_SETTINGS.maxInputMB);
+  const hash = createHash('sha256');
+  eachPiece(path, (piece) => void hash.update(piece));
+  return hash.digest('hex');
 }
 
 interface RawShapefile {

@@ -1,3 +1,4 @@
+import { isUtf8 } from 'node:buffer';
 import { readFileSync, statSync } from 'node:fs';
 import { visit } from 'jsonc-parser';
 import { DataError } from '../shared/errors.js';
@@ -8,17 +9,59 @@ import { DataError } from '../shared/errors.js';
  * rather than read as noise.
  */
 export function decodeText(path: string, bytes: Uint8Array): string {
-  const utf16 = (bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff);
+  const start = refuseUtf16(path, bytes);
+  return Buffer.from(bytes.buffer, bytes.byteOffset + start, bytes.length - start).toString('utf8');
+}
+
+/**
+ * Refuses UTF-16 from a file's first bytes (512 are enough) and gives how many bytes lead the
+ * text: 3 for a UTF-8 byte-order mark, else 0.
+ */
+export function refuseUtf16(path: string, head: Uint8Array): number {
+  const utf16 = (head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff);
   // without a byte-order mark, UTF-16 text of ASCII characters has a zero byte in every pair
   let zeros = 0;
-  const probe = Math.min(bytes.length, 512);
-  for (let i = 0; i < probe; i++) if (bytes[i] === 0) zeros++;
+  const probe = Math.min(head.length, 512);
+  for (let i = 0; i < probe; i++) if (head[i] === 0) zeros++;
   if (utf16 || (probe >= 16 && zeros >= probe / 4)) {
-    const order = bytes[0] === 0xfe ? 'big-endian' : 'little-endian';
+    const order = head[0] === 0xfe ? 'big-endian' : 'little-endian';
     throw new DataError({ file: path }, `is UTF-16 encoded (${utf16 ? `${order}, with a byte-order mark` : 'no byte-order mark'}), not UTF-8: save it as UTF-8`);
   }
-  const start = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf ? 3 : 0;
-  return Buffer.from(bytes.buffer, bytes.byteOffset + start, bytes.length - start).toString('utf8');
+  return head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf ? 3 : 0;
+}
+
+/**
+ * Pieces of a file as valid UTF-8 for a strict decoder: an invalid sequence becomes U+FFFD, as
+ * Buffer#toString makes it for a whole file, and a character cut between two pieces waits for the next.
+ */
+export class Utf8Pieces {
+  private carry: Buffer | null = null;
+
+  mend(piece: Buffer): Buffer {
+    const bytes = this.carry ? Buffer.concat([this.carry, piece]) : piece;
+    const cut = completeLength(bytes);
+    this.carry = cut < bytes.length ? Buffer.from(bytes.subarray(cut)) : null;
+    const whole = bytes.subarray(0, cut);
+    return isUtf8(whole) ? whole : Buffer.from(whole.toString('utf8'), 'utf8');
+  }
+
+  /** What is left at the end of the file: a cut character, as U+FFFD. */
+  finish(): Buffer | null {
+    const rest = this.carry;
+    this.carry = null;
+    return rest ? Buffer.from(rest.toString('utf8'), 'utf8') : null;
+  }
+}
+
+// bytes up to the last whole character: a lead byte within the last three whose sequence runs past the end is cut
+function completeLength(bytes: Uint8Array): number {
+  for (let i = bytes.length - 1; i >= Math.max(0, bytes.length - 4); i--) {
+    const byte = bytes[i];
+    if ((byte & 0xc0) === 0x80) continue;
+    const length = byte >= 0xf0 ? 4 : byte >= 0xe0 ? 3 : byte >= 0xc0 ? 2 : 1;
+    return bytes.length - i < length ? i : bytes.length;
+  }
+  return bytes.length;
 }
 
 // a config or a run record is a few kilobytes; anything much larger is not one
