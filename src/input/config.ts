@@ -68,6 +68,7 @@ const SCHEMA: Section = {
   fields: {
     lines: { id: text, kind: text, name: text, stage: text, stageStart: text, stageEnd: text, bedResistance: text, wettedPerimeter: text, bottomWidth: text, waterDepth: text },
     zones: { id: text, k: text, base: text, ground: text, recharge: text, edgeHead: text },
+    wells: { id: text, observed: text, date: text },
   },
   units: { k: oneOf(CONDUCTIVITY_UNITS), recharge: oneOf(RECHARGE_UNITS), elevation: oneOf(LENGTH_UNITS) },
   defaults: { kind: oneOf(['canal', 'drain']), recharge: finite, bedResistanceD: nonNegativeNumber, wettedPerimeterM: positiveOrNull, bankSlope: nonNegativeNumber },
@@ -135,6 +136,7 @@ export function configFromValue(file: string, value: unknown, keyPrefix = ''): R
         const sections = child as Map<string, Map<string, unknown>>;
         assign(config.rules.fields.lines as unknown as Record<string, unknown>, sections.get('lines'));
         assign(config.rules.fields.zones as unknown as Record<string, unknown>, sections.get('zones'));
+        assign(config.rules.fields.wells as unknown as Record<string, unknown>, sections.get('wells'));
       } else if (RULE_SECTIONS.has(key)) assign((config.rules as unknown as Record<string, Record<string, unknown>>)[key], child as Map<string, unknown>);
       else if (child instanceof Map) for (const [inner, innerValue] of child) setSetting(config.settings, `${key}.${inner}` as SettingKey, innerValue);
       else setSetting(config.settings, key as SettingKey, child);

@@ -29,8 +29,16 @@ export interface ZoneFields {
   edgeHead: string;
 }
 
+export interface WellFields {
+  id: string;
+  /** The observed water-table elevation (length unit of elevations). */
+  observed: string;
+  /** Optional: the reading's date, kept as given. */
+  date: string;
+}
+
 export interface InputRules {
-  fields: { lines: LineFields; zones: ZoneFields };
+  fields: { lines: LineFields; zones: ZoneFields; wells: WellFields };
   units: { k: ConductivityUnit; recharge: RechargeUnit; elevation: LengthUnit };
   defaults: {
     /** Kind of a line without one. */
@@ -55,6 +63,7 @@ export const DEFAULT_RULES: InputRules = {
       bedResistance: 'bed_resistance_d', wettedPerimeter: 'wetted_perimeter_m', bottomWidth: 'bottom_width_m', waterDepth: 'water_depth_m',
     },
     zones: { id: 'id', k: 'k_m_d', base: 'base_m', ground: 'ground_m', recharge: 'recharge_mm_yr', edgeHead: 'edge_head_m' },
+    wells: { id: 'id', observed: 'water_table_m', date: 'date' },
   },
   units: { k: 'm/d', recharge: 'mm/yr', elevation: 'm' },
   // a side slope of 1.5 horizontal to 1 vertical is usual for earth canals in sandy soils (common practice, from memory)
@@ -64,7 +73,7 @@ export const DEFAULT_RULES: InputRules = {
 
 export function cloneRules(rules: InputRules): InputRules {
   return {
-    fields: { lines: { ...rules.fields.lines }, zones: { ...rules.fields.zones } },
+    fields: { lines: { ...rules.fields.lines }, zones: { ...rules.fields.zones }, wells: { ...rules.fields.wells } },
     units: { ...rules.units },
     defaults: { ...rules.defaults },
     kindWords: { canal: [...rules.kindWords.canal], drain: [...rules.kindWords.drain] },
