@@ -29,6 +29,11 @@ import type { StripSummary } from './screening/aggregate.js';
 import { DataError, errorsOf, formatProblem, InputProblems, type Problem } from './shared/errors.js';
 import { VERSION } from './shared/version.js';
 import { readLiningPlan } from './input/lining-plan.js';
+import { loadWells, type LoadedWells } from './input/load-wells.js';
+import { wellsLayer, wellsTable, type WellsOutcome } from './output/wells-tables.js';
+import { compareWells } from './screening/wells.js';
+import { fitConductivity, scaleZones } from './screening/k-fit.js';
+import type { InputFile } from './input/read-features.js';
 import { liningLayer, liningTable, programmeTable } from './output/lining-tables.js';
 import { planLining, type LiningOutcome } from './screening/lining.js';
 import { createHash } from 'node:crypto';
@@ -112,6 +117,8 @@ export interface WriteRunOptions {
   format?: LayerFormat;
   /** When the run started (ISO 8601), for the record and the report; default now, null to leave it out. */
   startedAt?: string | null;
+  /** The checks against wells (--wells), and the wells file for the record. */
+  wells?: { outcome: WellsOutcome; file: InputFile };
 }
 
 /** The files of a run, in the order they are written: layers, table, report, run record. */
@@ -130,6 +137,9 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
   ];
   if (result.settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
   if (result.district) for (const raster of districtRasters(result.district, result.crs)) files.push({ name: raster.name, content: [raster.content] });
+  if (options.wells) {
+    files.push({ name: `wells.${extension}`, content: wellsLayer(options.wells.outcome, format) }, { name: 'wells.csv', content: wellsTable(options.wells.outcome) });
+  }
   files.push({
     name: 'report.html',
     content: renderReport(result, {
@@ -142,6 +152,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       ],
       inputWarnings: district.problems.map(formatProblem),
       rules: config.rules,
+      wells: options.wells?.outcome,
     }),
   });
   const outputs = [...files.map((file) => file.name), 'run.json'];
@@ -157,6 +168,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       rules: config.rules,
       outputs,
       problems: district.problems,
+      wells: options.wells && { outcome: options.wells.outcome, sha256: options.wells.file.sha256 },
     }),
   });
   return files;
@@ -167,7 +179,7 @@ export async function writeRun(outDir: string, result: ScreenResult, options: Wr
   const { district } = options;
   const files = runFiles(result, options);
   // the names this run writes, no more: a file of the user's under a name it does not write stays where it is
-  checkOutputFolder(outDir, [district.canals?.path, district.aquifer?.path, options.configFile].flatMap((path) => (path ? filesOfInput(path) : [])), new Set(files.map((file) => file.name)));
+  checkOutputFolder(outDir, [district.canals?.path, district.aquifer?.path, options.configFile, options.wells?.file.path].flatMap((path) => (path ? filesOfInput(path) : [])), new Set(files.map((file) => file.name)));
   return writeRunFolder(outDir, files);
 }
 
@@ -248,6 +260,18 @@ async function loadRun(runDir: string, command: string): Promise<RecordedRun> {
   }
   const district = await loadDistrict(canals.path, aquifer.path, config);
   const skipped = Array.isArray(record.skipped_features) ? record.skipped_features.length : 0;
+  // a run screened with K fitted to wells (--apply-k-fit) is screened again with the same multipliers
+  const fit = isObject(record.wells) && isObject(record.wells.k_fit) ? record.wells.k_fit : null;
+  if (fit && fit.applied === true && Array.isArray(fit.zones)) {
+    const byZone = new Map<string, number>();
+    for (const zone of fit.zones) {
+      if (!isObject(zone) || typeof zone.zone_id !== 'string' || typeof zone.multiplier !== 'number' || !(zone.multiplier > 0)) {
+        throw new DataError({ file: recordPath, field: 'wells.k_fit.zones' }, 'a zone without a zone_id and a positive multiplier');
+      }
+      byZone.set(zone.zone_id, zone.multiplier);
+    }
+    district.zones = scaleZones(district.zones, district.zones.map((zone) => byZone.get(zone.id) ?? 1));
+  }
   return { recordPath, record, config, district, skipped };
 }
 
@@ -388,4 +412,31 @@ export function liningText({ outcome }: LiningRun): string {
   } else lines.push('Programme empty: no reach saves water or none fits the budget');
   lines.push('', `CAUTION: ${CAUTION}`);
   return `${lines.join('\n')}\n`;
+}
+
+export { loadWells, type LoadedWells } from './input/load-wells.js';
+export type { WellsOutcome } from './output/wells-tables.js';
+
+/**
+ * The checks against wells: a conductivity multiplier per zone fitted to them, and, when asked
+ * (applyFit), the district screened again with it; then each well against the run's water table.
+ * Returns the result to write (the fitted one when applied) with the wells' outcome.
+ */
+export function checkAgainstWells(
+  district: LoadedDistrict,
+  config: RunConfig,
+  result: ScreenResult,
+  wells: LoadedWells,
+  options: { applyFit?: boolean; onProgress?: ProgressListener } = {},
+): { result: ScreenResult; outcome: WellsOutcome } {
+  const path = wells.file?.path ?? 'wells';
+  const fit = fitConductivity(district.lines, district.zones, config.settings, wells.wells, path);
+  let checked = result;
+  if (options.applyFit) {
+    checked = screenDistrict(district.lines, scaleZones(district.zones, fit.zones.map((zone) => zone.multiplier)), config.settings, options.onProgress);
+    checked.warnings.push(
+      `the zones' hydraulic conductivity carries the multipliers fitted to the wells (--apply-k-fit): ${fit.zones.filter((zone) => zone.wells > 0).map((zone) => `${zone.zoneId} x${zone.multiplier.toFixed(3)}`).join(', ') || 'none fitted'}`,
+    );
+  }
+  return { result: checked, outcome: { comparison: compareWells(checked, wells.wells, path), fit, applied: Boolean(options.applyFit) } };
 }

@@ -57,6 +57,8 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .option('--seq', 'write the layers as GeoJSON text sequences (RFC 8142, .geojsons) instead of FeatureCollections')
     .option('--skip-invalid', 'leave out invalid features instead of stopping; run.json lists them')
     .option('--quiet', 'print only errors and the caution line')
+    .option('--wells <file>', 'piezometers (points with an observed water-table elevation): compare, and suggest a K multiplier per zone')
+    .option('--apply-k-fit', 'screen with the K multipliers fitted to --wells (recorded in run.json and the report)')
     .action(async (options: ScreenOptions) => {
       const progress = progressReporter({ quiet: Boolean(options.quiet), stream: process.stderr });
       try {

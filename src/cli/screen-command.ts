@@ -16,6 +16,9 @@ import {
   summaryText,
   writeRun,
   type ProgressListener,
+  checkAgainstWells,
+  loadWells,
+  UsageError,
   type RunConfig,
 } from '../index.js';
 import type { CliIo } from './io.js';
@@ -29,6 +32,8 @@ export interface ScreenOptions {
   skipInvalid?: boolean;
   quiet?: boolean;
   debug?: boolean;
+  wells?: string;
+  applyKFit?: boolean;
   /** The settings' flags (--step and the rest), by commander's attribute names. */
   [flag: string]: unknown;
 }
@@ -45,16 +50,26 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
   const config = runConfig(options);
   // before any work: never an output over an input, nor over a file doab did not write
-  checkOutputFolder(options.out, [options.canals, options.aquifer, options.config].flatMap((path) => (path ? filesOfInput(path) : [])), runOutputNames(config.settings, options.seq ? 'sequence' : 'collection'));
+  if (options.applyKFit && !options.wells) throw new UsageError('--apply-k-fit needs --wells: the multipliers are fitted to the wells', 'wells');
+  checkOutputFolder(
+    options.out,
+    [options.canals, options.aquifer, options.config, options.wells].flatMap((path) => (path ? filesOfInput(path) : [])),
+    runOutputNames(config.settings, options.seq ? 'sequence' : 'collection', Boolean(options.wells)),
+  );
   const district = await loadDistrict(options.canals, options.aquifer, config);
+  const wells = options.wells ? await loadWells(options.wells, config) : null;
+  // a bad well stops the run as a bad line does (--skip-invalid leaves bad wells out too)
+  if (wells) district.problems.push(...wells.problems);
   const errors = errorsOf(district.problems);
-  const stopping = stoppingProblems(district, options);
+  const stopping = stoppingProblems(district, options) ?? (wells && !wells.file ? errorsOf(wells.problems) : null);
   if (stopping) throw new InputProblems(stopping);
   const warnings = district.problems.filter((problem) => problem.severity === 'warning');
   if (warnings.length > 0) log(problemLines(warnings, PROBLEMS_SHOWN).trimEnd());
   if (errors.length > 0) log(`skipping ${errors.length} invalid feature${errors.length === 1 ? '' : 's'} (--skip-invalid):\n${problemLines(errors, PROBLEMS_SHOWN).trimEnd()}`);
   log(`read ${district.lines.length} lines from ${options.canals} and ${district.zones.length} zones from ${options.aquifer}`);
-  const result = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress });
+  const screened = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress });
+  const checked = wells ? checkAgainstWells(district, config, screened, wells, { applyFit: options.applyKFit, onProgress }) : null;
+  const result = checked ? checked.result : screened;
   for (const warning of result.warnings) log(`warning: ${warning}`);
   log(`solved ${result.counts.solvedFacings} of ${result.counts.facingsByReason.paired} paired transect sides; ${result.counts.strips} strips`);
   const { written, removed } = await writeRun(options.out, result, {
@@ -64,9 +79,10 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     commandLine: ['doab', ...argv],
     startedAt,
     format: options.seq ? 'sequence' : 'collection',
+    wells: checked && wells?.file ? { outcome: checked.outcome, file: wells.file } : undefined,
   });
   log(`wrote ${written.join(', ')} to ${options.out}${removed.length > 0 ? `; removed ${removed.join(', ')} left by the previous run` : ''}`);
-  if (!options.quiet) io.out(summaryText(result, 10, errors.length));
+  if (!options.quiet) io.out(summaryText(result, 10, errors.length, checked?.outcome));
   else io.err(`${CAUTION}\n`);
   return 0;
 }

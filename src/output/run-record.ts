@@ -1,5 +1,6 @@
 // The run record (run.json): what was run, on which inputs, with which settings, and what it found.
 import { bedsText, bedsUsed } from '../screening/beds.js';
+import { wellsRecord, type WellsOutcome } from './wells-tables.js';
 import type { FigureMethod, ScreenResult } from '../screening/screen.js';
 import { formatFixed, roundNumber } from './format.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
@@ -113,6 +114,8 @@ export interface RunMeta {
   outputs: string[];
   /** Every problem the checks found: warnings, and the errors of features skipped with --skip-invalid. */
   problems: Problem[];
+  /** The checks against wells, when a wells file was given. */
+  wells?: { outcome: WellsOutcome; sha256: string | null };
 }
 
 function describeInput(file: InputFacts) {
@@ -212,6 +215,7 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
     },
     district_solve: districtRecord(result),
     line_beds: lineBedsRecord(result),
+    wells: meta.wells ? wellsRecord(meta.wells.outcome, meta.wells.sha256) : null,
     outputs: meta.outputs,
     warnings: [...meta.problems.filter((p) => p.severity === 'warning').map(formatProblem), ...result.warnings],
     skipped_features: meta.problems.filter((p) => p.severity === 'error').map((p) => ({

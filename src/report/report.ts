@@ -2,6 +2,8 @@
 // top strips, the ranked table, the run). Pure: same result and meta in, same bytes out. Inline
 // CSS, inline SVG and one small inline script; a Content-Security-Policy forbids every fetch.
 import { liningSection } from './lining-section.js';
+import { wellsSection } from './wells-section.js';
+import type { WellsOutcome } from '../output/wells-tables.js';
 import type { LiningOutcome } from '../screening/lining.js';
 import { bedsText, bedsUsed } from '../screening/beds.js';
 import { FACING_REASON_NAMES } from '../geometry/index.js';
@@ -44,6 +46,8 @@ export interface ReportMeta {
   rules?: InputRules;
   /** A lining plan's outcome (doab lining): its section follows the summary. */
   lining?: LiningOutcome;
+  /** The checks against wells: their section follows the map. */
+  wells?: WellsOutcome;
 }
 
 /** The assumptions behind every number in the report, as the README states them. */
@@ -339,7 +343,7 @@ export function renderReport(result: ScreenResult, meta: ReportMeta): string {
     `<title>doab screening report: ${result.counts.strips} strips</title><style>${PAGE_CSS}${capRule}\n</style></head>\n<body><main>` +
     `<header><h1>${result.settings.title ? `${escapeHtml(result.settings.title)}: ` : ''}doab screening report</h1><p class="run-line">${meta.startedAt ? `run ${escapeHtml(meta.startedAt.replace('T', ' ').replace(/\.\d+Z$/, ' UTC'))}; ` : ''}${result.counts.lines} lines, ${result.counts.strips} strips, ` +
     `work CRS ${escapeHtml(result.crs.name)}; doab ${escapeHtml(meta.version)}</p></header>\n` +
-    `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${meta.lining ? `${liningSection(meta.lining)}\n` : ''}${mapSection(result)}\n${profilesSection(result, top)}\n` +
+    `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${meta.lining ? `${liningSection(meta.lining)}\n` : ''}${mapSection(result)}\n${meta.wells ? `${wellsSection(result, meta.wells)}\n` : ''}${profilesSection(result, top)}\n` +
     `${linesSection(result)}\n${rankingSection(result, rowsShown)}\n${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`
   );
 }
