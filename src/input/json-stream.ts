@@ -167,7 +167,10 @@ export class JsonStream {
     const frame = this.stack[this.stack.length - 1];
     if (!frame || frame.isArray !== isArray || (this.expect !== Expect.CommaOrEnd && this.expect !== (isArray ? Expect.ValueOrEnd : Expect.KeyOrEnd))) this.unexpected(isArray ? '"]"' : '"}"');
     this.stack.pop();
-    this.value(frame.streamed ? [] : frame.container, true);
+    // a list grown member by member keeps spare room (17 places for a position's 2); a copy is exact,
+    // and keeps a list of numbers unboxed as JSON.parse does
+    const value = frame.streamed ? [] : isArray && frame.container !== null ? (frame.container as unknown[]).slice() : frame.container;
+    this.value(value, true);
   }
 
   private value(value: unknown, closing = false): void {
@@ -182,7 +185,7 @@ export class JsonStream {
     const frame = this.stack[depth - 1];
     if (frame.streamed) this.options.onMember!(value, this.streamedCount++);
     else if (frame.container === null) frame.index++;
-    else if (frame.isArray) (frame.container as unknown[])[frame.index++] = value;
+    else if (frame.isArray) (frame.container as unknown[]).push(value), frame.index++;
     else if (frame.key === '__proto__') Object.defineProperty(frame.container, '__proto__', { value, writable: true, enumerable: true, configurable: true });
     else (frame.container as Record<string, unknown>)[frame.key] = value;
     this.expect = Expect.CommaOrEnd;
