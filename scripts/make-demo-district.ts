@@ -251,6 +251,9 @@ function zoneFeature(zone: ZoneSpec): object {
     // beyond the district's edge the regional water table stands about 4 m below ground (invented):
     // the district solve holds that head where the zone meets the aquifer's outer edge
     edge_head_m: Math.round((zone.groundM - 4) * 10) / 10,
+    // K is known to a factor of two either way (invented): the P10 and P90 of a log-normal about k_m_d
+    k_low_m_d: zone.kMPerDay / 2,
+    k_high_m_d: zone.kMPerDay * 2,
   };
   return { type: 'Feature', properties, geometry };
 }

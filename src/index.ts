@@ -30,6 +30,8 @@ import { DataError, errorsOf, formatProblem, InputProblems, type Problem } from 
 import { VERSION } from './shared/version.js';
 import { readLiningPlan } from './input/lining-plan.js';
 import { loadWells, type LoadedWells } from './input/load-wells.js';
+import { spreadLinesTable, spreadStripsTable } from './output/spread-tables.js';
+import { readZoneSpreads, spreadFromK, type SpreadResult } from './screening/spread.js';
 import { wellsLayer, wellsTable, type WellsOutcome } from './output/wells-tables.js';
 import { compareWells } from './screening/wells.js';
 import { fitConductivity, scaleZones } from './screening/k-fit.js';
@@ -119,6 +121,8 @@ export interface WriteRunOptions {
   startedAt?: string | null;
   /** The checks against wells (--wells), and the wells file for the record. */
   wells?: { outcome: WellsOutcome; file: InputFile };
+  /** The spread from uncertain K (--samples). */
+  spread?: SpreadResult;
 }
 
 /** The files of a run, in the order they are written: layers, table, report, run record. */
@@ -137,6 +141,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
   ];
   if (result.settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
   if (result.district) for (const raster of districtRasters(result.district, result.crs)) files.push({ name: raster.name, content: [raster.content] });
+  if (options.spread) files.push({ name: 'spread-strips.csv', content: spreadStripsTable(options.spread) }, { name: 'spread-lines.csv', content: spreadLinesTable(options.spread) });
   if (options.wells) {
     files.push({ name: `wells.${extension}`, content: wellsLayer(options.wells.outcome, format) }, { name: 'wells.csv', content: wellsTable(options.wells.outcome) });
   }
@@ -153,6 +158,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       inputWarnings: district.problems.map(formatProblem),
       rules: config.rules,
       wells: options.wells?.outcome,
+      spread: options.spread,
     }),
   });
   const outputs = [...files.map((file) => file.name), 'run.json'];
@@ -169,6 +175,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       outputs,
       problems: district.problems,
       wells: options.wells && { outcome: options.wells.outcome, sha256: options.wells.file.sha256 },
+      spread: options.spread,
     }),
   });
   return files;
@@ -439,4 +446,20 @@ export function checkAgainstWells(
     );
   }
   return { result: checked, outcome: { comparison: compareWells(checked, wells.wells, path), fit, applied: Boolean(options.applyFit) } };
+}
+
+export { readZoneSpreads, spreadFromK, type SpreadResult } from './screening/spread.js';
+
+/** The spread from uncertain K on a screened district: each zone's range read from its attributes (problems stop it), then the draws. */
+export function spreadOfRun(district: LoadedDistrict, config: RunConfig, result: ScreenResult, options: { samples: number; seed: number; correlated: boolean }): SpreadResult {
+  if (!district.aquifer) throw new Error('Unexpected district without its aquifer file.');
+  const { spreads, problems } = readZoneSpreads(district.aquifer.path, district.aquifer.features, result.zones, config.rules);
+  if (problems.length > 0) throw new InputProblems(problems);
+  const spread = spreadFromK(result, spreads, { ...options, top: 20 });
+  if (spread.zones.length === 0) {
+    result.warnings.push(
+      `no zone gives a K range ("${config.rules.fields.zones.kLow}" and "${config.rules.fields.zones.kHigh}", or "${config.rules.fields.zones.kLogSd}"): every one of the ${options.samples} draws is the deterministic run`,
+    );
+  }
+  return spread;
 }

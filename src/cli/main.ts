@@ -59,6 +59,9 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .option('--quiet', 'print only errors and the caution line')
     .option('--wells <file>', 'piezometers (points with an observed water-table elevation): compare, and suggest a K multiplier per zone')
     .option('--apply-k-fit', 'screen with the K multipliers fitted to --wells (recorded in run.json and the report)')
+    .option('--samples <n>', 'draws of each zone\'s K from its range (k_low_m_d/k_high_m_d or k_log_sd) for the spread of losses and risk')
+    .option('--seed <s>', 'seed of the draws (default 1): one seed, one answer')
+    .option('--correlated-k', 'draw all zones\' K together (fully correlated) instead of independently')
     .action(async (options: ScreenOptions) => {
       const progress = progressReporter({ quiet: Boolean(options.quiet), stream: process.stderr });
       try {

@@ -17,6 +17,7 @@ import {
   writeRun,
   type ProgressListener,
   checkAgainstWells,
+  spreadOfRun,
   loadWells,
   UsageError,
   type RunConfig,
@@ -34,6 +35,9 @@ export interface ScreenOptions {
   debug?: boolean;
   wells?: string;
   applyKFit?: boolean;
+  samples?: string;
+  seed?: string;
+  correlatedK?: boolean;
   /** The settings' flags (--step and the rest), by commander's attribute names. */
   [flag: string]: unknown;
 }
@@ -45,16 +49,26 @@ export function runConfig(options: { config?: string; [flag: string]: unknown })
   return config;
 }
 
+/** Draws at most (each solves every strip again). */
+const MAX_SAMPLES = 100_000;
+
 export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
   const startedAt = new Date().toISOString();
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
   const config = runConfig(options);
   // before any work: never an output over an input, nor over a file doab did not write
   if (options.applyKFit && !options.wells) throw new UsageError('--apply-k-fit needs --wells: the multipliers are fitted to the wells', 'wells');
+  const samples = options.samples === undefined ? null : Number(options.samples);
+  if (samples !== null && !(Number.isInteger(samples) && samples >= 1 && samples <= MAX_SAMPLES)) {
+    throw new UsageError(`--samples must be a whole number from 1 to ${MAX_SAMPLES}, found ${JSON.stringify(options.samples)}`, 'samples');
+  }
+  const seed = options.seed === undefined ? 1 : Number(options.seed);
+  if (!Number.isInteger(seed) || seed < 0 || seed > 2 ** 32 - 1) throw new UsageError(`--seed must be a whole number from 0 to ${2 ** 32 - 1}, found ${JSON.stringify(options.seed)}`, 'seed');
+  if ((options.seed !== undefined || options.correlatedK) && samples === null) throw new UsageError('--seed and --correlated-k need --samples', 'samples');
   checkOutputFolder(
     options.out,
     [options.canals, options.aquifer, options.config, options.wells].flatMap((path) => (path ? filesOfInput(path) : [])),
-    runOutputNames(config.settings, options.seq ? 'sequence' : 'collection', Boolean(options.wells)),
+    runOutputNames(config.settings, options.seq ? 'sequence' : 'collection', Boolean(options.wells), samples !== null),
   );
   const district = await loadDistrict(options.canals, options.aquifer, config);
   const wells = options.wells ? await loadWells(options.wells, config) : null;
@@ -70,6 +84,7 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   const screened = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress });
   const checked = wells ? checkAgainstWells(district, config, screened, wells, { applyFit: options.applyKFit, onProgress }) : null;
   const result = checked ? checked.result : screened;
+  const spread = samples === null ? undefined : spreadOfRun(district, config, result, { samples, seed, correlated: Boolean(options.correlatedK) });
   for (const warning of result.warnings) log(`warning: ${warning}`);
   log(`solved ${result.counts.solvedFacings} of ${result.counts.facingsByReason.paired} paired transect sides; ${result.counts.strips} strips`);
   const { written, removed } = await writeRun(options.out, result, {
@@ -80,9 +95,10 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     startedAt,
     format: options.seq ? 'sequence' : 'collection',
     wells: checked && wells?.file ? { outcome: checked.outcome, file: wells.file } : undefined,
+    spread,
   });
   log(`wrote ${written.join(', ')} to ${options.out}${removed.length > 0 ? `; removed ${removed.join(', ')} left by the previous run` : ''}`);
-  if (!options.quiet) io.out(summaryText(result, 10, errors.length, checked?.outcome));
+  if (!options.quiet) io.out(summaryText(result, 10, errors.length, checked?.outcome, spread));
   else io.err(`${CAUTION}\n`);
   return 0;
 }

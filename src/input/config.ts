@@ -67,7 +67,7 @@ const SCHEMA: Section = {
   ...settingsSection(),
   fields: {
     lines: { id: text, kind: text, name: text, stage: text, stageStart: text, stageEnd: text, bedResistance: text, wettedPerimeter: text, bottomWidth: text, waterDepth: text },
-    zones: { id: text, k: text, base: text, ground: text, recharge: text, edgeHead: text },
+    zones: { id: text, k: text, base: text, ground: text, recharge: text, edgeHead: text, kLow: text, kHigh: text, kLogSd: text },
     wells: { id: text, observed: text, date: text },
   },
   units: { k: oneOf(CONDUCTIVITY_UNITS), recharge: oneOf(RECHARGE_UNITS), elevation: oneOf(LENGTH_UNITS) },

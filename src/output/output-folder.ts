@@ -59,11 +59,11 @@ function kindOf(path: string): string | null {
 }
 
 /** The names a run with these settings writes: the layers in their format, the tables, the rasters when the district solve runs, the report and the record. */
-export function runOutputNames(settings: { writeTransects: boolean; stripsOnly: boolean }, format: LayerFormat, withWells = false): Set<string> {
+export function runOutputNames(settings: { writeTransects: boolean; stripsOnly: boolean }, format: LayerFormat, withWells = false, withSpread = false): Set<string> {
   const extension = format === 'sequence' ? 'geojsons' : 'geojson';
   const layers = ['strips', 'canals', ...(settings.writeTransects ? ['transects'] : []), ...(withWells ? ['wells'] : [])].map((layer) => `${layer}.${extension}`);
   const rasters = settings.stripsOnly ? [] : Object.values(RASTER_NAMES);
-  return new Set([...layers, 'ranking.csv', 'lines.csv', ...(withWells ? ['wells.csv'] : []), ...rasters, 'report.html', 'run.json']);
+  return new Set([...layers, 'ranking.csv', 'lines.csv', ...(withWells ? ['wells.csv'] : []), ...(withSpread ? ['spread-strips.csv', 'spread-lines.csv'] : []), ...rasters, 'report.html', 'run.json']);
 }
 
 /**

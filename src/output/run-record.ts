@@ -1,6 +1,8 @@
 // The run record (run.json): what was run, on which inputs, with which settings, and what it found.
 import { bedsText, bedsUsed } from '../screening/beds.js';
 import { wellsRecord, type WellsOutcome } from './wells-tables.js';
+import { spreadRecord } from './spread-tables.js';
+import type { SpreadResult } from '../screening/spread.js';
 import type { FigureMethod, ScreenResult } from '../screening/screen.js';
 import { formatFixed, roundNumber } from './format.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
@@ -116,6 +118,8 @@ export interface RunMeta {
   problems: Problem[];
   /** The checks against wells, when a wells file was given. */
   wells?: { outcome: WellsOutcome; sha256: string | null };
+  /** The spread from uncertain K, when drawn (--samples). */
+  spread?: SpreadResult;
 }
 
 function describeInput(file: InputFacts) {
@@ -216,6 +220,7 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
     district_solve: districtRecord(result),
     line_beds: lineBedsRecord(result),
     wells: meta.wells ? wellsRecord(meta.wells.outcome, meta.wells.sha256) : null,
+    k_spread: meta.spread ? spreadRecord(meta.spread) : null,
     outputs: meta.outputs,
     warnings: [...meta.problems.filter((p) => p.severity === 'warning').map(formatProblem), ...result.warnings],
     skipped_features: meta.problems.filter((p) => p.severity === 'error').map((p) => ({

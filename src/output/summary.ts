@@ -1,12 +1,14 @@
 // The end-of-run summary printed to stdout: district totals, the top strips and the caution.
 import { bedsText, bedsUsed } from '../screening/beds.js';
 import { wellsText, type WellsOutcome } from './wells-tables.js';
+import { spreadText } from './spread-tables.js';
+import type { SpreadResult } from '../screening/spread.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { formatFixed } from './format.js';
 import { rankedLines } from './layers.js';
 import { CAUTION, NET_SEEPAGE_NAME, netSeepageText, netSeepageTotals, type NetSeepage } from './run-record.js';
 
-export function summaryText(result: ScreenResult, top = 10, skipped = 0, wells?: WellsOutcome): string {
+export function summaryText(result: ScreenResult, top = 10, skipped = 0, wells?: WellsOutcome, spread?: SpreadResult): string {
   const { totals, counts } = result;
   const lines: string[] = [];
   lines.push(`doab screen: ${counts.lines} lines, ${counts.stations} stations, ${counts.strips} strips (work CRS ${result.crs.name})`);
@@ -56,6 +58,7 @@ export function summaryText(result: ScreenResult, top = 10, skipped = 0, wells?:
     );
   }
   if (wells) lines.push(...wellsText(wells).split('\n'));
+  if (spread) lines.push(...spreadText(spread).split('\n'));
   const byRisk = totals.stripsByRisk;
   lines.push(`Strips by risk: ponded ${byRisk.ponded}, waterlogged ${byRisk.waterlogged}, potential ${byRisk.potential}, safe ${byRisk.safe}, unsolved ${byRisk.unsolved}`);
   const header = ['rank', 'strip', 'loss m3/d/km', 'loss m3/d', 'min depth m', 'risk', 'flags'];

@@ -3,6 +3,8 @@
 // CSS, inline SVG and one small inline script; a Content-Security-Policy forbids every fetch.
 import { liningSection } from './lining-section.js';
 import { wellsSection } from './wells-section.js';
+import { spreadSection } from './spread-section.js';
+import type { SpreadResult } from '../screening/spread.js';
 import type { WellsOutcome } from '../output/wells-tables.js';
 import type { LiningOutcome } from '../screening/lining.js';
 import { bedsText, bedsUsed } from '../screening/beds.js';
@@ -48,6 +50,8 @@ export interface ReportMeta {
   lining?: LiningOutcome;
   /** The checks against wells: their section follows the map. */
   wells?: WellsOutcome;
+  /** The spread from uncertain K: its section follows the wells'. */
+  spread?: SpreadResult;
 }
 
 /** The assumptions behind every number in the report, as the README states them. */
@@ -343,7 +347,7 @@ export function renderReport(result: ScreenResult, meta: ReportMeta): string {
     `<title>doab screening report: ${result.counts.strips} strips</title><style>${PAGE_CSS}${capRule}\n</style></head>\n<body><main>` +
     `<header><h1>${result.settings.title ? `${escapeHtml(result.settings.title)}: ` : ''}doab screening report</h1><p class="run-line">${meta.startedAt ? `run ${escapeHtml(meta.startedAt.replace('T', ' ').replace(/\.\d+Z$/, ' UTC'))}; ` : ''}${result.counts.lines} lines, ${result.counts.strips} strips, ` +
     `work CRS ${escapeHtml(result.crs.name)}; doab ${escapeHtml(meta.version)}</p></header>\n` +
-    `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${meta.lining ? `${liningSection(meta.lining)}\n` : ''}${mapSection(result)}\n${meta.wells ? `${wellsSection(result, meta.wells)}\n` : ''}${profilesSection(result, top)}\n` +
+    `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${meta.lining ? `${liningSection(meta.lining)}\n` : ''}${mapSection(result)}\n${meta.wells ? `${wellsSection(result, meta.wells)}\n` : ''}${meta.spread ? `${spreadSection(meta.spread)}\n` : ''}${profilesSection(result, top)}\n` +
     `${linesSection(result)}\n${rankingSection(result, rowsShown)}\n${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`
   );
 }

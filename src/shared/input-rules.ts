@@ -27,6 +27,10 @@ export interface ZoneFields {
   recharge: string;
   /** Optional: the head held along the zone's part of the aquifer's outer edge (elevation). */
   edgeHead: string;
+  /** Optional, for the spread from uncertain K: a range (P10 and P90, unit of K), or the standard deviation of ln K. */
+  kLow: string;
+  kHigh: string;
+  kLogSd: string;
 }
 
 export interface WellFields {
@@ -62,7 +66,7 @@ export const DEFAULT_RULES: InputRules = {
       id: 'id', kind: 'kind', name: 'name', stage: 'stage_m', stageStart: 'stage_start_m', stageEnd: 'stage_end_m',
       bedResistance: 'bed_resistance_d', wettedPerimeter: 'wetted_perimeter_m', bottomWidth: 'bottom_width_m', waterDepth: 'water_depth_m',
     },
-    zones: { id: 'id', k: 'k_m_d', base: 'base_m', ground: 'ground_m', recharge: 'recharge_mm_yr', edgeHead: 'edge_head_m' },
+    zones: { id: 'id', k: 'k_m_d', base: 'base_m', ground: 'ground_m', recharge: 'recharge_mm_yr', edgeHead: 'edge_head_m', kLow: 'k_low_m_d', kHigh: 'k_high_m_d', kLogSd: 'k_log_sd' },
     wells: { id: 'id', observed: 'water_table_m', date: 'date' },
   },
   units: { k: 'm/d', recharge: 'mm/yr', elevation: 'm' },
