@@ -62,6 +62,24 @@ function transformFrom(definition: string): (x: number, y: number) => [number, n
   };
 }
 
+/**
+ * The other way: lon/lat (WGS 84) into a CRS named as resolveSourceCrs takes it (a DEM's, say);
+ * null when that CRS is lon/lat on WGS 84 already. Throws as resolveSourceCrs does.
+ */
+export function lonLatToCrs(spec: string): ((lon: number, lat: number) => [number, number]) | null {
+  const resolved = resolveSourceCrs(spec);
+  if (!resolved.toLonLat) return null;
+  const text = spec.trim();
+  const code = epsgCodeOf(text);
+  const authority = /AUTHORITY\s*\[\s*"EPSG"\s*,\s*"?(\d+)"?\s*\]\s*\]\s*$/i.exec(text) ?? /ID\s*\[\s*"EPSG"\s*,\s*(\d+)\s*\]\s*\]\s*$/i.exec(text);
+  const definition = code !== null ? registryProj4(code) : authority ? registryProj4(Number(authority[1])) : text;
+  const converter = proj4(LON_LAT, withoutGrids(definition, [], 'CRS'));
+  return (lon, lat) => {
+    const [x, y] = converter.forward([lon, lat]);
+    return [x, y];
+  };
+}
+
 /** Resolves a CRS named in a file or on the command line; throws an Error saying what is accepted. */
 export function resolveSourceCrs(spec: string): SourceCrs {
   const text = spec.trim();
