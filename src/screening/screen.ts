@@ -1,5 +1,7 @@
 // The screening pipeline: validated inputs -> work CRS -> stations -> transects -> zones on each
 // transect -> solve -> strips and line totals -> ranking. Pure: it reads no file and writes none.
+import { groundSampler, type DemGrid, type GroundSampler, type ToDem } from '../geometry/dem.js';
+import { groundFromDem, sampleSpacingM } from './ground.js';
 import {
   FACING_OUTSIDE_AQUIFER,
   FACING_REASON_NAMES,
@@ -104,8 +106,25 @@ export interface ScreenResult {
   lineFigures: LineFigure[];
   /** The district solve; null when skipped (stripsOnly). */
   district: DistrictResult | null;
+  /** Ground from a DEM, when one was given (the cross-sections draw it); null otherwise. */
+  ground: GroundSampler | null;
   totals: DistrictTotals;
   counts: ScreenCounts;
+}
+
+/** Inputs beyond lines, zones and settings. */
+export interface ScreenExtras {
+  /** A DEM for the ground: its grid, lon/lat into its CRS (null: it is in lon/lat), pixel size (m) and a label for messages. */
+  dem?: { grid: DemGrid; fromLonLat: ((lon: number, lat: number) => [number, number]) | null; pixelM: number; label: string } | null;
+}
+
+/** Work CRS into the DEM's: through lon/lat. */
+function toDemFrom(crs: WorkCrs, dem: NonNullable<ScreenExtras['dem']>): ToDem {
+  const fromLonLat = dem.fromLonLat;
+  return (x, y) => {
+    const [lon, lat] = crs.inverse([x, y]);
+    return fromLonLat ? fromLonLat(lon, lat) : [lon, lat];
+  };
 }
 
 /** Told when each named stage starts and ends: (stage, done, total) with done 0 or total. */
@@ -116,6 +135,7 @@ export function screenDistrict(
   zones: ZoneRecord[],
   settings: ScreenSettings,
   onProgress: ProgressListener = () => {},
+  extras: ScreenExtras = {},
 ): ScreenResult {
   const { crs, warnings } = chooseWorkCrs(boundsOfParts(lines.map((line) => line.partsLonLat)), settings.crs ?? undefined);
   const geometries: LineGeometry[] = lines.map((line) => ({
@@ -142,6 +162,15 @@ export function screenDistrict(
   const results = solveFacings(lines, lineLengthsM, zones, zoneIndex, stations, facings, settings, (done) =>
     onProgress('solve', done, facings.count),
   );
+  // ground from a DEM: the depths follow the sampled ground instead of each zone's one level
+  const ground = extras.dem ? groundSampler(extras.dem.grid, toDemFrom(crs, extras.dem), extras.dem.pixelM) : null;
+  if (ground && extras.dem) {
+    const pass = groundFromDem(ground, lines, zones, zoneIndex, stations, facings, results, settings);
+    warnings.push(
+      `ground from the DEM ${extras.dem.label}: depths, risk classes and shallow areas follow it, sampled every ${sampleSpacingM(ground, 0).toFixed(0)} m or so along each transect` +
+        (pass.gapSamples > 0 ? `; ${pass.gapSamples} of ${pass.samples} samples (on ${pass.gapFacings} transects) fell where the DEM has no data and took their zone's ground_m` : ''),
+    );
+  }
   onProgress('strips', 0, 1);
   // strips join sides that are paired after the solve (a transect leaving the zones ends a strip)
   const strips = buildStrips(lineTable, stations, { ...facings, reason: results.reason }, { spacingJump: settings.spacingJump }).map((strip) =>
@@ -160,7 +189,7 @@ export function screenDistrict(
   } else {
     onProgress('district solve', 0, 1);
     district = districtSolve(
-      { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM), stripLines: strips.map((s) => [s.strip.lineA, s.strip.lineB] as const) },
+      { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM), stripLines: strips.map((s) => [s.strip.lineA, s.strip.lineB] as const), ground },
       settings,
     );
     warnings.push(...district.warnings);
@@ -175,8 +204,11 @@ export function screenDistrict(
   }
   const lineFigures = lines.map((_, i) => lineFigure(lineSummaries[i], district, i));
 
+  // how many threads solved the facings changes no figure: the result (and so run.json and the
+  // report) leaves it out, and is the same for any number of workers
+  const { workers: _workers, ...resultSettings } = settings;
   return {
-    settings,
+    settings: resultSettings,
     crs,
     warnings,
     lines,
@@ -191,6 +223,7 @@ export function screenDistrict(
     lineSummaries,
     lineFigures,
     district,
+    ground,
     totals: districtTotals(lineSummaries, lineFigures, strips, district),
     counts: {
       lines: lines.length,

@@ -14,6 +14,10 @@ import {
 import { SOLVE_OK, TransectSolver } from '../hydraulics/transect-solver.js';
 import { bedAt, stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
 import type { ScreenSettings } from '../shared/settings.js';
+import { emptyResults, NOT_PAIRED, type FacingInputs, type FacingResults, type SolveContext, type StationInputs } from './facing-columns.js';
+import { solveInWorkers, workerCount } from './facing-workers.js';
+
+export { emptyResults, NOT_PAIRED, type FacingInputs, type FacingResults, type SolveContext, type StationInputs };
 
 export const FLAG_NARROW = 1;
 export const FLAG_UNEVEN_BASE = 2;
@@ -27,37 +31,12 @@ export const FLAG_ZONE_OVERLAP = 4;
 const UNCOVERED_TOLERANCE_M = 2;
 const UNCOVERED_TOLERANCE_FRACTION = 0.01;
 
-export interface FacingResults {
-  /**
-   * Each side's reason after the solve: the geometry stage's reason (facings.reason, never
-   * written here), or outside-aquifer where a paired transect leaves the zones.
-   */
-  reason: Uint8Array;
-  /** 0 = solved (SOLVE_OK); otherwise a solver status; 255 = not paired (see the facing's reason). */
-  status: Uint8Array;
-  flags: Uint8Array;
-  ownStageM: Float64Array;
-  partnerStageM: Float64Array;
-  baseM: Float64Array;
-  /** Seepage from the station's own line into this side's strip (m^2/d). */
-  ownSeepageM2PerDay: Float64Array;
-  /** Seepage from the partner line at the transect's far end (m^2/d), for the mass balance. */
-  partnerSeepageM2PerDay: Float64Array;
-  /** Recharge over the whole transect, sum of N l (m^2/d). */
-  rechargeM2PerDay: Float64Array;
-  peakWaterTableM: Float64Array;
-  /** Distance of the peak from the station's own line (m). */
-  peakOffsetM: Float64Array;
-  minDepthM: Float64Array;
-  /** Length of the transect where the water table is shallower than the waterlogging depth (m). */
-  shallowM: Float64Array;
-  dupuitRatio: Float64Array;
-  /** Length of the transect outside every zone that was joined to a neighbour zone (m). */
-  uncoveredM: Float64Array;
-}
 
-export const NOT_PAIRED = 255;
-
+/**
+ * Solves every paired facing. With `settings.workers` above 1 and enough facings, contiguous
+ * chunks go to worker threads (facing-workers.ts); each facing is solved by the same code either
+ * way, so the results are the same to the last bit for any number of workers.
+ */
 export function solveFacings(
   lines: LineRecord[],
   lineLengthsM: Float64Array,
@@ -68,27 +47,32 @@ export function solveFacings(
   settings: ScreenSettings,
   onProgress: (done: number) => void = () => {},
 ): FacingResults {
-  const n = facings.count;
-  const results: FacingResults = {
-    reason: facings.reason.slice(),
-    status: new Uint8Array(n).fill(NOT_PAIRED),
-    flags: new Uint8Array(n),
-    ownStageM: new Float64Array(n).fill(NaN),
-    partnerStageM: new Float64Array(n).fill(NaN),
-    baseM: new Float64Array(n).fill(NaN),
-    ownSeepageM2PerDay: new Float64Array(n).fill(NaN),
-    partnerSeepageM2PerDay: new Float64Array(n).fill(NaN),
-    rechargeM2PerDay: new Float64Array(n).fill(NaN),
-    peakWaterTableM: new Float64Array(n).fill(NaN),
-    peakOffsetM: new Float64Array(n).fill(NaN),
-    minDepthM: new Float64Array(n).fill(NaN),
-    shallowM: new Float64Array(n).fill(NaN),
-    dupuitRatio: new Float64Array(n).fill(NaN),
-    uncoveredM: new Float64Array(n),
-  };
+  const context: SolveContext = { lines, lineLengthsM, zones, zoneIndex, settings };
+  const workers = workerCount(settings.workers ?? null, facings.count);
+  if (workers > 1) return solveInWorkers(context, stations, facings, workers, onProgress);
+  const results = emptyResults(facings.reason);
+  onProgress(0);
+  solveFacingRange(context, stations, facings, results, onProgress);
+  onProgress(facings.count);
+  return results;
+}
+
+/**
+ * Solves facings 0 .. reason.length - 1 of the given columns into `results` (made by
+ * emptyResults). Facing i belongs to station i >> 1 of `stations`, so a chunk that starts at an
+ * even facing is solved from its slices exactly as from the whole table.
+ */
+export function solveFacingRange(
+  context: SolveContext,
+  stations: StationInputs,
+  facings: FacingInputs,
+  results: FacingResults,
+  onProgress: (done: number) => void = () => {},
+): void {
+  const { lines, lineLengthsM, zones, zoneIndex, settings } = context;
+  const n = facings.reason.length;
   const solver = new TransectSolver(64);
   const loaded = new Float64Array(3);
-  onProgress(0);
   for (let i = 0; i < n; i++) {
     // a report every 2^16 facings keeps a progress bar moving at no measurable cost
     if ((i & 0xffff) === 0xffff) onProgress(i + 1);
@@ -132,8 +116,6 @@ export function solveFacings(
     if (solver.dupuitRatio < settings.dupuitRatioMin) results.flags[i] |= FLAG_NARROW;
     if (loaded[LOADED_BASE_HIGH] - loaded[LOADED_BASE_LOW] > settings.baseSpreadFraction * solver.meanThicknessM) results.flags[i] |= FLAG_UNEVEN_BASE;
   }
-  onProgress(n);
-  return results;
 }
 
 export const LOADED_BASE = 0;

@@ -49,6 +49,11 @@ export interface ScreenSettings {
   maxZipRatio: number;
   /** Most stations a run may place (each costs memory in every stage after it). */
   maxStations: number;
+  /**
+   * Worker threads for the transect solve; null for the machine's cores. Changes no output, so a
+   * run's result and record leave it out (it may then be absent).
+   */
+  workers?: number | null;
   risk: RiskThresholds;
 }
 
@@ -93,6 +98,7 @@ const count: Checker = (value, key) => {
   if (!Number.isInteger(v)) throw new Error(`"${key}" must be a whole number, found ${v}`);
   return v;
 };
+const nullableCount: Checker = (value, key) => (value === null ? null : count(value, key));
 const nullableText: Checker = (value, key) => {
   if (value !== null && (typeof value !== 'string' || value.trim() === '')) throw new Error(`"${key}" must be text or null, found ${shown(value)}`);
   return value;
@@ -153,6 +159,7 @@ export const SETTINGS: Readonly<Record<SettingKey, SettingSpec>> = Object.freeze
   maxUnzippedMB: { default: 1000, check: positive, type: 'number', unit: 'MB', doc: 'largest a zipped shapefile may expand to', advanced: true },
   maxZipRatio: { default: 100, check: positive, type: 'number', unit: '', doc: 'largest expansion ratio of a member of a zipped shapefile (a zip bomb expands thousands of times)', advanced: true },
   maxStations: { default: 5_000_000, check: count, type: 'number', unit: '', doc: 'most stations a run may place; a finer --step over a longer network needs more', flag: '--max-stations <n>', advanced: true },
+  workers: { default: null, check: nullableCount, type: 'number', unit: '', doc: "worker threads for the transect solve (null for the machine's cores); outputs are the same for any number", flag: '--workers <n>', advanced: true },
   'risk.waterloggedDepthM': { default: 2, check: positive, type: 'number', unit: 'm', doc: 'a water table less deep than this below ground is waterlogged' },
   'risk.potentialDepthM': { default: 3, check: positive, type: 'number', unit: 'm', doc: 'between the waterlogged depth and this depth the land is potentially waterlogged' },
 });

@@ -1,0 +1,159 @@
+// The transect solve over worker threads: contiguous chunks of facings go to node:worker_threads
+// workers, each of which solves them with the same solveFacingRange as a run in process, and the
+// results are copied back at their chunk's place. The caller blocks (Atomics.wait) until every
+// chunk is back, so the pipeline stays synchronous; messages are taken with receiveMessageOnPort.
+import { existsSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { MessageChannel, Worker, receiveMessageOnPort, type MessagePort } from 'node:worker_threads';
+import type { FacingTable, StationTable } from '../geometry/index.js';
+import type { LineRecord, ZoneRecord } from './district-inputs.js';
+import { emptyResults, type FacingInputs, type FacingResults, type SolveContext, type StationInputs } from './facing-columns.js';
+
+/**
+ * Fewer facings than this are solved in process: starting a worker and building its zone index
+ * costs about 0.1 s, which the solve of 50,000 facings over simple zones (about 2 us each,
+ * measured with bench/screen.bench.ts) would not repay. DOAB_WORKER_MIN_FACINGS overrides it
+ * (tests set it low so that small districts go through the workers).
+ */
+export const WORKER_MIN_FACINGS = 50_000;
+/** Largest chunk of facings sent at once (even, so a chunk holds whole stations). */
+const MAX_CHUNK_FACINGS = 1 << 15;
+
+/** Counts of worker runs in this process, for tests that must know the workers ran. */
+export const facingWorkerStats = { runs: 0, workers: 0, chunks: 0 };
+
+/** Workers for a solve of `facings` facings: the setting (null for the machine's cores), 1 below the threshold. */
+export function workerCount(setting: number | null, facings: number): number {
+  const wanted = setting ?? availableParallelism();
+  const override = process.env.DOAB_WORKER_MIN_FACINGS;
+  const minFacings = override === undefined || override === '' ? WORKER_MIN_FACINGS : Number(override);
+  if (!(minFacings >= 0)) throw new Error(`Unexpected DOAB_WORKER_MIN_FACINGS value: ${override}.`);
+  if (wanted <= 1 || facings < minFacings || facings < 4) return 1;
+  return Math.min(wanted, Math.floor(facings / 2));
+}
+
+/** What a worker is started with (workerData). */
+export interface FacingWorkerData {
+  lines: LineRecord[];
+  lineLengthsM: Float64Array;
+  zones: ZoneRecord[];
+  zonePolygons: SolveContext['zoneIndex']['polygons'];
+  settings: SolveContext['settings'];
+  port: MessagePort;
+  /** Int32 counter a worker bumps (and notifies) after each message it posts. */
+  signal: SharedArrayBuffer;
+}
+
+/** A chunk of work: facings start .. start + reason.length - 1, with their stations' columns. */
+export interface FacingChunk {
+  start: number;
+  stations: StationInputs;
+  facings: FacingInputs;
+}
+
+export type FacingWorkerReply = { ready: true } | { start: number; results: FacingResults } | { error: string };
+
+const STATION_COLUMNS = ['x', 'y', 'line', 'chainageM'] as const;
+const FACING_COLUMNS = ['reason', 'endX', 'endY', 'partner', 'partnerChainageM', 'transectLengthM'] as const;
+
+/**
+ * The worker's module, always the compiled one: next to this module in dist/, or under dist/ when
+ * this module runs from its TypeScript source (vitest, tsx), whose tests build dist/ first. A
+ * worker started through the tsx loader hangs while this thread waits on it (Node 20).
+ */
+function workerEntry(): URL {
+  return import.meta.url.endsWith('.ts') ? new URL('../../dist/screening/facing-worker.js', import.meta.url) : new URL('./facing-worker.js', import.meta.url);
+}
+
+/** How long a worker may take to start and build its zone index before the run gives up on it (ms). */
+const START_TIMEOUT_MS = 60_000;
+
+export function solveInWorkers(
+  context: SolveContext,
+  stations: StationTable,
+  facings: FacingTable,
+  workerTotal: number,
+  onProgress: (done: number) => void,
+): FacingResults {
+  const n = facings.count;
+  // about eight chunks a worker, so that one slow region does not hold the others up
+  const chunkFacings = Math.min(MAX_CHUNK_FACINGS, Math.max(2, 2 * Math.ceil(n / (16 * workerTotal))));
+  const chunkTotal = Math.ceil(n / chunkFacings);
+  const results = emptyResults(facings.reason);
+  const signal = new SharedArrayBuffer(4);
+  const counter = new Int32Array(signal);
+  // the workers need each line's stage and bed, not its geometry or attributes
+  const lines = context.lines.map((line) => ({ ...line, partsLonLat: [], properties: {} }));
+  const zones = context.zones.map((zone) => ({ ...zone, polygonsLonLat: [] }));
+  const entry = workerEntry();
+  // a worker whose module is missing fails where this thread, blocked below, would never hear of it
+  if (!existsSync(fileURLToPath(entry))) throw new Error(`The transect-solve worker is missing: ${fileURLToPath(entry)} (build dist/ with npm run build).`);
+  const workers: { worker: Worker; port: MessagePort; ready: boolean }[] = [];
+  let next = 0, done = 0, doneFacings = 0;
+  const send = (slot: (typeof workers)[number]): void => {
+    if (next >= chunkTotal) return;
+    const start = next * chunkFacings, end = Math.min(n, start + chunkFacings);
+    next++;
+    const chunk: FacingChunk = {
+      start,
+      stations: Object.fromEntries(STATION_COLUMNS.map((key) => [key, stations[key].slice(start >> 1, (end + 1) >> 1)])) as unknown as StationInputs,
+      facings: Object.fromEntries(FACING_COLUMNS.map((key) => [key, facings[key].slice(start, end)])) as unknown as FacingInputs,
+    };
+    const transfer = [...Object.values(chunk.stations), ...Object.values(chunk.facings)].map((column) => (column as Float64Array).buffer as ArrayBuffer);
+    slot.port.postMessage(chunk, transfer);
+  };
+  try {
+    for (let w = 0; w < workerTotal; w++) {
+      const { port1, port2 } = new MessageChannel();
+      const workerData: FacingWorkerData = { lines, lineLengthsM: context.lineLengthsM, zones, zonePolygons: context.zoneIndex.polygons, settings: context.settings, port: port2, signal };
+      const worker = new Worker(entry, { workerData, transferList: [port2] });
+      worker.unref();
+      workers.push({ worker, port: port1, ready: false });
+    }
+    // two chunks in hand per worker, so none waits for the next while this thread copies
+    for (let round = 0; round < 2; round++) for (const slot of workers) send(slot);
+    onProgress(0);
+    const startedAt = Date.now();
+    while (done < chunkTotal) {
+      const seen = Atomics.load(counter, 0);
+      let received = false;
+      for (const slot of workers) {
+        for (let message = receiveMessageOnPort(slot.port); message !== undefined; message = receiveMessageOnPort(slot.port)) {
+          received = true;
+          const reply = message.message as FacingWorkerReply;
+          if ('error' in reply) throw new Error(`A transect-solve worker failed: ${reply.error}`);
+          if ('ready' in reply) {
+            slot.ready = true;
+            continue;
+          }
+          place(results, reply.start, reply.results);
+          done++;
+          doneFacings += reply.results.reason.length;
+          onProgress(doneFacings);
+          send(slot);
+        }
+      }
+      // a worker bumps the counter after posting; the timeout only guards against a lost wake-up
+      if (!received) Atomics.wait(counter, 0, seen, 1000);
+      if (Date.now() - startedAt > START_TIMEOUT_MS && !workers.every((slot) => slot.ready)) {
+        throw new Error(`A transect-solve worker did not start within ${START_TIMEOUT_MS / 1000} s; --workers 1 solves in this thread.`);
+      }
+    }
+  } finally {
+    for (const { worker, port } of workers) {
+      port.close();
+      void worker.terminate();
+    }
+  }
+  facingWorkerStats.runs++;
+  facingWorkerStats.workers += workerTotal;
+  facingWorkerStats.chunks += chunkTotal;
+  onProgress(n);
+  return results;
+}
+
+/** Copies a chunk's results into the whole run's at the chunk's first facing. */
+function place(results: FacingResults, start: number, chunk: FacingResults): void {
+  for (const key of Object.keys(results) as (keyof FacingResults)[]) (results[key] as Float64Array).set(chunk[key] as Float64Array, start);
+}
