@@ -1,0 +1,75 @@
+// doab screen on synthetic networks of 10 k, 100 k and 1 M stations, each run as a user runs it
+// (node bin/doab.js in its own process, strips only), against a floor measured in the same run
+// (bench/floor.ts: read and parse the inputs, index the segments, two queries per station, write
+// the layers again). Prints wall time, stations per second, peak RSS, the ratio to the floor and
+// the scaling exponent between sizes. The district solve is left out: at this scale it is a
+// separate matter (its own bench: bench/district-solver.bench.ts).
+// Run: npm run bench [-- stations...] (builds dist first); DOAB_BENCH_ARGS adds flags to doab screen.
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { performance } from 'node:perf_hooks';
+import { syntheticDistrict, syntheticNetwork } from './network.js';
+
+const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
+const sizes = process.argv.length > 2 ? process.argv.slice(2).map(Number) : [10_000, 100_000, 1_000_000];
+for (const n of sizes) if (!Number.isInteger(n) || n < 100) throw new Error(`Unexpected stations value: ${n}.`);
+const extraArgs = (process.env.DOAB_BENCH_ARGS ?? '').split(' ').filter(Boolean);
+const STEP_M = 100;
+const timeV = existsSync('/usr/bin/time') ? '/usr/bin/time' : null;
+
+// lines per station of the generator, from a sample of it, so each size lands near its count
+const sample = syntheticNetwork(2000, 1);
+let sampleStations = 0;
+for (const g of sample) {
+  const p = g.parts[0];
+  let m = 0;
+  for (let i = 2; i < p.length; i += 2) m += Math.hypot(p[i] - p[i - 2], p[i + 1] - p[i - 1]);
+  sampleStations += Math.floor(m / STEP_M) + 1;
+}
+const stationsPerLine = sampleStations / sample.length;
+
+execFileSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', 'tsconfig.build.json'], { cwd: root, stdio: 'inherit' });
+console.log(`doab screen --strips-only, ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(2)).join(' ')}${extraArgs.length ? `, extra flags: ${extraArgs.join(' ')}` : ''}`);
+console.log('(the district solve is left out: at these sizes it is a separate matter; see bench/district-solver.bench.ts)');
+
+interface Row { stations: number; wallS: number; rssMB: number; floorS: number; floorRssMB: number }
+const rows: Row[] = [];
+const header = `${'stations'.padStart(10)} ${'input MiB'.padStart(9)} ${'wall s'.padStart(8)} ${'stations/s'.padStart(11)} ${'peak RSS MB'.padStart(11)} ${'floor s'.padStart(8)} ${'floor RSS'.padStart(9)} ${'x floor'.padStart(7)}`;
+console.log(header);
+for (const target of sizes) {
+  const dir = mkdtempSync(join(tmpdir(), 'doab-bench-'));
+  try {
+    const { lineFeatures, zoneFeatures, crs } = syntheticDistrict(Math.max(2, Math.round(target / stationsPerLine)));
+    const canals = join(dir, 'canals.geojson'), aquifer = join(dir, 'aquifer.geojson'), out = join(dir, 'out');
+    writeFileSync(canals, JSON.stringify({ type: 'FeatureCollection', features: lineFeatures }));
+    writeFileSync(aquifer, JSON.stringify({ type: 'FeatureCollection', features: zoneFeatures }));
+    const doab = [join(root, 'bin/doab.js'), 'screen', '--canals', canals, '--aquifer', aquifer, '--out', out, '--crs', crs, '--max-gap', '800', '--strips-only', '--quiet', ...extraArgs];
+    const t0 = performance.now();
+    const run = timeV ? spawnSync(timeV, ['-v', process.execPath, ...doab], { encoding: 'utf8' }) : spawnSync(process.execPath, doab, { encoding: 'utf8' });
+    const wallS = (performance.now() - t0) / 1000;
+    if (run.status !== 0) throw new Error(`doab screen exited ${run.status}: ${run.stderr}`);
+    const rssKb = Number(/Maximum resident set size \(kbytes\): (\d+)/.exec(run.stderr)?.[1] ?? NaN);
+    const record = JSON.parse(readFileSync(join(out, 'run.json'), 'utf8')) as { counts: { stations: number } };
+    const stations = record.counts.stations;
+    const floorRun = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'bench/floor.ts'), canals, aquifer, out, String(stations)], { cwd: root, encoding: 'utf8' });
+    if (floorRun.status !== 0) throw new Error(`The floor exited ${floorRun.status}: ${floorRun.stderr}`);
+    const floor = JSON.parse(floorRun.stdout.trim().split('\n').pop() as string) as { seconds: number; maxRssMB: number };
+    const row: Row = { stations, wallS, rssMB: rssKb / 1024, floorS: floor.seconds, floorRssMB: floor.maxRssMB };
+    rows.push(row);
+    console.log(
+      `${stations.toLocaleString('en-US').padStart(10)} ${(statSync(canals).size / 2 ** 20).toFixed(1).padStart(9)} ${wallS.toFixed(2).padStart(8)} ${Math.round(stations / wallS).toLocaleString('en-US').padStart(11)} ${row.rssMB.toFixed(0).padStart(11)} ${floor.seconds.toFixed(2).padStart(8)} ${floor.maxRssMB.toFixed(0).padStart(9)} ${(wallS / floor.seconds).toFixed(2).padStart(7)}`,
+    );
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+// time grows as stations^exponent; 1 is linear (10x the stations in 10x the time)
+for (let i = 1; i < rows.length; i++) {
+  const a = rows[i - 1], b = rows[i];
+  const exponent = (t1: number, t2: number) => (Math.log(t2 / t1) / Math.log(b.stations / a.stations)).toFixed(2);
+  console.log(`scaling ${a.stations.toLocaleString('en-US')} -> ${b.stations.toLocaleString('en-US')} stations: exponent ${exponent(a.wallS, b.wallS)} (floor ${exponent(a.floorS, b.floorS)})`);
+}
+console.log(`peak RSS from ${timeV ? '/usr/bin/time -v' : '(unavailable: no /usr/bin/time)'}; floor seconds exclude its own start-up, doab's wall time includes node's`);
