@@ -16,10 +16,27 @@ export interface ZonePolygons {
 
 export interface ZoneIndex {
   polygons: ZonePolygons;
-  /** each edge as x0,y0,x1,y1 */
+  /** each edge as x0,y0,x1,y1, in the ring's order */
   edges: Float64Array;
+  /** the polygon each edge belongs to */
+  edgePolygon: Uint32Array;
   edgeTree: Flatbush;
+  /** the edges that are not horizontal, listed by the horizontal bands of y they reach, for the inside test */
+  bands: EdgeBands;
   polygonTree: Flatbush;
+}
+
+/**
+ * Band b holds y from y0 + b * height; bandEdge[bandStart[b]] .. bandEdge[bandStart[b + 1] - 1]
+ * are the edges whose y range meets it. A horizontal line meets only the edges of its band, so
+ * the inside test costs the edges near that line, not the vertices of the polygon.
+ */
+export interface EdgeBands {
+  y0: number;
+  height: number;
+  count: number;
+  bandStart: Uint32Array;
+  bandEdge: Uint32Array;
 }
 
 /** Pieces of a transect in order from its start; zone -1 marks a piece outside every zone. */
@@ -53,9 +70,10 @@ export function buildZoneIndex(polygons: ZonePolygons): ZoneIndex {
   let edgeCount = 0;
   for (const rings of polygons.rings) for (const r of rings) edgeCount += r.length / 2;
   const edges = new Float64Array(edgeCount * 4);
+  const edgePolygon = new Uint32Array(edgeCount);
   let e = 0;
-  for (const rings of polygons.rings) {
-    for (const r of rings) {
+  for (let p = 0; p < polygons.count; p++) {
+    for (const r of polygons.rings[p]) {
       const n = r.length / 2;
       for (let i = 0; i < n; i++) {
         const j = (i + 1) % n;
@@ -65,6 +83,7 @@ export function buildZoneIndex(polygons: ZonePolygons): ZoneIndex {
         edges[4 * e + 1] = r[2 * i + 1];
         edges[4 * e + 2] = r[2 * j];
         edges[4 * e + 3] = r[2 * j + 1];
+        edgePolygon[e] = p;
         e++;
       }
     }
@@ -73,6 +92,7 @@ export function buildZoneIndex(polygons: ZonePolygons): ZoneIndex {
     const o = i * 4;
     add(Math.min(edges[o], edges[o + 2]), Math.min(edges[o + 1], edges[o + 3]), Math.max(edges[o], edges[o + 2]), Math.max(edges[o + 1], edges[o + 3]));
   });
+  // candidates by the outer ring's bbox alone
   const polygonTree = boxIndex(polygons.count, (p, add) => {
     const r = polygons.rings[p][0];
     let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
@@ -84,24 +104,82 @@ export function buildZoneIndex(polygons: ZonePolygons): ZoneIndex {
     }
     add(minX, minY, maxX, maxY);
   });
-  return { polygons, edges: edges.subarray(0, e * 4), edgeTree, polygonTree };
-}
-
-/** Even-odd over all rings, so holes need no special case. */
-function insidePolygon(rings: Float64Array[], x: number, y: number): boolean {
-  let inside = false;
-  for (const r of rings) {
-    const n = r.length / 2;
-    for (let i = 0, j = n - 1; i < n; j = i++) {
-      const xi = r[2 * i], yi = r[2 * i + 1], xj = r[2 * j], yj = r[2 * j + 1];
-      if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) inside = !inside;
-    }
-  }
-  return inside;
+  return { polygons, edges: edges.subarray(0, e * 4), edgePolygon: edgePolygon.subarray(0, e), edgeTree, polygonTree, bands: edgeBands(edges, e) };
 }
 
 // crossing parameters, grown on demand and reused so that cutting many transects allocates little
 let params = new Float64Array(64);
+
+function bandOf(bands: EdgeBands, y: number): number {
+  // monotone in y, so an edge listed from the band of its lowest y to that of its highest is met
+  return Math.min(bands.count - 1, Math.max(0, Math.floor((y - bands.y0) / bands.height)));
+}
+
+/** Bands of about two edges each, fewer where long edges would be listed in too many. */
+function edgeBands(edges: Float64Array, edgeCount: number): EdgeBands {
+  let y0 = Infinity, y1 = -Infinity, sloped = 0;
+  for (let e = 0; e < edgeCount; e++) {
+    const a = edges[4 * e + 1], b = edges[4 * e + 3];
+    // a horizontal edge never changes the inside test's parity
+    if (a === b) continue;
+    sloped++;
+    y0 = Math.min(y0, a, b);
+    y1 = Math.max(y1, a, b);
+  }
+  let count = sloped > 0 && y1 > y0 ? Math.min(1 << 20, Math.max(1, sloped >> 1)) : 1;
+  for (;;) {
+    const bands: EdgeBands = { y0: sloped > 0 ? y0 : 0, height: sloped > 0 && y1 > y0 ? (y1 - y0) / count : 1, count, bandStart: new Uint32Array(count + 1), bandEdge: new Uint32Array(0) };
+    let total = 0;
+    for (let e = 0; e < edgeCount; e++) {
+      const a = edges[4 * e + 1], b = edges[4 * e + 3];
+      if (a === b) continue;
+      const b0 = bandOf(bands, Math.min(a, b)), b1 = bandOf(bands, Math.max(a, b));
+      total += b1 - b0 + 1;
+      bands.bandStart[b0 + 1]++;
+      if (b1 + 2 <= count) bands.bandStart[b1 + 2]--;
+    }
+    if (total > 8 * sloped + 2 * count && count > 1) {
+      count >>= 1;
+      continue;
+    }
+    // difference array -> edges per band -> offset of each band's first edge
+    for (let b = 1; b <= count; b++) bands.bandStart[b] += bands.bandStart[b - 1];
+    for (let b = 1; b <= count; b++) bands.bandStart[b] += bands.bandStart[b - 1];
+    bands.bandEdge = new Uint32Array(total);
+    const cursor = bands.bandStart.slice(0, count);
+    for (let e = 0; e < edgeCount; e++) {
+      const a = edges[4 * e + 1], b = edges[4 * e + 3];
+      if (a === b) continue;
+      for (let k = bandOf(bands, Math.min(a, b)), end = bandOf(bands, Math.max(a, b)); k <= end; k++) bands.bandEdge[cursor[k]++] = e;
+    }
+    return bands;
+  }
+}
+
+// per polygon, the parity of the ray's crossings, and the stamp of the last cut that made it a candidate
+let parity = new Uint8Array(64);
+let stamp = new Uint32Array(64);
+let currentStamp = 0;
+
+/**
+ * Even-odd over all rings of the candidate polygons at once (holes need no special case), by a ray
+ * towards +x against the edges of the point's band. An edge counts exactly as in the plain scan
+ * over a ring's vertices (same test, same operands in the same order), so a point on the rounding
+ * edge of a boundary lands on the same side.
+ */
+function castRay(index: ZoneIndex, x: number, y: number): void {
+  const { edges, edgePolygon, bands } = index;
+  const band = bandOf(bands, y);
+  for (let k = bands.bandStart[band], end = bands.bandStart[band + 1]; k < end; k++) {
+    const e = bands.bandEdge[k];
+    const p = edgePolygon[e];
+    if (stamp[p] !== currentStamp) continue;
+    const o = 4 * e;
+    // the plain scan takes vertex i and the one before it, j: this edge runs from j to i
+    const xj = edges[o], yj = edges[o + 1], xi = edges[o + 2], yi = edges[o + 3];
+    if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) parity[p] ^= 1;
+  }
+}
 
 /**
  * Cuts the segment (x0,y0)-(x1,y1) into ordered pieces by zone. Where polygons of different zones
@@ -144,6 +222,17 @@ export function cutTransect(index: ZoneIndex, x0: number, y0: number, x1: number
   });
   const ts = params.subarray(0, n).sort();
   const candidates = index.polygonTree.search(minX, minY, maxX, maxY);
+  if (parity.length < index.polygons.count) {
+    parity = new Uint8Array(index.polygons.count * 2);
+    stamp = new Uint32Array(index.polygons.count * 2);
+    currentStamp = 0;
+  }
+  // a new stamp marks this cut's candidates; wrapping round, every old stamp is cleared first
+  if (++currentStamp === 0xffffffff) {
+    stamp.fill(0);
+    currentStamp = 1;
+  }
+  for (const p of candidates) stamp[p] = currentStamp;
 
   const zone = new Int32Array(n);
   const lengthM = new Float64Array(n);
@@ -154,8 +243,10 @@ export function cutTransect(index: ZoneIndex, x0: number, y0: number, x1: number
     const len = (b - a) * totalM;
     const mx = x0 + ((a + b) / 2) * dx, my = y0 + ((a + b) / 2) * dy;
     let best = -1, mixed = false;
+    for (const p of candidates) parity[p] = 0;
+    castRay(index, mx, my);
     for (const p of candidates) {
-      if (!insidePolygon(index.polygons.rings[p], mx, my)) continue;
+      if (parity[p] === 0) continue;
       const z = index.polygons.zone[p];
       if (best >= 0 && z !== best) mixed = true;
       if (best < 0 || z < best) best = z;
