@@ -49,25 +49,29 @@ export interface SolveContext {
   settings: ScreenSettings;
 }
 
-/** Results for `reason.length` facings, every one unsolved, reasons copied from the geometry stage's. */
-export function emptyResults(reason: Uint8Array): FacingResults {
+/**
+ * Results for `reason.length` facings, every one unsolved, reasons copied from the geometry
+ * stage's. Unfilled (zeros, no pass over the columns) for a caller that will overwrite every
+ * facing, as the worker threads' chunks do.
+ */
+export function emptyResults(reason: Uint8Array, filled = true): FacingResults {
   const n = reason.length;
+  const column = (value: number) => (filled && value !== 0 ? new Float64Array(n).fill(value) : new Float64Array(n));
   return {
     reason: reason.slice(),
-    status: new Uint8Array(n).fill(NOT_PAIRED),
+    status: filled ? new Uint8Array(n).fill(NOT_PAIRED) : new Uint8Array(n),
     flags: new Uint8Array(n),
-    ownStageM: new Float64Array(n).fill(NaN),
-    partnerStageM: new Float64Array(n).fill(NaN),
-    baseM: new Float64Array(n).fill(NaN),
-    ownSeepageM2PerDay: new Float64Array(n).fill(NaN),
-    partnerSeepageM2PerDay: new Float64Array(n).fill(NaN),
-    rechargeM2PerDay: new Float64Array(n).fill(NaN),
-    peakWaterTableM: new Float64Array(n).fill(NaN),
-    peakOffsetM: new Float64Array(n).fill(NaN),
-    minDepthM: new Float64Array(n).fill(NaN),
-    shallowM: new Float64Array(n).fill(NaN),
-    dupuitRatio: new Float64Array(n).fill(NaN),
-    uncoveredM: new Float64Array(n),
+    ownStageM: column(NaN),
+    partnerStageM: column(NaN),
+    baseM: column(NaN),
+    ownSeepageM2PerDay: column(NaN),
+    partnerSeepageM2PerDay: column(NaN),
+    rechargeM2PerDay: column(NaN),
+    peakWaterTableM: column(NaN),
+    peakOffsetM: column(NaN),
+    minDepthM: column(NaN),
+    shallowM: column(NaN),
+    dupuitRatio: column(NaN),
+    uncoveredM: column(0),
   };
 }
-

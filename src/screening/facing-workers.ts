@@ -1,7 +1,8 @@
 // The transect solve over worker threads: contiguous chunks of facings go to node:worker_threads
 // workers, each of which solves them with the same solveFacingRange as a run in process, and the
-// results are copied back at their chunk's place. The caller blocks (Atomics.wait) until every
-// chunk is back, so the pipeline stays synchronous; messages are taken with receiveMessageOnPort.
+// results are copied back at their chunk's place. This thread solves chunks too between messages
+// (so N workers are this thread and N - 1 started ones), and blocks (Atomics.wait) only when none
+// is left, so the pipeline stays synchronous; messages are taken with receiveMessageOnPort.
 import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
@@ -21,7 +22,7 @@ export const WORKER_MIN_FACINGS = 50_000;
 const MAX_CHUNK_FACINGS = 1 << 15;
 
 /** Counts of worker runs in this process, for tests that must know the workers ran. */
-export const facingWorkerStats = { runs: 0, workers: 0, chunks: 0 };
+export const facingWorkerStats = { runs: 0, threads: 0, chunks: 0, threadChunks: 0 };
 
 /** Workers for a solve of `facings` facings: the setting (null for the machine's cores), 1 below the threshold. */
 export function workerCount(setting: number | null, facings: number): number {
@@ -75,12 +76,14 @@ export function solveInWorkers(
   facings: FacingTable,
   workerTotal: number,
   onProgress: (done: number) => void,
+  solveChunk: (context: SolveContext, stations: StationInputs, facings: FacingInputs, results: FacingResults) => void,
 ): FacingResults {
   const n = facings.count;
   // about eight chunks a worker, so that one slow region does not hold the others up
   const chunkFacings = Math.min(MAX_CHUNK_FACINGS, Math.max(2, 2 * Math.ceil(n / (16 * workerTotal))));
   const chunkTotal = Math.ceil(n / chunkFacings);
-  const results = emptyResults(facings.reason);
+  // every facing is overwritten by its chunk's results
+  const results = emptyResults(facings.reason, false);
   const signal = new SharedArrayBuffer(4);
   const counter = new Int32Array(signal);
   // the workers need each line's stage and bed, not its geometry or attributes
@@ -90,21 +93,24 @@ export function solveInWorkers(
   // a worker whose module is missing fails where this thread, blocked below, would never hear of it
   if (!existsSync(fileURLToPath(entry))) throw new Error(`The transect-solve worker is missing: ${fileURLToPath(entry)} (build dist/ with npm run build).`);
   const workers: { worker: Worker; port: MessagePort; ready: boolean }[] = [];
-  let next = 0, done = 0, doneFacings = 0;
-  const send = (slot: (typeof workers)[number]): void => {
-    if (next >= chunkTotal) return;
+  let next = 0, done = 0, doneFacings = 0, threadChunks = 0;
+  const takeChunk = (): FacingChunk => {
     const start = next * chunkFacings, end = Math.min(n, start + chunkFacings);
     next++;
-    const chunk: FacingChunk = {
+    return {
       start,
       stations: Object.fromEntries(STATION_COLUMNS.map((key) => [key, stations[key].slice(start >> 1, (end + 1) >> 1)])) as unknown as StationInputs,
       facings: Object.fromEntries(FACING_COLUMNS.map((key) => [key, facings[key].slice(start, end)])) as unknown as FacingInputs,
     };
+  };
+  const send = (slot: (typeof workers)[number]): void => {
+    if (next >= chunkTotal) return;
+    const chunk = takeChunk();
     const transfer = [...Object.values(chunk.stations), ...Object.values(chunk.facings)].map((column) => (column as Float64Array).buffer as ArrayBuffer);
     slot.port.postMessage(chunk, transfer);
   };
   try {
-    for (let w = 0; w < workerTotal; w++) {
+    for (let w = 1; w < workerTotal; w++) {
       const { port1, port2 } = new MessageChannel();
       const workerData: FacingWorkerData = { lines, lineLengthsM: context.lineLengthsM, zones, zonePolygons: context.zoneIndex.polygons, settings: context.settings, port: port2, signal };
       const worker = new Worker(entry, { workerData, transferList: [port2] });
@@ -128,6 +134,7 @@ export function solveInWorkers(
             continue;
           }
           place(results, reply.start, reply.results);
+          threadChunks++;
           done++;
           doneFacings += reply.results.reason.length;
           onProgress(doneFacings);
@@ -135,7 +142,15 @@ export function solveInWorkers(
         }
       }
       // a worker bumps the counter after posting; the timeout only guards against a lost wake-up
-      if (!received) Atomics.wait(counter, 0, seen, 1000);
+      if (!received && next < chunkTotal) {
+        const chunk = takeChunk();
+        const own = emptyResults(chunk.facings.reason);
+        solveChunk(context, chunk.stations, chunk.facings, own);
+        place(results, chunk.start, own);
+        done++;
+        doneFacings += own.reason.length;
+        onProgress(doneFacings);
+      } else if (!received) Atomics.wait(counter, 0, seen, 1000);
       if (Date.now() - startedAt > START_TIMEOUT_MS && !workers.every((slot) => slot.ready)) {
         throw new Error(`A transect-solve worker did not start within ${START_TIMEOUT_MS / 1000} s; --workers 1 solves in this thread.`);
       }
@@ -147,8 +162,9 @@ export function solveInWorkers(
     }
   }
   facingWorkerStats.runs++;
-  facingWorkerStats.workers += workerTotal;
+  facingWorkerStats.threads += workerTotal - 1;
   facingWorkerStats.chunks += chunkTotal;
+  facingWorkerStats.threadChunks += threadChunks;
   onProgress(n);
   return results;
 }

@@ -49,7 +49,7 @@ export function solveFacings(
 ): FacingResults {
   const context: SolveContext = { lines, lineLengthsM, zones, zoneIndex, settings };
   const workers = workerCount(settings.workers ?? null, facings.count);
-  if (workers > 1) return solveInWorkers(context, stations, facings, workers, onProgress);
+  if (workers > 1) return solveInWorkers(context, stations, facings, workers, onProgress, solveFacingRange);
   const results = emptyResults(facings.reason);
   onProgress(0);
   solveFacingRange(context, stations, facings, results, onProgress);

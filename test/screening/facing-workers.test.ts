@@ -63,13 +63,15 @@ describe('the transect solve over worker threads', () => {
   it('writes the same demo files with 1, 2 and 3 workers (strips only)', async () => {
     const out = join(freshDir('workers-demo'), 'out');
     const args = ['--canals', join(ROOT, 'data-demo/canals.geojson'), '--aquifer', join(ROOT, 'data-demo/aquifer.geojson')];
-    const runsBefore = facingWorkerStats.runs, workersBefore = facingWorkerStats.workers;
+    const runsBefore = facingWorkerStats.runs, threadsBefore = facingWorkerStats.threads, threadChunksBefore = facingWorkerStats.threadChunks;
     const one = await screenWithWorkers(mainInProcess, args, out, 1);
     expect(facingWorkerStats.runs).toBe(runsBefore);
     expect(one.get('strips.geojson')?.includes('"q_a_m2_d"'), 'strips with seepage').toBe(true);
     for (const workers of [2, 3]) expectSameFiles(one, await screenWithWorkers(mainInProcess, args, out, workers), workers);
     expect(facingWorkerStats.runs).toBe(runsBefore + 2);
-    expect(facingWorkerStats.workers).toBe(workersBefore + 5);
+    // N workers are this thread and N - 1 started ones, each handed two chunks at the start
+    expect(facingWorkerStats.threads).toBe(threadsBefore + 3);
+    expect(facingWorkerStats.threadChunks).toBeGreaterThanOrEqual(threadChunksBefore + 2 * 3);
   });
 
   it('writes the same files for a generated network with 1, 2 and 3 workers, from the compiled dist/', async () => {
@@ -89,6 +91,7 @@ describe('the transect solve over worker threads', () => {
     expect(stats.runs).toBe(0);
     for (const workers of [2, 3]) expectSameFiles(one, await screenWithWorkers(main, args, out, workers), workers);
     expect(stats.runs).toBe(2);
-    expect(stats.chunks).toBeGreaterThanOrEqual(2 * 3);
+    expect(stats.threads).toBe(3);
+    expect(stats.threadChunks).toBeGreaterThanOrEqual(2 * 3);
   });
 });
