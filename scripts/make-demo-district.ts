@@ -8,6 +8,7 @@
 // deterministic: same script, same bytes. On stderr it prints closed-form estimates for a few
 // representative strips, so that a change of design shows at once what it does to the classes.
 import { mkdirSync, writeFileSync } from 'node:fs';
+import { writeArrayBuffer } from 'geotiff';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -368,7 +369,58 @@ for (const id of [...LINES.map((l) => l.id), ...ZONES.map((z) => z.id)]) {
 const zoneAreaM2 = ZONES.reduce((sum, z) => sum + z.rects.reduce((s, [w, so, e, n]) => s + (e - w) * (n - so), 0), 0);
 if (zoneAreaM2 !== (EAST - WEST) * (NORTH - SOUTH)) throw new Error(`Zones cover ${zoneAreaM2} m^2, not the whole rectangle.`);
 
+// ---------------------------------------------------------------- DEM
+
+// An invented ground surface for dem.tif: it rises from the flat in the west to the ridge in the
+// east through the zones' ground levels (linear between the middles of the bands), with a swale 1 m
+// deep and about 600 m wide across the medium sand and the flat, and a gentle rolling of +-0.3 m.
+const GROUND_PROFILE: [number, number][] = [[WEST, 179.2], [0, 179.2], [5750, 180.5], [10250, 182], [14750, 184], [EAST, 184]];
+function demGround([x, y]: Point): number {
+  let g = GROUND_PROFILE[0][1];
+  for (let i = 1; i < GROUND_PROFILE.length; i++) {
+    const [x0, g0] = GROUND_PROFILE[i - 1], [x1, g1] = GROUND_PROFILE[i];
+    if (x >= x0 && x <= x1) g = g0 + ((g1 - g0) * (x - x0)) / (x1 - x0);
+    if (x > x1) g = g1;
+  }
+  // the swale: a line from (1500, 7000) to (8500, 3000); distance to it
+  const [ax, ay, bx, by] = [1500, 7000, 8500, 3000];
+  const t = Math.min(1, Math.max(0, ((x - ax) * (bx - ax) + (y - ay) * (by - ay)) / ((bx - ax) ** 2 + (by - ay) ** 2)));
+  const d = Math.hypot(x - (ax + t * (bx - ax)), y - (ay + t * (by - ay)));
+  const swale = -1.0 * Math.exp(-((d / 300) ** 2));
+  const rolling = 0.3 * Math.sin(x / 900) * Math.cos(y / 1300);
+  return Math.round((g + swale + rolling) * 100) / 100;
+}
+
+const DEM_PIXEL_DEG = 0.001;
+function demTiff(): Uint8Array {
+  const [west, north] = toLonLat([WEST, NORTH]);
+  const [east, south] = toLonLat([EAST, SOUTH]);
+  const width = Math.ceil((east - west) / DEM_PIXEL_DEG), height = Math.ceil((north - south) / DEM_PIXEL_DEG);
+  const values = new Float32Array(width * height);
+  for (let r = 0; r < height; r++) {
+    for (let c = 0; c < width; c++) {
+      const lon = west + (c + 0.5) * DEM_PIXEL_DEG, lat = north - (r + 0.5) * DEM_PIXEL_DEG;
+      values[r * width + c] = demGround([(lon - ORIGIN_LON) * METRES_PER_DEGREE_LON, (lat - ORIGIN_LAT) * METRES_PER_DEGREE_LAT]);
+    }
+  }
+  // GeoTIFF 1.0 specification (N. Ritter, M. Ruth, 1995) [published]: model type 2 geographic, raster type 1 pixel-is-area
+  const buffer = writeArrayBuffer(values, {
+    width,
+    height,
+    BitsPerSample: [32],
+    SampleFormat: [3],
+    ModelPixelScale: [DEM_PIXEL_DEG, DEM_PIXEL_DEG, 0],
+    ModelTiepoint: [0, 0, 0, west, north, 0],
+    GTModelTypeGeoKey: 2,
+    GTRasterTypeGeoKey: 1,
+    GeographicTypeGeoKey: 4326,
+    GDAL_NODATA: '-9999',
+  } as unknown as Parameters<typeof writeArrayBuffer>[1]);
+  return new Uint8Array(buffer);
+}
+
 mkdirSync(OUT_DIR, { recursive: true });
+writeFileSync(join(OUT_DIR, 'dem.tif'), demTiff());
 writeFileSync(join(OUT_DIR, 'canals.geojson'), featureCollection(LINES.map(lineFeature)));
 writeFileSync(join(OUT_DIR, 'aquifer.geojson'), featureCollection(ZONES.map(zoneFeature)));
 process.stderr.write(`wrote ${LINES.length} lines and ${ZONES.length} zones to ${OUT_DIR}\n`);

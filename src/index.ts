@@ -24,12 +24,13 @@ import { orientFromLineA, renderProfileSvg } from './report/profile-svg.js';
 import { renderReport } from './report/report.js';
 import { keyFacing, profileOfFacing, type Profile } from './screening/profile.js';
 import { checkRunBudget } from './screening/budget.js';
-import { screenDistrict, type ProgressListener, type ScreenResult } from './screening/screen.js';
+import { screenDistrict, type ProgressListener, type ScreenExtras, type ScreenResult } from './screening/screen.js';
 import type { StripSummary } from './screening/aggregate.js';
 import { DataError, errorsOf, formatProblem, InputProblems, type Problem } from './shared/errors.js';
 import { VERSION } from './shared/version.js';
 import { readLiningPlan } from './input/lining-plan.js';
 import { loadWells, type LoadedWells } from './input/load-wells.js';
+import { readDem, type Dem } from './input/read-dem.js';
 import { spreadLinesTable, spreadStripsTable } from './output/spread-tables.js';
 import { readZoneSpreads, spreadFromK, type SpreadResult } from './screening/spread.js';
 import { wellsLayer, wellsTable, type WellsOutcome } from './output/wells-tables.js';
@@ -85,10 +86,17 @@ export function readConfig(path?: string): RunConfig {
   return path ? parseConfig(path, readTextFile(path)) : defaultConfig();
 }
 
+/** A DEM as the screening takes it. */
+function demExtras(dem: Dem | null | undefined): ScreenExtras['dem'] {
+  return dem ? { grid: dem.grid, fromLonLat: dem.fromLonLat, pixelM: dem.pixelM, label: dem.path } : null;
+}
+
 export interface ScreenOptions {
   /** Leave out invalid features instead of stopping (a problem with a whole file still stops). */
   skipInvalid?: boolean;
   onProgress?: ProgressListener;
+  /** Ground from a DEM (readDem). */
+  dem?: Dem | null;
 }
 
 /** The problems that stop a run on this district, or null when it can go on (bad features skipped, if asked). */
@@ -105,7 +113,7 @@ export function screenLoaded(district: LoadedDistrict, config: RunConfig, option
   const stopping = stoppingProblems(district, options);
   if (stopping) throw new InputProblems(stopping);
   checkRunBudget(district.lines, config.settings);
-  return screenDistrict(district.lines, district.zones, config.settings, options.onProgress);
+  return screenDistrict(district.lines, district.zones, config.settings, options.onProgress, { dem: demExtras(options.dem) });
 }
 
 export interface WriteRunOptions {
@@ -123,6 +131,8 @@ export interface WriteRunOptions {
   wells?: { outcome: WellsOutcome; file: InputFile };
   /** The spread from uncertain K (--samples). */
   spread?: SpreadResult;
+  /** The DEM the ground came from (--dem). */
+  dem?: Dem | null;
 }
 
 /** The files of a run, in the order they are written: layers, table, report, run record. */
@@ -176,6 +186,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       problems: district.problems,
       wells: options.wells && { outcome: options.wells.outcome, sha256: options.wells.file.sha256 },
       spread: options.spread,
+      dem: options.dem ? { path: options.dem.path, sha256: options.dem.sha256, crs: options.dem.crsLabel, pixels: options.dem.grid.width * options.dem.grid.height, nodataPixels: options.dem.nodataPixels } : null,
     }),
   });
   return files;
@@ -228,6 +239,8 @@ interface RecordedRun {
   district: LoadedDistrict;
   /** Features the run skipped (--skip-invalid); the run stopped on errors otherwise. */
   skipped: number;
+  /** The DEM the run took its ground from, read again; null without one. */
+  dem: Dem | null;
 }
 
 async function loadRun(runDir: string, command: string): Promise<RecordedRun> {
@@ -267,6 +280,14 @@ async function loadRun(runDir: string, command: string): Promise<RecordedRun> {
   }
   const district = await loadDistrict(canals.path, aquifer.path, config);
   const skipped = Array.isArray(record.skipped_features) ? record.skipped_features.length : 0;
+  // a run with ground from a DEM reads it again, unchanged
+  let dem: Dem | null = null;
+  if (isObject(record.dem)) {
+    const { path, sha256, crs } = record.dem;
+    if (typeof path !== 'string' || typeof sha256 !== 'string' || typeof crs !== 'string') throw new DataError({ file: recordPath, field: 'dem' }, 'a DEM without path, SHA-256 and CRS');
+    dem = await readDem(path, { demCrs: crs, maxInputMB: config.settings.maxInputMB });
+    if (dem.sha256 !== sha256) throw new DataError({ file: path }, `changed since the run in ${recordPath} (SHA-256 now ${dem.sha256}, recorded ${sha256}); screen it again before doab ${command}`);
+  }
   // a run screened with K fitted to wells (--apply-k-fit) is screened again with the same multipliers
   const fit = isObject(record.wells) && isObject(record.wells.k_fit) ? record.wells.k_fit : null;
   if (fit && fit.applied === true && Array.isArray(fit.zones)) {
@@ -279,14 +300,14 @@ async function loadRun(runDir: string, command: string): Promise<RecordedRun> {
     }
     district.zones = scaleZones(district.zones, district.zones.map((zone) => byZone.get(zone.id) ?? 1));
   }
-  return { recordPath, record, config, district, skipped };
+  return { recordPath, record, config, district, skipped, dem };
 }
 
 export async function profileFromRun(runDir: string, stripId: string): Promise<StripProfile> {
-  const { recordPath, config, district, skipped } = await loadRun(runDir, 'profile');
+  const { recordPath, config, district, skipped, dem } = await loadRun(runDir, 'profile');
   // the run itself stopped on errors unless it skipped them (--skip-invalid)
   // a profile draws a strip's own transect: the district solve would add seconds and change nothing drawn
-  const result = screenLoaded(district, { ...config, settings: { ...config.settings, stripsOnly: true } }, { skipInvalid: skipped > 0 });
+  const result = screenLoaded(district, { ...config, settings: { ...config.settings, stripsOnly: true } }, { skipInvalid: skipped > 0, dem });
   const strip = result.strips.find((s) => s.stripId === stripId);
   if (!strip) throw new DataError({ file: recordPath }, `no strip "${stripId}" in this run; its strips include ${someIds(result.strips.map((s) => s.stripId), stripId)}`);
   const solved = profileOfFacing(result, strip, keyFacing(result, strip));
@@ -337,7 +358,7 @@ export async function liningFromRun(runDir: string, planPath: string, onScreenin
   const stopping = stoppingProblems(run.district, { skipInvalid: run.skipped > 0 });
   if (stopping) throw new InputProblems(stopping);
   checkRunBudget(run.district.lines, run.config.settings);
-  const outcome = planLining(run.district.lines, run.district.zones, run.config.settings, plan, onScreening);
+  const outcome = planLining(run.district.lines, run.district.zones, run.config.settings, plan, onScreening, { dem: demExtras(run.dem) });
   return { outcome, run, planSha256 };
 }
 
@@ -422,6 +443,7 @@ export function liningText({ outcome }: LiningRun): string {
 }
 
 export { loadWells, type LoadedWells } from './input/load-wells.js';
+export { readDem, type Dem } from './input/read-dem.js';
 export type { WellsOutcome } from './output/wells-tables.js';
 
 /**
@@ -434,13 +456,13 @@ export function checkAgainstWells(
   config: RunConfig,
   result: ScreenResult,
   wells: LoadedWells,
-  options: { applyFit?: boolean; onProgress?: ProgressListener } = {},
+  options: { applyFit?: boolean; onProgress?: ProgressListener; dem?: Dem | null } = {},
 ): { result: ScreenResult; outcome: WellsOutcome } {
   const path = wells.file?.path ?? 'wells';
   const fit = fitConductivity(district.lines, district.zones, config.settings, wells.wells, path);
   let checked = result;
   if (options.applyFit) {
-    checked = screenDistrict(district.lines, scaleZones(district.zones, fit.zones.map((zone) => zone.multiplier)), config.settings, options.onProgress);
+    checked = screenDistrict(district.lines, scaleZones(district.zones, fit.zones.map((zone) => zone.multiplier)), config.settings, options.onProgress, { dem: demExtras(options.dem) });
     checked.warnings.push(
       `the zones' hydraulic conductivity carries the multipliers fitted to the wells (--apply-k-fit): ${fit.zones.filter((zone) => zone.wells > 0).map((zone) => `${zone.zoneId} x${zone.multiplier.toFixed(3)}`).join(', ') || 'none fitted'}`,
     );

@@ -57,6 +57,8 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .option('--seq', 'write the layers as GeoJSON text sequences (RFC 8142, .geojsons) instead of FeatureCollections')
     .option('--skip-invalid', 'leave out invalid features instead of stopping; run.json lists them')
     .option('--quiet', 'print only errors and the caution line')
+    .option('--dem <file>', 'ground elevations (GeoTIFF, one band): depths and risk follow it instead of each zone\'s ground_m')
+    .option('--dem-crs <crs>', 'the DEM\'s CRS when its GeoKeys name none (EPSG:<code>, proj4 or WKT)')
     .option('--wells <file>', 'piezometers (points with an observed water-table elevation): compare, and suggest a K multiplier per zone')
     .option('--apply-k-fit', 'screen with the K multipliers fitted to --wells (recorded in run.json and the report)')
     .option('--samples <n>', 'draws of each zone\'s K from its range (k_low_m_d/k_high_m_d or k_log_sd) for the spread of losses and risk')

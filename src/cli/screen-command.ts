@@ -18,6 +18,7 @@ import {
   type ProgressListener,
   checkAgainstWells,
   spreadOfRun,
+  readDem,
   loadWells,
   UsageError,
   type RunConfig,
@@ -37,6 +38,8 @@ export interface ScreenOptions {
   applyKFit?: boolean;
   samples?: string;
   seed?: string;
+  dem?: string;
+  demCrs?: string;
   correlatedK?: boolean;
   /** The settings' flags (--step and the rest), by commander's attribute names. */
   [flag: string]: unknown;
@@ -65,9 +68,10 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   const seed = options.seed === undefined ? 1 : Number(options.seed);
   if (!Number.isInteger(seed) || seed < 0 || seed > 2 ** 32 - 1) throw new UsageError(`--seed must be a whole number from 0 to ${2 ** 32 - 1}, found ${JSON.stringify(options.seed)}`, 'seed');
   if ((options.seed !== undefined || options.correlatedK) && samples === null) throw new UsageError('--seed and --correlated-k need --samples', 'samples');
+  if (options.demCrs !== undefined && !options.dem) throw new UsageError('--dem-crs needs --dem', 'dem');
   checkOutputFolder(
     options.out,
-    [options.canals, options.aquifer, options.config, options.wells].flatMap((path) => (path ? filesOfInput(path) : [])),
+    [options.canals, options.aquifer, options.config, options.wells, options.dem].flatMap((path) => (path ? filesOfInput(path) : [])),
     runOutputNames(config.settings, options.seq ? 'sequence' : 'collection', Boolean(options.wells), samples !== null),
   );
   const district = await loadDistrict(options.canals, options.aquifer, config);
@@ -81,8 +85,10 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   if (warnings.length > 0) log(problemLines(warnings, PROBLEMS_SHOWN).trimEnd());
   if (errors.length > 0) log(`skipping ${errors.length} invalid feature${errors.length === 1 ? '' : 's'} (--skip-invalid):\n${problemLines(errors, PROBLEMS_SHOWN).trimEnd()}`);
   log(`read ${district.lines.length} lines from ${options.canals} and ${district.zones.length} zones from ${options.aquifer}`);
-  const screened = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress });
-  const checked = wells ? checkAgainstWells(district, config, screened, wells, { applyFit: options.applyKFit, onProgress }) : null;
+  const dem = options.dem ? await readDem(options.dem, { demCrs: options.demCrs ?? null, maxInputMB: config.settings.maxInputMB }) : null;
+  if (dem) log(`read a DEM of ${dem.grid.width} x ${dem.grid.height} pixels (${dem.crsLabel}) from ${options.dem}${dem.nodataPixels > 0 ? `, ${dem.nodataPixels} without data` : ''}`);
+  const screened = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress, dem });
+  const checked = wells ? checkAgainstWells(district, config, screened, wells, { applyFit: options.applyKFit, onProgress, dem }) : null;
   const result = checked ? checked.result : screened;
   const spread = samples === null ? undefined : spreadOfRun(district, config, result, { samples, seed, correlated: Boolean(options.correlatedK) });
   for (const warning of result.warnings) log(`warning: ${warning}`);
@@ -96,6 +102,7 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     format: options.seq ? 'sequence' : 'collection',
     wells: checked && wells?.file ? { outcome: checked.outcome, file: wells.file } : undefined,
     spread,
+    dem,
   });
   log(`wrote ${written.join(', ')} to ${options.out}${removed.length > 0 ? `; removed ${removed.join(', ')} left by the previous run` : ''}`);
   if (!options.quiet) io.out(summaryText(result, 10, errors.length, checked?.outcome, spread));

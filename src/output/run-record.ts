@@ -120,6 +120,8 @@ export interface RunMeta {
   wells?: { outcome: WellsOutcome; sha256: string | null };
   /** The spread from uncertain K, when drawn (--samples). */
   spread?: SpreadResult;
+  /** The DEM the ground came from (--dem). */
+  dem?: { path: string; sha256: string; crs: string; pixels: number; nodataPixels: number } | null;
 }
 
 function describeInput(file: InputFacts) {
@@ -221,6 +223,7 @@ export function runRecord(result: ScreenResult, meta: RunMeta): string {
     line_beds: lineBedsRecord(result),
     wells: meta.wells ? wellsRecord(meta.wells.outcome, meta.wells.sha256) : null,
     k_spread: meta.spread ? spreadRecord(meta.spread) : null,
+    dem: meta.dem ? { path: meta.dem.path, sha256: meta.dem.sha256, crs: meta.dem.crs, pixels: meta.dem.pixels, nodata_pixels: meta.dem.nodataPixels } : null,
     outputs: meta.outputs,
     warnings: [...meta.problems.filter((p) => p.severity === 'warning').map(formatProblem), ...result.warnings],
     skipped_features: meta.problems.filter((p) => p.severity === 'error').map((p) => ({

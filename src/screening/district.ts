@@ -8,6 +8,7 @@ import { fillZones, polygonCells } from '../geometry/grid-fill.js';
 import { gridOver, gridSize, zonesExtent, type Grid } from '../geometry/grid.js';
 import type { LineTable } from '../geometry/lines.js';
 import type { ZonePolygons } from '../geometry/zones.js';
+import type { GroundSampler } from '../geometry/dem.js';
 import { CELL_BED, CELL_FIXED, CELL_FREE, CELL_OUTSIDE, cellNeighbour, solveDistrict, type DistrictGrid, type DistrictSolveStatus } from '../hydraulics/district-solver.js';
 import { UsageError } from '../shared/errors.js';
 import { RISK_CLASSES, riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
@@ -35,6 +36,8 @@ export interface DistrictInputs {
   stripRings: Float64Array[];
   /** Each strip's lines a and b (indices into lines), in the order of stripRings. */
   stripLines: ReadonlyArray<readonly [number, number]>;
+  /** Optional: ground from a DEM, at each cell's centre (the zone's ground where the DEM has none). */
+  ground?: GroundSampler | null;
 }
 
 export interface DistrictStripFigures {
@@ -180,6 +183,10 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
     rechargeMPerDay[g] = zoneRecharge[z];
     baseM[g] = zoneBase[z];
     groundM[g] = zoneGround[z];
+    if (inputs.ground) {
+      const sampled = inputs.ground.at(grid.originX + ((g % grid.columns) + 0.5) * cellM, grid.originY + (Math.floor(g / grid.columns) + 0.5) * cellM);
+      if (Number.isFinite(sampled)) groundM[g] = sampled;
+    }
     const l = lineOf[g];
     if (l >= 0) {
       const line = lines[l];
@@ -368,7 +375,7 @@ function bankMask(grid: Grid, cellKind: Uint8Array, bankWidthM: number): Uint8Ar
  * Solves the district at the cell the settings and memory budget allow, and at twice that cell;
  * throws a UsageError naming districtMemoryMB before allocating a grid that would not fit.
  */
-export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings): DistrictResult {
+export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings, options: { coarseCheck?: boolean } = {}): DistrictResult {
   const extent = zonesExtent(inputs.zonePolygons);
   const { cellM } = chooseCell(extent, settings);
   const warnings: string[] = [];
@@ -379,10 +386,12 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
     );
   }
   const fine = solveAt(inputs, cellM);
-  const coarse = solveAt(inputs, 2 * cellM);
+  // the same solve at twice the cell, for each line's numerical uncertainty (left out by scenario
+  // runs that compare solves at one cell, such as a lining plan's)
+  const coarse = options.coarseCheck === false ? null : solveAt(inputs, 2 * cellM);
   const lineCount = inputs.lines.length;
   const { loss, cells: lineCells } = lineLosses(fine, lineCount);
-  const lineLossCoarseM3PerDay = lineLosses(coarse, lineCount).loss;
+  const lineLossCoarseM3PerDay = coarse ? lineLosses(coarse, lineCount).loss : new Float64Array(lineCount).fill(NaN);
 
   const { grid, cellKind, groundM, waterTableM } = fine;
   const areaHa = (cellM * cellM) / 10_000;
@@ -465,7 +474,7 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings):
   };
 
   if (fine.status !== 'converged') warnings.push(`district solve did not converge (${fine.status}): its figures are not reliable`);
-  if (coarse.status !== 'converged') warnings.push(`district solve at twice the cell did not converge (${coarse.status}): the uncertainty of line losses is not reliable`);
+  if (coarse && coarse.status !== 'converged') warnings.push(`district solve at twice the cell did not converge (${coarse.status}): the uncertainty of line losses is not reliable`);
   if (balance.residualRelative > 1e-6) warnings.push(`district water balance does not close: residual ${balance.residualM3PerDay.toPrecision(3)} m3/d`);
   if (fine.cutOffAreaM2 > 0) {
     warnings.push(`${(fine.cutOffAreaM2 / 10_000).toFixed(1)} ha of aquifer reach no line and were left out of the district solve (no steady water table without a line)`);

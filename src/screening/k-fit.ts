@@ -48,13 +48,13 @@ export function fitConductivity(lines: readonly LineRecord[], zones: readonly Zo
   let screenings = 0;
   const residuals = (logM: Float64Array): Float64Array => {
     screenings++;
-    const result = screenDistrict(lines as LineRecord[], scaleZones(zones, Array.from(logM, (v) => 10 ** v)), fitSettings);
+    const result = screenDistrict(lines as LineRecord[], scaleZones(zones, Array.from(logM, (v) => 10 ** v)), fitSettings, undefined, { coarseCheck: false });
     return Float64Array.from(compareWells(result, wells, file).figures, (figure) => figure.residualM);
   };
   const zoneCount = zones.length;
   let logM: Float64Array = new Float64Array(zoneCount);
   // the wells behind the fit: those with a computed figure at the start; a zone is fitted when one stands in it
-  const base = compareWells(screenDistrict(lines as LineRecord[], [...zones], fitSettings), wells, file);
+  const base = compareWells(screenDistrict(lines as LineRecord[], [...zones], fitSettings, undefined, { coarseCheck: false }), wells, file);
   screenings++;
   let r: Float64Array = Float64Array.from(base.figures, (figure) => figure.residualM);
   const used = base.figures.map((figure) => Number.isFinite(figure.residualM));

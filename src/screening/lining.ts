@@ -5,7 +5,7 @@
 import type { RiskClass, ScreenSettings } from '../shared/settings.js';
 import { DataError } from '../shared/errors.js';
 import type { LinedRange, LineRecord, ZoneRecord } from './district-inputs.js';
-import { screenDistrict, type FigureMethod, type ScreenResult } from './screen.js';
+import { screenDistrict, type FigureMethod, type ScreenExtras, type ScreenResult } from './screen.js';
 
 /** One reach of a plan: a chainage range of a line to line, with its lining and optional cost. */
 export interface PlanReach {
@@ -194,17 +194,18 @@ export function planLining(
   settings: ScreenSettings,
   plan: LiningPlan,
   onScreening: (done: number, total: number) => void = () => {},
+  extras: ScreenExtras = {},
 ): LiningOutcome {
   const total = plan.reaches.length + 2;
   onScreening(0, total);
-  const resultNow = screenDistrict(lines as LineRecord[], zones as ZoneRecord[], settings);
+  const resultNow = screenDistrict(lines as LineRecord[], zones as ZoneRecord[], settings, undefined, { ...extras, coarseCheck: false });
   const now = scenarioFigures(resultNow);
   // every reach is checked before the first reach is screened, so a bad plan stops at once
   const located = plan.reaches.map((reach) => ({ reach, ...locateReach(lines, resultNow.lineLengthsM, reach, plan) }));
   withLining(lines, resultNow.lineLengthsM, plan.reaches, plan);
   const reaches: ReachOutcome[] = located.map(({ reach, line, fromM, toM }, i) => {
     onScreening(i + 1, total);
-    const lined = scenarioFigures(screenDistrict(withLining(lines, resultNow.lineLengthsM, [reach], plan), zones as ZoneRecord[], settings));
+    const lined = scenarioFigures(screenDistrict(withLining(lines, resultNow.lineLengthsM, [reach], plan), zones as ZoneRecord[], settings, undefined, { ...extras, coarseCheck: false }));
     const change = compare(now, lined);
     const lengthM = toM - fromM;
     const cost = reach.costPerKm === null ? null : (reach.costPerKm * lengthM) / 1000;
@@ -232,7 +233,7 @@ export function planLining(
   let resultProgramme: ScreenResult | null = null, programmeLined: ScenarioFigures | null = null;
   let programmeSaved = 0, programmeWaterlogged = 0, programmePotential = 0;
   if (steps.length > 0) {
-    resultProgramme = screenDistrict(withLining(lines, resultNow.lineLengthsM, steps.map((step) => step.outcome.reach), plan), zones as ZoneRecord[], settings);
+    resultProgramme = screenDistrict(withLining(lines, resultNow.lineLengthsM, steps.map((step) => step.outcome.reach), plan), zones as ZoneRecord[], settings, undefined, { ...extras, coarseCheck: false });
     programmeLined = scenarioFigures(resultProgramme);
     const change = compare(now, programmeLined);
     programmeSaved = change.savedM3PerDay;

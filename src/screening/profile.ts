@@ -98,10 +98,16 @@ export function profileOfFacing(result: ScreenResult, strip: StripSummary, facin
     zones: pieces,
     xM,
     waterTableM: xM.map((v) => solver.headAt(v)),
-    groundM: xM.map((v) => solver.groundAt(v)),
+    // the DEM's ground along the transect where a DEM was given (the zone's where it has none)
+    groundM: xM.map((v) => {
+      if (!result.ground) return solver.groundAt(v);
+      const t = width > 0 ? v / width : 0;
+      const sampled = result.ground.at(stations.x[station] + t * (facings.endX[facing] - stations.x[station]), stations.y[station] + t * (facings.endY[facing] - stations.y[station]));
+      return Number.isFinite(sampled) ? sampled : solver.groundAt(v);
+    }),
     peakWaterTableM: solver.peakWaterTableM,
     peakOffsetM: solver.peakOffsetM,
-    minDepthM: solver.minDepthM,
+    minDepthM: result.ground ? results.minDepthM[facing] : solver.minDepthM,
     seepageAM2PerDay: solver.ownSeepageM2PerDay,
     seepageBM2PerDay: solver.partnerSeepageM2PerDay,
     bankHeadAM: solver.ownBankHeadM,

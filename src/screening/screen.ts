@@ -116,6 +116,8 @@ export interface ScreenResult {
 export interface ScreenExtras {
   /** A DEM for the ground: its grid, lon/lat into its CRS (null: it is in lon/lat), pixel size (m) and a label for messages. */
   dem?: { grid: DemGrid; fromLonLat: ((lon: number, lat: number) => [number, number]) | null; pixelM: number; label: string } | null;
+  /** False to leave out the district solve at twice the cell (each line's uncertainty): scenario runs that compare one cell. */
+  coarseCheck?: boolean;
 }
 
 /** Work CRS into the DEM's: through lon/lat. */
@@ -191,6 +193,7 @@ export function screenDistrict(
     district = districtSolve(
       { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM), stripLines: strips.map((s) => [s.strip.lineA, s.strip.lineB] as const), ground },
       settings,
+      { coarseCheck: extras.coarseCheck },
     );
     warnings.push(...district.warnings);
     if (crs.epsg === null) warnings.push(`the rasters are written with no EPSG code: the work CRS is a proj4 string (${crs.proj4Def}), kept in their citation and in run.json`);

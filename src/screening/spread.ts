@@ -13,6 +13,7 @@ import { summariseLines, summariseStrip } from './aggregate.js';
 import type { ZoneRecord } from './district-inputs.js';
 import { rankStrips, type ScreenResult } from './screen.js';
 import { solveFacings } from './solve-facings.js';
+import { groundFromDem } from './ground.js';
 
 /** The standard normal's 90th percentile: P10 and P90 lie this many standard deviations from the median (common practice; Abramowitz and Stegun (1964), table 26.1 [from memory]). */
 export const Z90 = 1.2815515655446004;
@@ -162,6 +163,8 @@ export function spreadFromK(result: ScreenResult, spreads: readonly ZoneSpread[]
       return { ...zone, kMPerDay: medianMPerDay * Math.exp(logSd * deviate) };
     });
     const results = solveFacings(lines, lineLengthsM, drawn, zoneIndex, stations, facings, settings);
+    // depths over the DEM's ground, as the run took them
+    if (result.ground) groundFromDem(result.ground, lines, drawn, zoneIndex, stations, facings, results, settings);
     const strips = buildStrips(lineTable, stations, { ...facings, reason: results.reason }, { spacingJump: settings.spacingJump }).map((strip) =>
       summariseStrip(strip, lines, stations, facings, results, settings),
     );
