@@ -3,9 +3,8 @@
 // out of the records; warnings keep it. Pure: no file access.
 import { area } from '@turf/area';
 import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
-import { booleanValid } from '@turf/boolean-valid';
 import { polygon as turfPolygon } from '@turf/helpers';
-import { kinks } from '@turf/kinks';
+import { firstKink, holeMeetsShell, ringHasSpike } from '../geometry/ring-checks.js';
 import { kToMPerDay, lengthToM, rechargeFromMPerDay, rechargeToMPerDay } from '../shared/units.js';
 import { describePlace, type DataProblemPlace, type Problem } from '../shared/errors.js';
 import { DEFAULT_RULES, type InputRules } from '../shared/input-rules.js';
@@ -208,15 +207,17 @@ function polygonList(view: FeatureView): number[][][][] {
     });
     const shape = turfPolygon(rings);
     if (!(area(shape) > 0)) throw new FeatureProblem('geometry', `polygon ${p} has no area (its positions lie on one line or point)`);
-    const crossings = kinks(shape).features;
-    if (crossings.length > 0) {
-      const at = crossings[0].geometry.coordinates.map((v) => Number(v.toFixed(6)));
+    // turf's kinks and booleanValid compare every pair of segments; the ring checks index them
+    const crossing = firstKink(rings);
+    if (crossing !== null) {
+      const at = crossing.map((v) => Number(v.toFixed(6)));
       throw new FeatureProblem('geometry', `polygon ${p} intersects itself (first crossing near ${JSON.stringify(at)}); fix the ring`);
     }
     // turf's booleanValid lets a hole lying wholly outside its shell pass: check each hole too
     const shell = turfPolygon([rings[0]]);
     const holeOutside = rings.slice(1).some((hole) => !hole.slice(0, -1).some((position) => booleanPointInPolygon(position, shell, { ignoreBoundary: true })));
-    if (holeOutside || !booleanValid(shape)) throw new FeatureProblem('geometry', `polygon ${p} is not a valid polygon (a hole outside its shell, or rings touching)`);
+    const valid = rings.every((ring, i) => !ringHasSpike(ring) && (i === 0 || holeMeetsShell(rings[0], ring) <= 1));
+    if (holeOutside || !valid) throw new FeatureProblem('geometry', `polygon ${p} is not a valid polygon (a hole outside its shell, or rings touching)`);
     return rings;
   });
 }
