@@ -278,7 +278,7 @@ async function loadRun(runDir: string, command: string): Promise<RecordedRun> {
       );
     }
   }
-  const district = await loadDistrict(canals.path, aquifer.path, config);
+  const district = await loadDistrict(canals.path, aquifer.path, config, { groundFromDem: isObject(record.dem) });
   const skipped = Array.isArray(record.skipped_features) ? record.skipped_features.length : 0;
   // a run with ground from a DEM reads it again, unchanged
   let dem: Dem | null = null;

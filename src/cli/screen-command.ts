@@ -74,7 +74,8 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     [options.canals, options.aquifer, options.config, options.wells, options.dem].flatMap((path) => (path ? filesOfInput(path) : [])),
     runOutputNames(config.settings, options.seq ? 'sequence' : 'collection', Boolean(options.wells), samples !== null),
   );
-  const district = await loadDistrict(options.canals, options.aquifer, config);
+  // with a DEM, a zone may leave out its ground level: the DEM gives it
+  const district = await loadDistrict(options.canals, options.aquifer, config, { groundFromDem: Boolean(options.dem) });
   const wells = options.wells ? await loadWells(options.wells, config) : null;
   // a bad well stops the run as a bad line does (--skip-invalid leaves bad wells out too)
   if (wells) district.problems.push(...wells.problems);

@@ -21,6 +21,8 @@ export const SOLVE_NON_POSITIVE_K = 4;
 export const SOLVE_STAGE_AT_OR_BELOW_BASE = 5;
 export const SOLVE_AQUIFER_DRIES = 6;
 export const SOLVE_BED_NOT_CONVERGED = 7;
+/** Set by the caller, not by solve(): the transect's ground is known nowhere (no DEM data, no zone ground), so no depth. */
+export const SOLVE_NO_GROUND = 8;
 
 export const SOLVE_STATUS_NAMES = [
   'ok',
@@ -31,6 +33,7 @@ export const SOLVE_STATUS_NAMES = [
   'stage-at-or-below-base',
   'aquifer-dries',
   'bed-solve-failed',
+  'no-ground',
 ] as const;
 export type SolveStatusName = (typeof SOLVE_STATUS_NAMES)[number];
 
@@ -119,7 +122,8 @@ export class TransectSolver {
     for (let j = 0; j < zoneCount; j++) {
       const l = lengthM[j], k = kMPerDay[j], n = rechargeMPerDay[j], g = groundM[j];
       this.failedZone = j;
-      if (!Number.isFinite(l) || !Number.isFinite(k) || !Number.isFinite(n) || !Number.isFinite(g)) return SOLVE_NON_FINITE;
+      // ground plays no part in the flow: NaN (not known: a DEM gives it) is allowed, and gives NaN depths
+      if (!Number.isFinite(l) || !Number.isFinite(k) || !Number.isFinite(n) || (!Number.isFinite(g) && !Number.isNaN(g))) return SOLVE_NON_FINITE;
       if (!(l > 0)) return SOLVE_NON_POSITIVE_LENGTH;
       if (!(k > 0)) return SOLVE_NON_POSITIVE_K;
       x += l;
@@ -321,7 +325,8 @@ export class TransectSolver {
       const depth = groundM[j] - (this.baseM + Math.sqrt(Math.max(bestU, 0)));
       if (depth < minDepth) { minDepth = depth; minDepthX = xEdgeM[j] + bestT; }
     }
-    this.minDepthM = minDepth;
+    // no zone knows its ground (NaN: a DEM gives it): no depth
+    this.minDepthM = Number.isFinite(minDepth) ? minDepth : NaN;
     this.minDepthOffsetM = minDepthX;
   }
 

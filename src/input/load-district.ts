@@ -26,7 +26,7 @@ async function readOrProblem(path: string, options: ReadOptions, problems: Probl
   }
 }
 
-export async function loadDistrict(canalsPath: string, aquiferPath: string, config: RunConfig): Promise<LoadedDistrict> {
+export async function loadDistrict(canalsPath: string, aquiferPath: string, config: RunConfig, checks: { groundFromDem?: boolean } = {}): Promise<LoadedDistrict> {
   const problems: Problem[] = [];
   const { inputCrs, maxInputMB, maxUnzippedMB, maxZipRatio } = config.settings;
   const options: ReadOptions = { inputCrs: inputCrs ?? undefined, maxInputMB, maxUnzippedMB, maxZipRatio };
@@ -40,7 +40,7 @@ export async function loadDistrict(canalsPath: string, aquiferPath: string, conf
     for (const item of checked.problems) problems.push(item);
   }
   if (aquifer) {
-    const checked = checkZones(aquiferPath, aquifer.features, config.rules);
+    const checked = checkZones(aquiferPath, aquifer.features, config.rules, checks);
     zones = checked.records;
     for (const item of checked.problems) problems.push(item);
   }

@@ -505,7 +505,11 @@ export const K_HANDBOOK_MAX_M_PER_DAY = 1000;
 // desert evaporates in a year [from memory]: most often a monthly value or a wrong unit.
 export const RECHARGE_PLAUSIBLE_MM_PER_YEAR = 3000;
 
-export function checkZones(file: string, features: unknown[], rules: InputRules): Checked<ZoneRecord> {
+/**
+ * Checks the zones. With `groundFromDem` (a DEM gives the ground) a zone may leave out its ground
+ * level: it is NaN then, and the DEM alone gives that zone's ground.
+ */
+export function checkZones(file: string, features: unknown[], rules: InputRules, options: { groundFromDem?: boolean } = {}): Checked<ZoneRecord> {
   const cutWarnings: Problem[] = [];
   const f = resolveCutNames(file, features, rules.fields.zones, cutWarnings);
   const mapped = (key: keyof typeof f) => rules.fields.zones[key] !== DEFAULT_RULES.fields.zones[key];
@@ -514,7 +518,13 @@ export function checkZones(file: string, features: unknown[], rules: InputRules)
       { key: 'fields.zones.id', name: f.id, what: 'a unique id', mapped: mapped('id'), fallback: null },
       { key: 'fields.zones.k', name: f.k, what: `hydraulic conductivity, ${rules.units.k}`, mapped: mapped('k'), fallback: null },
       { key: 'fields.zones.base', name: f.base, what: `the aquifer base elevation, ${rules.units.elevation}`, mapped: mapped('base'), fallback: null },
-      { key: 'fields.zones.ground', name: f.ground, what: `the ground elevation, ${rules.units.elevation}`, mapped: mapped('ground'), fallback: null },
+      {
+        key: 'fields.zones.ground',
+        name: f.ground,
+        what: `the ground elevation, ${rules.units.elevation}`,
+        mapped: mapped('ground'),
+        fallback: options.groundFromDem ? "the DEM's ground alone (where it has no data, the sides there are left unsolved)" : null,
+      },
       { key: 'fields.zones.recharge', name: f.recharge, what: `areal recharge, ${rules.units.recharge}`, mapped: mapped('recharge'), fallback: `the default recharge of ${rules.defaults.recharge} ${rules.units.recharge}` },
       ...(mapped('edgeHead') ? [{ key: 'fields.zones.edgeHead', name: f.edgeHead, what: 'the head on the outer edge', mapped: true, fallback: 'no flow across the outer edge' }] : []),
     ]),
@@ -531,10 +541,10 @@ export function checkZones(file: string, features: unknown[], rules: InputRules)
       return k;
     });
     const baseM = attempt(() => toM(numberField(view, f.base)));
-    const groundM = attempt(() => toM(numberField(view, f.ground)));
+    const groundM = attempt(() => toM(numberField(view, f.ground, options.groundFromDem ? Number.NaN : undefined)));
     if (baseM !== undefined && groundM !== undefined) {
       attempt(() => {
-        if (!(groundM > baseM)) throw new FeatureProblem(f.ground, `ground ${groundM} m must lie above the aquifer base ${baseM} m`);
+        if (!(groundM > baseM) && !Number.isNaN(groundM)) throw new FeatureProblem(f.ground, `ground ${groundM} m must lie above the aquifer base ${baseM} m`);
       });
     }
     const rechargeMPerDay = attempt(() => {

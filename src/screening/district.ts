@@ -402,10 +402,12 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings, 
 
   const banks = bankMask(grid, cellKind, settings.bankWidthM);
   const areaByRiskHa = Object.fromEntries(RISK_CLASSES.map((risk) => [risk, 0])) as Record<RiskClass, number>;
-  let lineAndBankAreaHa = 0, shallowAreaHa = 0;
+  let lineAndBankAreaHa = 0, shallowAreaHa = 0, noGroundAreaHa = 0;
   for (let g = 0; g < grid.cells; g++) {
     if (cellKind[g] === CELL_OUTSIDE) continue;
     if (banks[g]) { lineAndBankAreaHa += areaHa; continue; }
+    // no ground known there (no DEM data, a zone without ground_m): no depth, no class
+    if (Number.isNaN(depthM[g])) { noGroundAreaHa += areaHa; continue; }
     areaByRiskHa[riskClass(depthM[g], settings.risk)] += areaHa;
     if (depthM[g] < settings.risk.waterloggedDepthM) shallowAreaHa += areaHa;
   }
@@ -485,6 +487,7 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings, 
         'water that would seep out at the surface is not modelled, so the water table there and the gains of lines nearby are overestimated',
     );
   }
+  if (noGroundAreaHa > 0) warnings.push(`${noGroundAreaHa.toFixed(1)} ha of aquifer have no ground (no DEM data and no ground_m): no depth or risk class there`);
   if (fine.dryCells > 0) warnings.push(`${fine.dryCells} cells of the district solve are dry (the water table down to the base): Dupuit-Forchheimer does not describe them`);
   // an edge head on a zone that nowhere meets the aquifer's outer edge holds nothing: say so, never ignore it silently
   const unheld = inputs.zones.filter((zone, z) => zone.edgeHeadM !== null && fine.edgeCellsByZone[z] === 0).map((zone) => zone.id);

@@ -4,7 +4,7 @@
 // has no data the zone's ground is used and counted.
 import { cutTransect, type FacingTable, type StationTable, type ZoneIndex } from '../geometry/index.js';
 import type { GroundSampler } from '../geometry/dem.js';
-import { SOLVE_OK, TransectSolver } from '../hydraulics/transect-solver.js';
+import { SOLVE_NO_GROUND, SOLVE_OK, TransectSolver } from '../hydraulics/transect-solver.js';
 import type { ScreenSettings } from '../shared/settings.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { loadCut, setBeds, type FacingResults } from './solve-facings.js';
@@ -19,6 +19,8 @@ export interface GroundPass {
   gapSamples: number;
   /** Transects with at least one such sample. */
   gapFacings: number;
+  /** Transects with no ground at all (no DEM data and no zone ground): left unsolved. */
+  noGroundFacings: number;
 }
 
 /** Spacing of ground samples along a transect of this length: half a DEM pixel, within bounds (m). */
@@ -39,7 +41,7 @@ export function groundFromDem(
 ): GroundPass {
   const solver = new TransectSolver(64);
   const loaded = new Float64Array(3);
-  const pass: GroundPass = { samples: 0, gapSamples: 0, gapFacings: 0 };
+  const pass: GroundPass = { samples: 0, gapSamples: 0, gapFacings: 0, noGroundFacings: 0 };
   for (let i = 0; i < facings.count; i++) {
     if (results.status[i] !== SOLVE_OK) continue;
     const station = i >> 1;
@@ -52,15 +54,24 @@ export function groundFromDem(
     const spacing = sampleSpacingM(sampler, length);
     const count = Math.max(1, Math.ceil((length - 2 * margin) / spacing));
     const step = (length - 2 * margin) / count;
-    let minDepth = Infinity, shallow = 0, gaps = 0;
+    let minDepth = Infinity, shallow = 0, gaps = 0, known = 0;
     for (let k = 0; k <= count; k++) {
       const x = margin + k * step, t = x / length;
       let ground = sampler.at(sx + t * (ex - sx), sy + t * (ey - sy));
       if (!Number.isFinite(ground)) { ground = solver.groundAt(x); gaps++; }
+      // neither the DEM nor the zone knows the ground here
+      if (!Number.isFinite(ground)) continue;
+      known++;
       const depth = ground - solver.headAt(x);
       if (depth < minDepth) minDepth = depth;
       // each sample stands for its share of the line between the banks (the end samples half)
       if (depth < settings.risk.waterloggedDepthM) shallow += k === 0 || k === count ? step / 2 : step;
+    }
+    if (known === 0) {
+      // no ground anywhere along it: the side is left unsolved, with its reason
+      results.status[i] = SOLVE_NO_GROUND;
+      pass.noGroundFacings++;
+      continue;
     }
     results.minDepthM[i] = minDepth;
     results.shallowM[i] = count === 0 ? 0 : shallow;

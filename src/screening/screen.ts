@@ -170,7 +170,8 @@ export function screenDistrict(
     const pass = groundFromDem(ground, lines, zones, zoneIndex, stations, facings, results, settings);
     warnings.push(
       `ground from the DEM ${extras.dem.label}: depths, risk classes and shallow areas follow it, sampled every ${sampleSpacingM(ground, 0).toFixed(0)} m or so along each transect` +
-        (pass.gapSamples > 0 ? `; ${pass.gapSamples} of ${pass.samples} samples (on ${pass.gapFacings} transects) fell where the DEM has no data and took their zone's ground_m` : ''),
+        (pass.gapSamples > 0 ? `; ${pass.gapSamples} of ${pass.samples} samples (on ${pass.gapFacings} transects) fell where the DEM has no data and took their zone's ground_m` : '') +
+        (pass.noGroundFacings > 0 ? `; ${pass.noGroundFacings} transect sides have no ground at all (no DEM data, no ground_m) and are left unsolved (no-ground)` : ''),
     );
   }
   onProgress('strips', 0, 1);

@@ -355,9 +355,22 @@ describe('invalid physics returns the reason, not a number', () => {
     ['NaN K', withZone(1, { kMPerDay: NaN })],
     ['infinite K', withZone(1, { kMPerDay: Infinity })],
     ['NaN recharge', withZone(0, { rechargeMPerDay: NaN })],
-    ['NaN ground', withZone(1, { groundM: NaN })],
+    ['infinite ground', withZone(1, { groundM: Infinity })],
   ])('%s: non-finite-input', (_name, problem) => {
     expectReason(problem, 'non-finite-input');
+  });
+
+  it('NaN ground (not known: a DEM gives it) solves the flow as any ground does, its depth from the zones that know theirs', () => {
+    const known = solveStrip(good);
+    const unknown = solveStrip(withZone(1, { groundM: NaN }));
+    if (!known.ok || !unknown.ok) throw new Error('expected both to solve');
+    expect(unknown.ownSeepageM2PerDay).toBe(known.ownSeepageM2PerDay);
+    expect(unknown.peakWaterTableM).toBe(known.peakWaterTableM);
+    // the zone without ground gives no depth; the others still do
+    expect(unknown.minDepthM).toBeGreaterThanOrEqual(known.minDepthM);
+    const none = solveStrip({ ...good, zones: good.zones.map((zone) => ({ ...zone, groundM: NaN })) });
+    if (!none.ok) throw new Error('expected it to solve');
+    expect(none.minDepthM).toBeNaN();
   });
 
   it('no zones: no-zones', () => {

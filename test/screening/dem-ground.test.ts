@@ -11,6 +11,8 @@ import { readDem } from '../../src/input/read-dem.js';
 import { keyFacing, profileOfFacing } from '../../src/screening/profile.js';
 import { screenDistrict } from '../../src/screening/screen.js';
 import { box, checkedLocal, line } from './local-district.js';
+import { checkZones } from '../../src/screening/district-inputs.js';
+import { DEFAULT_RULES } from '../../src/shared/input-rules.js';
 
 const E0 = 300_000, N0 = 3_265_000; // the layout's origin in UTM zone 36N (local-district.ts)
 const BASE = 90, H0 = 15, HL = 12, L = 400, LENGTH = 2000, BANK = 10;
@@ -31,13 +33,18 @@ function demFile(name: string, ground: (x: number, y: number) => number, [x0, y0
   return path;
 }
 
-async function screenOver(ground: (x: number, y: number) => number, extent?: [number, number, number, number]) {
+async function screenOver(ground: (x: number, y: number) => number, extent?: [number, number, number, number], zoneGround: number | null = 130) {
   const dem = await readDem(demFile(`${Math.random().toString(36).slice(2)}.tif`, ground, extent), { maxInputMB: 100 });
-  const { lines, zones, settings } = checkedLocal(
+  const zoneFeatures = [box('Z', { k_m_d: 10, base_m: BASE, recharge_mm_yr: 0, ...(zoneGround === null ? {} : { ground_m: zoneGround }) }, [0, -L, LENGTH, 0])];
+  const { lines, settings } = checkedLocal(
     [line('C', { kind: 'canal', stage_m: BASE + H0 }, [[0, 0], [LENGTH, 0]]), line('D', { kind: 'drain', stage_m: BASE + HL }, [[0, -L], [LENGTH, -L]])],
     [box('Z', { k_m_d: 10, base_m: BASE, ground_m: 130, recharge_mm_yr: 0 }, [0, -L, LENGTH, 0])],
     { stripsOnly: true },
   );
+  // with a DEM a zone may leave out its ground level
+  const checked = checkZones('zones.geojson', zoneFeatures, DEFAULT_RULES, { groundFromDem: true });
+  expect(checked.problems.filter((p) => p.severity === 'error')).toEqual([]);
+  const zones = checked.records;
   return screenDistrict(lines, zones, settings, undefined, { dem: { grid: dem.grid, fromLonLat: dem.fromLonLat, pixelM: dem.pixelM, label: 'dem.tif' } });
 }
 
@@ -72,6 +79,15 @@ describe('ground from a DEM in the strips', () => {
     // its smallest depth is its own transect's, over the same sampled ground: never below the strip's smallest
     expect(profile.minDepthM).toBeGreaterThanOrEqual(strip.minDepthM - 1e-9);
     expect(profile.minDepthM - strip.minDepthM).toBeLessThan(0.05);
+  });
+
+  it('needs no zone ground where the DEM covers the strip, and leaves sides with no ground at all unsolved', async () => {
+    const covered = await screenOver((_x, y) => 104 - 0.01 * y, undefined, null);
+    expect(covered.strips[0].minDepthM).toBeCloseTo(closedMinDepth((x) => 104 + 0.01 * x), 2);
+    // the DEM covers the western half and no zone ground backs it: the eastern sides are left unsolved, with their reason
+    const half = await screenOver((_x, y) => 104 - 0.01 * y, [-200, -700, 1000, 300], null);
+    expect(half.warnings.join('\n')).toMatch(/transect sides have no ground at all \(no DEM data, no ground_m\) and are left unsolved \(no-ground\)/);
+    expect(half.strips.flatMap((s) => s.flags).join(';')).toMatch(/unsolved-\d+:no-ground/);
   });
 
   it('takes the zone ground where the DEM has none, and says so', async () => {
