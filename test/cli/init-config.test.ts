@@ -39,7 +39,9 @@ describe('doab init-config', () => {
     for (const name of ['CANAL_ID', 'TYPE', 'WL', 'KSAT', 'BOT', 'DEM', 'NET_RECHARGE']) expect(text).toMatch(new RegExp(`//\\s+${name} \\(`));
     const parsed = parseConfig(config, text);
     expect(parsed.rules.fields.lines).toMatchObject({ id: 'CANAL_ID', kind: 'TYPE', stage: 'WL', name: 'NAME' });
-    expect(parsed.rules.fields.zones).toEqual({ id: 'ZONE', k: 'KSAT', base: 'BOT', ground: 'DEM', recharge: 'NET_RECHARGE', edgeHead: 'edge_head_m' });
+    expect(parsed.rules.fields.zones).toEqual({
+      id: 'ZONE', k: 'KSAT', base: 'BOT', ground: 'DEM', recharge: 'NET_RECHARGE', edgeHead: 'edge_head_m', kLow: 'k_low_m_d', kHigh: 'k_high_m_d', kLogSd: 'k_log_sd',
+    });
     // the kind attribute's own words are listed beside kindWords, for the user to map
     expect(text).toContain('// Values of "TYPE" in your file: "CANAL"');
     // a single stage field was found, so the start/end pair is not called missing

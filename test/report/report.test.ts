@@ -200,7 +200,7 @@ describe('renderReport on the demo district', () => {
     expect(dated).toContain('<th scope="row">run started</th><td>2026-12-02T06:00:00.000Z (as run.json records it)</td>');
     // how the inputs were read: where they were written, the field mapping, units and defaults, and that outputs are metric
     expect(html).toContain('<td>lon/lat, WGS 84 (EPSG:4326), as RFC 7946 asks</td>');
-    expect(html).toContain('<th scope="row">zones fields</th><td>id: id, k: k_m_d, base: base_m, ground: ground_m, recharge: recharge_mm_yr, edgeHead: edge_head_m</td>');
+    expect(html).toContain('<th scope="row">zones fields</th><td>id: id, k: k_m_d, base: base_m, ground: ground_m, recharge: recharge_mm_yr, edgeHead: edge_head_m, kLow: k_low_m_d, kHigh: k_high_m_d, kLogSd: k_log_sd</td>');
     expect(html).toMatch(/K in m\/d, recharge in mm\/yr, elevations in m<\/td>|K in m\/d, recharge in mm\/yr, elevations in m; every output is in metres and days/);
     expect(html).toContain('&#39;out dir&#39;');
     expect(html).toMatch(/Not a design\.<\/b> Screening estimate only/);
