@@ -31,6 +31,11 @@ import { VERSION } from './shared/version.js';
 import { readLiningPlan } from './input/lining-plan.js';
 import { loadWells, type LoadedWells } from './input/load-wells.js';
 import { readDem, type Dem } from './input/read-dem.js';
+import { geopackageBytes } from './output/geopackage.js';
+import { linesSld, stripsSld } from './output/sld.js';
+import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES } from './report/palette.js';
+import { widthScaleTop } from './report/map-svg.js';
+import { GEOPACKAGE_NAME } from './output/output-folder.js';
 import { spreadLinesTable, spreadStripsTable } from './output/spread-tables.js';
 import { readZoneSpreads, spreadFromK, type SpreadResult } from './screening/spread.js';
 import { wellsLayer, wellsTable, type WellsOutcome } from './output/wells-tables.js';
@@ -171,10 +176,14 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       spread: options.spread,
     }),
   });
-  const outputs = [...files.map((file) => file.name), 'run.json'];
-  files.push({
-    name: 'run.json',
-    content: runRecord(result, {
+  // the styles, beside the layers and inside the GeoPackage: the report's own colours and widths
+  const look = {
+    strips: { classes: STRIP_CLASSES, styles: STRIP_STYLES },
+    lines: { colours: LINE_COLOURS, widthTopM3PerDayKm: widthScaleTop(result) },
+  };
+  files.push({ name: 'strips.sld', content: stripsSld(look.strips) }, { name: 'lines.sld', content: linesSld(look.lines) });
+  const outputs = [...files.map((file) => file.name), GEOPACKAGE_NAME, 'run.json'];
+  const runJson = runRecord(result, {
       version: VERSION,
       commandLine,
       startedAt,
@@ -187,8 +196,9 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       wells: options.wells && { outcome: options.wells.outcome, sha256: options.wells.file.sha256 },
       spread: options.spread,
       dem: options.dem ? { path: options.dem.path, sha256: options.dem.sha256, crs: options.dem.crsLabel, pixels: options.dem.grid.width * options.dem.grid.height, nodataPixels: options.dem.nodataPixels } : null,
-    }),
   });
+  files.push({ name: GEOPACKAGE_NAME, content: geopackageBytes(result, { runRecord: runJson, startedAt, look }) });
+  files.push({ name: 'run.json', content: runJson });
   return files;
 }
 

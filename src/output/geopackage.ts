@@ -4,9 +4,8 @@
 // on opening. Built with better-sqlite3 in a temporary file that is always removed; the caller
 // writes the returned bytes with the run's atomic writer. Same result and options, same bytes.
 import Database from 'better-sqlite3';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
@@ -374,19 +373,16 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
   db.pragma(`user_version = ${GPKG_USER_VERSION}`);
 }
 
-/** The run as one GeoPackage file's bytes (built in a temporary file under os.tmpdir(), removed afterwards, even on error). */
+/**
+ * The run as one GeoPackage file's bytes, built in memory (no temporary file: the run's atomic
+ * writer writes it as it writes every output, and a full disk or a size limit is met there).
+ */
 export function geopackageBytes(result: ScreenResult, options: GeoPackageOptions): Uint8Array {
-  const dir = mkdtempSync(join(tmpdir(), 'doab-gpkg-'));
+  const db = new Database(':memory:');
   try {
-    const path = join(dir, 'doab.gpkg');
-    const db = new Database(path);
-    try {
-      db.transaction(() => fill(db, result, options))();
-    } finally {
-      db.close();
-    }
-    return new Uint8Array(readFileSync(path));
+    db.transaction(() => fill(db, result, options))();
+    return new Uint8Array(db.serialize());
   } finally {
-    rmSync(dir, { recursive: true, force: true });
+    db.close();
   }
 }

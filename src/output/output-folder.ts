@@ -11,7 +11,9 @@ import { RASTER_NAMES } from './rasters.js';
 
 /** Every name a screening run may write into its folder. */
 export const RUN_OUTPUT_NAMES: ReadonlySet<string> = new Set(
-  ['strips', 'canals', 'transects'].flatMap((layer) => [`${layer}.geojson`, `${layer}.geojsons`]).concat(['ranking.csv', 'lines.csv', 'report.html', 'run.json', ...Object.values(RASTER_NAMES)]),
+  ['strips', 'canals', 'transects', 'wells']
+    .flatMap((layer) => [`${layer}.geojson`, `${layer}.geojsons`])
+    .concat(['ranking.csv', 'lines.csv', 'wells.csv', 'spread-strips.csv', 'spread-lines.csv', 'strips.sld', 'lines.sld', 'doab.gpkg', 'report.html', 'run.json', ...Object.values(RASTER_NAMES)]),
 );
 
 /** The real path of a path that may not exist yet: its nearest existing ancestor resolved, links followed. */
@@ -59,11 +61,14 @@ function kindOf(path: string): string | null {
 }
 
 /** The names a run with these settings writes: the layers in their format, the tables, the rasters when the district solve runs, the report and the record. */
+/** The run's GeoPackage: every layer, the ranking, the run record and the styles in one file. */
+export const GEOPACKAGE_NAME = 'doab.gpkg';
+
 export function runOutputNames(settings: { writeTransects: boolean; stripsOnly: boolean }, format: LayerFormat, withWells = false, withSpread = false): Set<string> {
   const extension = format === 'sequence' ? 'geojsons' : 'geojson';
   const layers = ['strips', 'canals', ...(settings.writeTransects ? ['transects'] : []), ...(withWells ? ['wells'] : [])].map((layer) => `${layer}.${extension}`);
   const rasters = settings.stripsOnly ? [] : Object.values(RASTER_NAMES);
-  return new Set([...layers, 'ranking.csv', 'lines.csv', ...(withWells ? ['wells.csv'] : []), ...(withSpread ? ['spread-strips.csv', 'spread-lines.csv'] : []), ...rasters, 'report.html', 'run.json']);
+  return new Set([...layers, 'strips.sld', 'lines.sld', GEOPACKAGE_NAME, 'ranking.csv', 'lines.csv', ...(withWells ? ['wells.csv'] : []), ...(withSpread ? ['spread-strips.csv', 'spread-lines.csv'] : []), ...rasters, 'report.html', 'run.json']);
 }
 
 /**

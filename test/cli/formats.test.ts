@@ -75,7 +75,7 @@ describe('a second run into the same folder', () => {
     // strips only the second time: the first run's rasters go too
     const again = runCli([...args, '--strips-only']);
     expect(again.status, again.stderr).toBe(0);
-    expect(readdirSync(out).sort()).toEqual(['canals.geojson', 'lines.csv', 'notes.txt', 'ranking.csv', 'report.html', 'run.json', 'strips.geojson']);
+    expect(readdirSync(out).sort()).toEqual(['canals.geojson', 'doab.gpkg', 'lines.csv', 'lines.sld', 'notes.txt', 'ranking.csv', 'report.html', 'run.json', 'strips.geojson', 'strips.sld']);
     expect(readFileSync(join(out, 'notes.txt'), 'utf8')).toBe('the engineer\'s own file');
   });
 });

@@ -31,11 +31,15 @@ describe('district rasters', () => {
     const files = readdirSync(first).sort();
     expect(files).toContain('depth.tif');
     expect(files).toContain('water-table.tif');
-    // the run record and the report say when the run started: that and nothing else may differ
+    // the run record, the report and the GeoPackage (which holds the record) say when the run
+    // started: that and nothing else may differ (the GeoPackage's bytes read as latin1, one to one)
+    const stamps = (text: string) => text.replace(/\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d+Z/g, 'START').replace(/\d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/g, 'START');
     const unstamped = (name: string, bytes: Buffer) =>
       name === 'run.json' || name === 'report.html'
-        ? Buffer.from(bytes.toString('utf8').replace(/\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d+Z/g, 'START').replace(/\d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/g, 'START'))
-        : bytes;
+        ? Buffer.from(stamps(bytes.toString('utf8')))
+        : name === 'doab.gpkg'
+          ? Buffer.from(stamps(bytes.toString('latin1')), 'latin1')
+          : bytes;
     const bytes = files.map((name) => unstamped(name, readFileSync(join(first, name))));
     const second = await screenBranching(dir);
     files.forEach((name, i) => expect(unstamped(name, readFileSync(join(second, name))).equals(bytes[i]), name).toBe(true));
