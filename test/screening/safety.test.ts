@@ -103,7 +103,10 @@ describe('doab screen on lines whose ids look like formulas', () => {
   it('writes only inside --out, every file complete, and leaves the inputs as they were', () => {
     const after = hashTree(dir);
     const outputs = Object.keys(after).filter((path) => path.startsWith('out/'));
-    expect(outputs.sort()).toEqual(['out/canals.geojson', 'out/depth.tif', 'out/lines.csv', 'out/ranking.csv', 'out/report.html', 'out/run.json', 'out/strips.geojson', 'out/water-table.tif']);
+    expect(outputs.sort()).toEqual([
+      'out/canals.geojson', 'out/depth.tif', 'out/doab.gpkg', 'out/lines.csv', 'out/lines.sld', 'out/ranking.csv', 'out/report.html', 'out/run.json',
+      'out/strips.geojson', 'out/strips.sld', 'out/water-table.tif',
+    ]);
     const inputsAfter = Object.fromEntries(Object.entries(after).filter(([path]) => !path.startsWith('out/')));
     expect(inputsAfter).toEqual(before);
     expect(readJson(join(out, 'run.json')).inputs.canals.sha256).toBe(createHash('sha256').update(readFileSync(join(inputs, 'canals.geojson'))).digest('hex'));
