@@ -27,7 +27,17 @@ const ALIASES: Record<string, string[]> = {
   'zones.ground': ['groundm', 'ground', 'gl', 'dem', 'surface', 'elevation', 'elev'],
   'zones.recharge': ['rechargemmyr', 'recharge', 'netrecharge'],
   'zones.edgeHead': ['edgeheadm', 'edgehead', 'boundaryhead'],
+  'lines.bedResistance': ['bedresistanced', 'bedresistance', 'resistance', 'clogging'],
+  'lines.wettedPerimeter': ['wettedperimeterm', 'wettedperimeter', 'perimeter'],
+  'lines.bottomWidth': ['bottomwidthm', 'bottomwidth', 'bedwidth'],
+  'lines.waterDepth': ['waterdepthm', 'waterdepth', 'flowdepth'],
+  'zones.kLow': ['klowmd', 'klow', 'kmin'],
+  'zones.kHigh': ['khighmd', 'khigh', 'kmax'],
+  'zones.kLogSd': ['klogsd', 'lnksd', 'sdlnk'],
 };
+
+/** Fields a file may leave out: said as optional where not found, never as missing. */
+const OPTIONAL_FIELDS = new Set(['edgeHead', 'bedResistance', 'wettedPerimeter', 'bottomWidth', 'waterDepth', 'kLow', 'kHigh', 'kLogSd']);
 
 interface AttributeSummary {
   name: string;
@@ -119,13 +129,13 @@ export async function initConfigCommand(options: InitConfigOptions, io: CliIo): 
   const field = (section: 'lines' | 'zones', key: string, comment: string) => {
     const hit = matched(section, key);
     const alternative = (key === 'stage' && stagePair) || ((key === 'stageStart' || key === 'stageEnd') && stageSingle);
-    const optional = key === 'edgeHead';
+    const optional = OPTIONAL_FIELDS.has(key);
     const note = hit.found
       ? comment
       : alternative
         ? `${comment}; not in your file, and not needed: the other stage form is`
         : optional
-          ? `${comment}; not in your file, so no flow across the aquifer's outer edge`
+          ? `${comment}; not in your file${key === 'edgeHead' ? ", so no flow across the aquifer's outer edge" : ''}`
           : `${comment}; NOT FOUND in your file: pick one of the attributes listed above`;
     return `      ${JSON.stringify(key)}: ${JSON.stringify(hit.name)}, // ${note}`;
   };
@@ -151,6 +161,10 @@ ${field('lines', 'name', 'optional name')}
 ${field('lines', 'stage', 'water level, constant along the line')}
 ${field('lines', 'stageStart', 'or: water level at the first vertex')}
 ${field('lines', 'stageEnd', 'and at the last vertex')}
+${field('lines', 'bedResistance', 'optional: the bed\'s resistance to seepage, days (0: a clean bed)')}
+${field('lines', 'wettedPerimeter', 'optional: wetted perimeter, in units.elevation (needed with a bed resistance, or the two below)')}
+${field('lines', 'bottomWidth', 'optional: bottom width, and')}
+${field('lines', 'waterDepth', 'optional: water depth, in units.elevation')}
     },
     "zones": {
 ${field('zones', 'id', 'unique text id of each zone')}
@@ -159,15 +173,21 @@ ${field('zones', 'base', 'aquifer base elevation, in units.elevation')}
 ${field('zones', 'ground', 'ground elevation, in units.elevation')}
 ${field('zones', 'recharge', 'areal recharge, in units.recharge')}
 ${field('zones', 'edgeHead', 'optional: the head held where the zone meets the aquifer\'s outer edge (else no flow there), in units.elevation')}
-    }
+${field('zones', 'kLow', 'optional, for --samples: K range, P10, in units.k')}
+${field('zones', 'kHigh', 'optional, for --samples: K range, P90, in units.k')}
+${field('zones', 'kLogSd', 'optional, for --samples: or the standard deviation of ln K')}
+    },
+    // The wells file of --wells (points): its id, the observed water-table elevation (units.elevation) and an optional date.
+    "wells": { "id": "id", "observed": "water_table_m", "date": "date" }
   },
   // Your words for the two kinds of line (compared without case).${kindValues.length > 0 ? `\n  // Values of "${kindHit.name}" in your file: ${kindValues.map((value) => JSON.stringify(value)).join(', ')}` : ''}
   "kindWords": { "canal": ["canal"], "drain": ["drain"] },
   // Units of your attributes: k in ${CONDUCTIVITY_UNITS.map((unit) => `"${unit}"`).join(', ')}; recharge in ${RECHARGE_UNITS.map((unit) => `"${unit}"`).join(', ')};
   // elevations (stages, base, ground) in "m" or "ft". All elevations in ONE vertical datum.
   "units": { "k": "m/d", "recharge": "mm/yr", "elevation": "m" },
-  // Used where a feature leaves the attribute out (recharge in units.recharge).
-  "defaults": { "kind": "canal", "recharge": 0 },
+  // Used where a feature leaves the attribute out (recharge in units.recharge; bed resistance in days, 0 a clean bed;
+  // wetted perimeter in m, null for none; side slope horizontal over vertical, for the perimeter from width and depth).
+  "defaults": { "kind": "canal", "recharge": 0, "bedResistanceD": 0, "wettedPerimeterM": null, "bankSlope": 1.5 },
   // CRS of your files when they do not declare one (EPSG:<code>, a proj4 string, or null).
   "inputCrs": null, // ${crsLine ? `your files declare ${crsLine}` : 'your files declare no CRS: lon/lat (WGS 84) is assumed'}
   // Screening options.

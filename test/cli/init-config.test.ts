@@ -64,6 +64,25 @@ describe('doab init-config', () => {
     expect(readFileSync(join(out, 'ranking.csv'), 'utf8')).toBe(readFileSync(join(reference, 'ranking.csv'), 'utf8'));
   });
 
+  it("offers the optional bed, K range and wells fields, matched where the file has them, and check accepts the result", async () => {
+    const dir = freshDir('init-beds');
+    const canals = readJson(join(PAIR, 'canals.geojson'));
+    for (const feature of canals.features) Object.assign(feature.properties, { CLOGGING: 20, BED_WIDTH: 3, FLOW_DEPTH: 1.2 });
+    writeFileSync(join(dir, 'canals.geojson'), JSON.stringify(canals));
+    const out = join(dir, 'doab.jsonc');
+    const run = await runCliInProcess(['init-config', '--canals', join(dir, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--out', out]);
+    expect(run.status, run.stderr).toBe(0);
+    const text = readFileSync(out, 'utf8');
+    const parsed = parseConfig(out, text);
+    expect(parsed.rules.fields.lines).toMatchObject({ bedResistance: 'CLOGGING', bottomWidth: 'BED_WIDTH', waterDepth: 'FLOW_DEPTH', wettedPerimeter: 'wetted_perimeter_m' });
+    expect(text).toMatch(/"wettedPerimeter": "wetted_perimeter_m", \/\/ optional: .*; not in your file/);
+    expect(parsed.rules.fields.wells).toEqual({ id: 'id', observed: 'water_table_m', date: 'date' });
+    expect(parsed.rules.defaults).toMatchObject({ bedResistanceD: 0, wettedPerimeterM: null, bankSlope: 1.5 });
+    expect(text).not.toMatch(/NOT FOUND/);
+    const checked = await runCliInProcess(['check', '--canals', join(dir, 'canals.geojson'), '--aquifer', join(PAIR, 'aquifer.geojson'), '--config', out]);
+    expect(checked.status, checked.stdout + checked.stderr).toBe(0);
+  });
+
   it('does not overwrite a file unless told to', async () => {
     const dir = freshDir('init-config-force');
     const config = join(dir, 'doab.jsonc');
