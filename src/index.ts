@@ -203,12 +203,14 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
 }
 
 /** Writes every file of a run into outDir, or none; removes what an earlier doab run there left that this one does not write. */
-export async function writeRun(outDir: string, result: ScreenResult, options: WriteRunOptions): Promise<{ written: string[]; removed: string[] }> {
+export async function writeRun(outDir: string, result: ScreenResult, options: WriteRunOptions): Promise<{ written: string[]; removed: string[]; runRecord: string }> {
   const { district } = options;
   const files = runFiles(result, options);
   // the names this run writes, no more: a file of the user's under a name it does not write stays where it is
   checkOutputFolder(outDir, [district.canals?.path, district.aquifer?.path, options.configFile, options.wells?.file.path].flatMap((path) => (path ? filesOfInput(path) : [])), new Set(files.map((file) => file.name)));
-  return writeRunFolder(outDir, files);
+  // the run record as written, for a database that keeps it beside the layers
+  const runRecord = files.find((file) => file.name === 'run.json')?.content as string;
+  return { ...(await writeRunFolder(outDir, files)), runRecord };
 }
 
 function isObject(value: unknown): value is Record<string, unknown> {
@@ -495,3 +497,5 @@ export function spreadOfRun(district: LoadedDistrict, config: RunConfig, result:
   }
   return spread;
 }
+
+export { writeToPostgis, redactedUrl, checkSchemaName } from './output/postgis.js';

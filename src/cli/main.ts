@@ -56,6 +56,9 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
   screen
     .option('--seq', 'write the layers as GeoJSON text sequences (RFC 8142, .geojsons) instead of FeatureCollections')
     .option('--skip-invalid', 'leave out invalid features instead of stopping; run.json lists them')
+    .option('--to-postgis <url>', 'also write the layers, ranking and run record into PostGIS (connection string; password from PGPASSWORD or ~/.pgpass)')
+    .option('--pg-schema <name>', 'schema to write into (created if missing; default doab)')
+    .option('--pg-if-exists <mode>', 'a run of the same id already in the schema: replace or refuse (default refuse)')
     .option('--quiet', 'print only errors and the caution line')
     .option('--dem <file>', 'ground elevations (GeoTIFF, one band): depths and risk follow it instead of each zone\'s ground_m')
     .option('--dem-crs <crs>', 'the DEM\'s CRS when its GeoKeys name none (EPSG:<code>, proj4 or WKT)')

@@ -1,4 +1,5 @@
 // `doab screen`: read and check, screen, write all outputs or none, print the summary.
+import { basename, resolve } from 'node:path';
 import {
   applyFlags,
   checkOutputFolder,
@@ -17,6 +18,9 @@ import {
   writeRun,
   type ProgressListener,
   checkAgainstWells,
+  checkSchemaName,
+  redactedUrl,
+  writeToPostgis,
   spreadOfRun,
   readDem,
   loadWells,
@@ -40,6 +44,9 @@ export interface ScreenOptions {
   seed?: string;
   dem?: string;
   demCrs?: string;
+  toPostgis?: string;
+  pgSchema?: string;
+  pgIfExists?: string;
   correlatedK?: boolean;
   /** The settings' flags (--step and the rest), by commander's attribute names. */
   [flag: string]: unknown;
@@ -50,6 +57,11 @@ export function runConfig(options: { config?: string; [flag: string]: unknown })
   const config = readConfig(options.config);
   applyFlags(config.settings, options);
   return config;
+}
+
+/** The command line with a connection string's password masked: run.json and the report record it. */
+function recordedArgv(argv: string[]): string[] {
+  return argv.map((arg, i) => (argv[i - 1] === '--to-postgis' ? redactedUrl(arg) : arg.startsWith('--to-postgis=') ? `--to-postgis=${redactedUrl(arg.slice(13))}` : arg));
 }
 
 /** Draws at most (each solves every strip again). */
@@ -69,6 +81,17 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   if (!Number.isInteger(seed) || seed < 0 || seed > 2 ** 32 - 1) throw new UsageError(`--seed must be a whole number from 0 to ${2 ** 32 - 1}, found ${JSON.stringify(options.seed)}`, 'seed');
   if ((options.seed !== undefined || options.correlatedK) && samples === null) throw new UsageError('--seed and --correlated-k need --samples', 'samples');
   if (options.demCrs !== undefined && !options.dem) throw new UsageError('--dem-crs needs --dem', 'dem');
+  const pgIfExists = options.pgIfExists ?? 'refuse';
+  if (pgIfExists !== 'replace' && pgIfExists !== 'refuse') throw new UsageError(`--pg-if-exists must be replace or refuse, found ${JSON.stringify(pgIfExists)}`, 'pg-if-exists');
+  if ((options.pgSchema !== undefined || options.pgIfExists !== undefined) && options.toPostgis === undefined) throw new UsageError('--pg-schema and --pg-if-exists need --to-postgis', 'to-postgis');
+  const pgSchema = options.pgSchema ?? 'doab';
+  if (options.toPostgis !== undefined) {
+    try {
+      checkSchemaName(pgSchema);
+    } catch (error) {
+      throw new UsageError(`--pg-schema: ${(error as Error).message}`, 'pg-schema');
+    }
+  }
   checkOutputFolder(
     options.out,
     [options.canals, options.aquifer, options.config, options.wells, options.dem].flatMap((path) => (path ? filesOfInput(path) : [])),
@@ -94,11 +117,11 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   const spread = samples === null ? undefined : spreadOfRun(district, config, result, { samples, seed, correlated: Boolean(options.correlatedK) });
   for (const warning of result.warnings) log(`warning: ${warning}`);
   log(`solved ${result.counts.solvedFacings} of ${result.counts.facingsByReason.paired} paired transect sides; ${result.counts.strips} strips`);
-  const { written, removed } = await writeRun(options.out, result, {
+  const { written, removed, runRecord } = await writeRun(options.out, result, {
     district,
     config,
     configFile: options.config ?? null,
-    commandLine: ['doab', ...argv],
+    commandLine: ['doab', ...recordedArgv(argv)],
     startedAt,
     format: options.seq ? 'sequence' : 'collection',
     wells: checked && wells?.file ? { outcome: checked.outcome, file: wells.file } : undefined,
@@ -106,6 +129,12 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     dem,
   });
   log(`wrote ${written.join(', ')} to ${options.out}${removed.length > 0 ? `; removed ${removed.join(', ')} left by the previous run` : ''}`);
+  if (options.toPostgis !== undefined) {
+    // the run's id is its output folder's name: rerunning into the same folder is the same run
+    const runId = basename(resolve(options.out));
+    const { tables } = await writeToPostgis(result, { url: options.toPostgis, schema: pgSchema, runId, runRecord, ifExists: pgIfExists });
+    log(`wrote run ${runId} to PostGIS at ${redactedUrl(options.toPostgis)}, schema ${pgSchema}: ${Object.entries(tables).map(([table, rows]) => `${table} ${rows}`).join(', ')}`);
+  }
   if (!options.quiet) io.out(summaryText(result, 10, errors.length, checked?.outcome, spread));
   else io.err(`${CAUTION}\n`);
   return 0;

@@ -2,6 +2,8 @@
 // postgresql-15-postgis-3; initdb refuses root, so under root the cluster runs as the postgres
 // system user). Row counts against the layers, valid geometry in the work CRS's SRID, a strip's
 // area against doab's own, rerun replaced or refused, and failures that leave nothing behind.
+import { readFileSync } from 'node:fs';
+import { freshDir, readJson, ROOT, runCliInProcess } from '../cli/run-cli.js';
 import { execFileSync } from 'node:child_process';
 import { chownSync, existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { createServer } from 'node:net';
@@ -134,7 +136,10 @@ describe('writing a run into PostGIS', () => {
     if (missing()) return;
     const strips = featureCount(stripsLayer(demo)), lines = featureCount(linesLayer(demo));
     expect(strips).toBeGreaterThan(5);
+    const started = performance.now();
     const written = await writeToPostgis(demo, options('demo-1'));
+    // a figure for the README, not a timed test
+    console.log(`demo (strips only) written to PostGIS in ${((performance.now() - started) / 1000).toFixed(2)} s`);
     expect(written.tables).toEqual({ runs: 1, strips, lines, ranking: strips });
     expect(await rowsOf('doab', 'strips', 'demo-1')).toBe(strips);
     expect(await rowsOf('doab', 'lines', 'demo-1')).toBe(lines);
@@ -256,6 +261,28 @@ describe('writing a run into PostGIS', () => {
     const nan: ScreenResult = { ...demo, strips: [{ ...demo.strips[0], strip: { ...demo.strips[0].strip, ringM: ring } }, ...demo.strips.slice(1)] };
     await expect(writeToPostgis(nan, options('nan', { schema: 'nan_run' }))).rejects.toThrow(new RegExp(`coordinate in strip ${demo.strips[0].stripId}: NaN`));
     expect(await schemaExists('nan_run')).toBe(false);
+  });
+
+  it('is written by doab screen --to-postgis, with the password masked in run.json and the report', async () => {
+    if (missing()) return;
+    const out = join(freshDir('pg-cli'), 'cli-run');
+    // the test cluster trusts its users: a password in the URL is accepted and must never be recorded
+    const secret = 'n0t-Recorded';
+    const withPassword = url.replace('postgresql://', `postgresql://postgres:${secret}@`).replace(/@([^@]*@)/, '@');
+    const run = await runCliInProcess(['screen', '--canals', join(ROOT, 'data-demo/canals.geojson'), '--aquifer', join(ROOT, 'data-demo/aquifer.geojson'), '--out', out, '--strips-only', '--to-postgis', withPassword, '--pg-schema', 'cli_run']);
+    expect(run.status, run.stderr).toBe(0);
+    expect(run.stderr, run.stderr.slice(-600)).toMatch(/wrote run cli-run to PostGIS at .*\*\*\*.*, schema cli_run: runs 1, strips \d+/);
+    expect(await rowsOf('cli_run', 'strips', 'cli-run')).toBe(readJson(join(out, 'strips.geojson')).features.length);
+    for (const name of ['run.json', 'report.html']) {
+      const text = readFileSync(join(out, name), 'utf8');
+      expect(text, name).not.toContain(secret);
+    }
+    expect(JSON.stringify(readJson(join(out, 'run.json')).command_line)).toContain('***');
+    // the same folder again is the same run: refused by default, replaced when asked
+    const again = await runCliInProcess(['screen', '--canals', join(ROOT, 'data-demo/canals.geojson'), '--aquifer', join(ROOT, 'data-demo/aquifer.geojson'), '--out', out, '--strips-only', '--to-postgis', withPassword, '--pg-schema', 'cli_run']);
+    expect(again.status).not.toBe(0);
+    expect(again.stderr).toMatch(/cli-run/);
+    expect(again.stderr).not.toContain(secret);
   });
 
   it('never puts the password in an error message', async () => {
