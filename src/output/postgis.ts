@@ -6,7 +6,7 @@ import pg from 'pg';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
 import { workCrsWkt } from './geopackage.js';
-import { linesLayer, rankingRow, RANKING_COLUMNS, stripProperties } from './layers.js';
+import { linesLayer, rankingRow, RANKING_COLUMNS, stripProperties, transectsLayer } from './layers.js';
 
 export interface PostgisOptions {
   /** Connection string; the password best comes from PGPASSWORD or a password file (pg reads both). */
@@ -151,7 +151,7 @@ function closedRing(ringM: Float64Array): Float64Array {
 // ---- the tables
 
 interface Table {
-  name: 'strips' | 'lines' | 'ranking';
+  name: 'strips' | 'lines' | 'transects' | 'ranking';
   /** the key beside run_id */
   key: Column;
   geometryType: 'Polygon' | 'MultiLineString' | null;
@@ -199,6 +199,26 @@ function linesTable(result: ScreenResult): Table {
     return wkb(WKB_MULTILINESTRING, line.parts);
   });
   return { name: 'lines', key, geometryType: 'MultiLineString', columns, rows, geometries };
+}
+
+/** The transects layer (with --transects), keyed by the transect side's number in the run; each a one-part MultiLineString. */
+function transectsTable(result: ScreenResult): Table {
+  const rows = [...layerProperties(transectsLayer(result, 'sequence'))];
+  const { stations, facings } = result;
+  const sides: number[] = [];
+  // the layer's own order: every side with a partner
+  for (let i = 0; i < facings.count; i++) if (facings.partner[i] >= 0) sides.push(i);
+  rows.forEach((row, k) => (row.side_number = sides[k]));
+  const key: Column = { name: 'side_number', key: 'side_number', type: 'bigint' };
+  const text = new Set(['line', 'side', 'partner', 'reason', 'solve']);
+  const columns = columnsOf(rows, ['run_id', GEOMETRY_COLUMN, 'side_number'], (k) => !text.has(k)).filter((c) => c.key !== 'side_number');
+  const geometries = sides.map((i) => {
+    const station = i >> 1;
+    const part = Float64Array.of(stations.x[station], stations.y[station], facings.endX[i], facings.endY[i]);
+    checkFinite([part], `transect side ${i}`);
+    return wkb(WKB_MULTILINESTRING, [part]);
+  });
+  return { name: 'transects', key, geometryType: 'MultiLineString', columns, rows, geometries };
 }
 
 function rankingTable(result: ScreenResult): Table {
@@ -333,7 +353,7 @@ export async function writeToPostgis(result: ScreenResult, options: PostgisOptio
   if (runId === '') throw new Error('Unexpected run id: empty.');
   const startedAt = startedAtOf(options.runRecord);
   // built before connecting: a bad geometry is found before the database is touched
-  const tables = [stripsTable(result), linesTable(result), rankingTable(result)];
+  const tables = [stripsTable(result), linesTable(result), ...(result.settings.writeTransects ? [transectsTable(result)] : []), rankingTable(result)];
 
   const client = new pg.Client({ connectionString: options.url });
   // an error on an idle connection must not crash the process; the query in flight reports it

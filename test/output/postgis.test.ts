@@ -11,7 +11,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { layerText, linesLayer, stripProperties, stripsLayer } from '../../src/output/layers.js';
+import { layerText, linesLayer, stripProperties, stripsLayer, transectsLayer } from '../../src/output/layers.js';
 import { writeToPostgis, type PostgisOptions } from '../../src/output/postgis.js';
 import type { ScreenResult } from '../../src/screening/screen.js';
 import { DEMO_AQUIFER, DEMO_CANALS, screenFiles } from '../report/demo-result.js';
@@ -283,6 +283,16 @@ describe('writing a run into PostGIS', () => {
     expect(again.status).not.toBe(0);
     expect(again.stderr).toMatch(/cli-run/);
     expect(again.stderr).not.toContain(secret);
+  });
+
+  it('writes the transects too when the run has them, one row per transect side of the layer', async () => {
+    if (missing()) return;
+    const { result } = await screenFiles(DEMO_CANALS, DEMO_AQUIFER, { stripsOnly: true, writeTransects: true });
+    const written = await writeToPostgis(result, options('with-transects', { schema: 'transect_run' }));
+    const sides = featureCount(transectsLayer(result));
+    expect(written.tables.transects).toBe(sides);
+    expect(await rowsOf('transect_run', 'transects', 'with-transects')).toBe(sides);
+    expect(await count("SELECT count(*) AS n FROM transect_run.transects WHERE NOT ST_IsValid(geom) OR ST_NPoints(geom) <> 2")).toBe(0);
   });
 
   it('never puts the password in an error message', async () => {
