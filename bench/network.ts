@@ -3,17 +3,10 @@
 import type { LineGeometry } from '../src/geometry/index.js';
 import { chooseWorkCrs } from '../src/geometry/work-crs.js';
 
-/** Small seeded generator (mulberry32) so a network is the same on every run. */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seededRandom } from '../src/shared/random.js';
+
+// the seeded generator, so a network is the same on every run
+export { seededRandom };
 
 /** `count` lines: about 9 in 10 run east-west in rows, the rest cross them at an angle. */
 export function syntheticNetwork(count: number, seed = 1): LineGeometry[] {

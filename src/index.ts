@@ -21,7 +21,7 @@ import { profileFileName, profileTable } from './output/profile-table.js';
 import { districtRasters } from './output/rasters.js';
 import { CAUTION, runRecord } from './output/run-record.js';
 import { orientFromLineA, renderProfileSvg } from './report/profile-svg.js';
-import { renderReport } from './report/report.js';
+import { renderReport, type ReportMeta } from './report/report.js';
 import { keyFacing, profileOfFacing, type Profile } from './screening/profile.js';
 import { checkRunBudget } from './screening/budget.js';
 import { screenDistrict, type ProgressListener, type ScreenExtras, type ScreenResult } from './screening/screen.js';
@@ -89,6 +89,15 @@ export { LINING_COLUMNS, PROGRAMME_COLUMNS } from './output/lining-tables.js';
 /** The config file's settings over the defaults, or the defaults when no file is named. */
 export function readConfig(path?: string): RunConfig {
   return path ? parseConfig(path, readTextFile(path)) : defaultConfig();
+}
+
+/** The report's account of the inputs: each file with its SHA-256 and CRS, and the problems the checks found. */
+function reportInputs(district: LoadedDistrict): Pick<ReportMeta, 'inputs' | 'inputWarnings'> {
+  const files = [['canals', district.canals], ['aquifer', district.aquifer]] as const;
+  return {
+    inputs: files.flatMap(([label, file]) => (file ? [{ label, path: file.path, sha256: file.sha256, sourceCrs: file.sourceCrs }] : [])),
+    inputWarnings: district.problems.map(formatProblem),
+  };
 }
 
 /** A DEM as the screening takes it. */
@@ -166,11 +175,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       version: VERSION,
       commandLine,
       startedAt,
-      inputs: [
-        { label: 'canals', path: district.canals.path, sha256: district.canals.sha256, sourceCrs: district.canals.sourceCrs },
-        { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256, sourceCrs: district.aquifer.sourceCrs },
-      ],
-      inputWarnings: district.problems.map(formatProblem),
+      ...reportInputs(district),
       rules: config.rules,
       wells: options.wells?.outcome,
       spread: options.spread,
@@ -388,11 +393,7 @@ export function liningFiles({ outcome, run, planSha256 }: LiningRun, commandLine
         version: VERSION,
         commandLine,
         startedAt,
-        inputs: [
-          { label: 'canals', path: district.canals.path, sha256: district.canals.sha256, sourceCrs: district.canals.sourceCrs },
-          { label: 'aquifer', path: district.aquifer.path, sha256: district.aquifer.sha256, sourceCrs: district.aquifer.sourceCrs },
-        ],
-        inputWarnings: district.problems.map(formatProblem),
+        ...reportInputs(district),
         rules: config.rules,
         lining: outcome,
       }),

@@ -3,6 +3,7 @@
 // table, the run record as metadata, and the SLD styles in the layer_styles table desktop GIS reads
 // on opening. Built with better-sqlite3 in a temporary file that is always removed; the caller
 // writes the returned bytes with the run's atomic writer. Same result and options, same bytes.
+import { closedRing, layerProperties, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
 import Database from 'better-sqlite3';
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
@@ -35,18 +36,7 @@ interface Column {
   type: SqlType;
 }
 
-const quoteId = (name: string) => `"${name.replace(/"/g, '""')}"`;
 
-/** The lon/lat layer's features, one record at a time, properties exactly as the GeoJSON writes them. */
-function* layerProperties(pieces: Iterable<string>): Generator<Record<string, unknown>> {
-  let rest = '';
-  for (const piece of pieces) {
-    const records = (rest + piece).split('\u001e');
-    rest = records.pop() ?? '';
-    for (const record of records) if (record.trim() !== '') yield JSON.parse(record).properties;
-  }
-  if (rest.trim() !== '') yield JSON.parse(rest).properties;
-}
 
 // doab's own numbers carry a unit in their name; a field of doab's that is null in every feature
 // keeps its type by that name (a strips-only run has no district figures)
@@ -117,7 +107,6 @@ function extend(env: Envelope, coords: Float64Array): void {
   }
 }
 
-const WKB_LINESTRING = 2, WKB_POLYGON = 3, WKB_MULTILINESTRING = 5;
 
 /** A geometry blob: `kind` polygon (one ring per part), multilinestring or linestring (one part). */
 function geometryBlob(srsId: number, kind: number, parts: Float64Array[]): { blob: Buffer; env: Envelope } {
@@ -162,16 +151,6 @@ function geometryBlob(srsId: number, kind: number, parts: Float64Array[]): { blo
   return { blob: buffer, env };
 }
 
-/** A strip's ring closed, as WKB wants it. */
-function closedRing(ringM: Float64Array): Float64Array {
-  const n = ringM.length;
-  if (n >= 2 && ringM[0] === ringM[n - 2] && ringM[1] === ringM[n - 1]) return ringM;
-  const ring = new Float64Array(n + 2);
-  ring.set(ringM);
-  ring[n] = ringM[0];
-  ring[n + 1] = ringM[1];
-  return ring;
-}
 
 // ---- the work CRS's definition
 

@@ -2,6 +2,7 @@
 // them, in a schema of the user's choosing, geometry in the work CRS (its SRID registered when the
 // database lacks it), keyed by run id, with a table of runs. One transaction: a failure anywhere
 // leaves the database as it was.
+import { closedRing, layerProperties, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
 import pg from 'pg';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
@@ -31,7 +32,6 @@ const MAX_PARAMETERS = 30000, MAX_BATCH_ROWS = 1000;
 const ADVISORY_LOCK_KEY = 0x646f6162; // 'doab'
 const GEOMETRY_COLUMN = 'geom';
 
-const quoteId = (name: string) => `"${name.replace(/"/g, '""')}"`;
 
 /** The connection string without its password, for messages. */
 export function redactedUrl(url: string): string {
@@ -104,7 +104,6 @@ function columnsOf(rows: Record<string, unknown>[], reserved: string[], isDoabRe
 
 // ---- geometry as little-endian WKB (ISO 13249-3) [published], the same rings and parts as the GeoPackage
 
-const WKB_LINESTRING = 2, WKB_POLYGON = 3, WKB_MULTILINESTRING = 5;
 
 function checkFinite(parts: Float64Array[], what: string): void {
   for (const part of parts) {
@@ -137,16 +136,6 @@ function wkb(kind: typeof WKB_POLYGON | typeof WKB_MULTILINESTRING, parts: Float
   return buffer;
 }
 
-/** A strip's ring closed, as WKB wants it. */
-function closedRing(ringM: Float64Array): Float64Array {
-  const n = ringM.length;
-  if (n >= 2 && ringM[0] === ringM[n - 2] && ringM[1] === ringM[n - 1]) return ringM;
-  const ring = new Float64Array(n + 2);
-  ring.set(ringM);
-  ring[n] = ringM[0];
-  ring[n + 1] = ringM[1];
-  return ring;
-}
 
 // ---- the tables
 
@@ -160,16 +149,6 @@ interface Table {
   geometries: Buffer[] | null;
 }
 
-/** The lines layer's properties, one record at a time, exactly as the GeoJSON writes them. */
-function* layerProperties(pieces: Iterable<string>): Generator<Record<string, unknown>> {
-  let rest = '';
-  for (const piece of pieces) {
-    const records = (rest + piece).split('\u001e');
-    rest = records.pop() ?? '';
-    for (const record of records) if (record.trim() !== '') yield JSON.parse(record).properties;
-  }
-  if (rest.trim() !== '') yield JSON.parse(rest).properties;
-}
 
 function stripsTable(result: ScreenResult): Table {
   const rows = result.strips.map(stripProperties);

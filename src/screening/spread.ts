@@ -8,6 +8,7 @@ import { buildLineTable, buildStrips } from '../geometry/index.js';
 import { RISK_CLASSES, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 import type { InputRules } from '../shared/input-rules.js';
 import { kToMPerDay } from '../shared/units.js';
+import { seededRandom } from '../shared/random.js';
 import type { Problem } from '../shared/errors.js';
 import { summariseLines, summariseStrip } from './aggregate.js';
 import type { ZoneRecord } from './district-inputs.js';
@@ -109,17 +110,6 @@ export function readZoneSpreads(file: string, features: readonly unknown[], zone
   return { spreads, problems };
 }
 
-/** A seeded generator of uniform draws in [0, 1) (mulberry32, a public-domain 32-bit generator [from memory]). */
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** A standard normal deviate from two uniform draws (Box-Muller, G.E.P. Box and M.E. Muller (1958), Ann. Math. Stat. 29, 610-611 [from memory]). */
 function normal(random: () => number): number {
@@ -144,7 +134,7 @@ export function spreadFromK(result: ScreenResult, spreads: readonly ZoneSpread[]
   const { lines, zones, stations, facings, zoneIndex, lineLengthsM, geometries } = result;
   const settings: ScreenSettings = { ...result.settings, stripsOnly: true };
   const lineTable = buildLineTable(geometries);
-  const random = seeded(options.seed);
+  const random = seededRandom(options.seed);
   const stripIds = result.strips.map((strip) => strip.stripId);
   const stripIndex = new Map(stripIds.map((id, i) => [id, i]));
   const n = options.samples;

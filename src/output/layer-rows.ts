@@ -1,0 +1,31 @@
+// What the database writers (the GeoPackage and PostGIS) share: a layer's records read back from
+// the GeoJSON writer's own text, so every writer gives the same attributes; rings closed as WKB
+// wants them; quoted SQL identifiers; the WKB geometry type codes.
+
+/** A layer's features one record at a time (the layer written as an RFC 8142 sequence), properties exactly as the GeoJSON writes them. */
+export function* layerProperties(pieces: Iterable<string>): Generator<Record<string, unknown>> {
+  let rest = '';
+  for (const piece of pieces) {
+    const records = (rest + piece).split('\u001e');
+    rest = records.pop() ?? '';
+    for (const record of records) if (record.trim() !== '') yield JSON.parse(record).properties;
+  }
+  if (rest.trim() !== '') yield JSON.parse(rest).properties;
+}
+
+/** A strip's ring closed, as WKB wants it. */
+export function closedRing(ringM: Float64Array): Float64Array {
+  const n = ringM.length;
+  if (n >= 2 && ringM[0] === ringM[n - 2] && ringM[1] === ringM[n - 1]) return ringM;
+  const ring = new Float64Array(n + 2);
+  ring.set(ringM);
+  ring[n] = ringM[0];
+  ring[n + 1] = ringM[1];
+  return ring;
+}
+
+/** An SQL identifier, double-quoted with its own quotes doubled. */
+export const quoteId = (name: string) => `"${name.replace(/"/g, '""')}"`;
+
+// OGC Simple Features, well-known binary geometry types [published]
+export const WKB_LINESTRING = 2, WKB_POLYGON = 3, WKB_MULTILINESTRING = 5;
