@@ -111,3 +111,16 @@ export function convexHull(points: Float64Array): Float64Array {
   });
   return out;
 }
+
+/** Even-odd test of a point against rings of interleaved x, y (an outer ring and its holes). */
+export function pointInRings(x: number, y: number, rings: readonly Float64Array[]): boolean {
+  let inside = false;
+  for (const ring of rings) {
+    const n = ring.length / 2;
+    for (let i = 0, j = n - 1; i < n; j = i++) {
+      const xi = ring[2 * i], yi = ring[2 * i + 1], xj = ring[2 * j], yj = ring[2 * j + 1];
+      if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) inside = !inside;
+    }
+  }
+  return inside;
+}

@@ -8,6 +8,9 @@ import { lengthToM } from '../shared/units.js';
 import type { FigureMethod, ScreenResult } from './screen.js';
 import { loadCut, setBeds } from './solve-facings.js';
 import { cutTransect } from '../geometry/index.js';
+import { boxIndex } from '../geometry/box-index.js';
+import { pointInRings } from '../geometry/rings.js';
+import type Flatbush from 'flatbush';
 
 export interface WellRecord {
   /** Index of the feature in its file. */
@@ -95,19 +98,6 @@ export function checkWells(file: string, features: unknown[], rules: InputRules)
   return { records, problems };
 }
 
-/** Even-odd test of a point against rings of interleaved x, y (an outer ring and its holes). */
-function insideRings(x: number, y: number, rings: readonly Float64Array[]): boolean {
-  let inside = false;
-  for (const ring of rings) {
-    const n = ring.length / 2;
-    for (let i = 0, j = n - 1; i < n; j = i++) {
-      const xi = ring[2 * i], yi = ring[2 * i + 1], xj = ring[2 * j], yj = ring[2 * j + 1];
-      if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) inside = !inside;
-    }
-  }
-  return inside;
-}
-
 function summary(residuals: readonly number[]): ResidualSummary {
   const count = residuals.length;
   if (count === 0) return { count, meanErrorM: NaN, rmseM: NaN };
@@ -140,11 +130,13 @@ function districtHeadAt(result: ScreenResult, x: number, y: number): number {
  * The strips' water table at (x, y): the strip whose polygon holds the point, its solved transect
  * cast from line a nearest the point, the head at the point's distance along it. NaN outside every strip.
  */
-function stripHeadAt(result: ScreenResult, x: number, y: number, solver: TransectSolver): number {
+function stripHeadAt(result: ScreenResult, stripTree: Flatbush, x: number, y: number, solver: TransectSolver): number {
   const { stations, facings, results } = result;
-  for (const strip of result.strips) {
+  // the strips whose box holds the point, in the strips' own order
+  for (const s of stripTree.search(x, y, x, y).sort((a, b) => a - b)) {
+    const strip = result.strips[s];
     const ring = strip.strip.ringM;
-    if (!insideRings(x, y, [ring])) continue;
+    if (!pointInRings(x, y, [ring])) continue;
     let best = -1, bestD = Infinity, bestT = 0;
     for (const facing of strip.facingsA) {
       if (results.status[facing] !== SOLVE_OK) continue;
@@ -170,11 +162,24 @@ function stripHeadAt(result: ScreenResult, x: number, y: number, solver: Transec
 /** Each well's computed water table and residual, with summaries for the district and per zone. */
 export function compareWells(result: ScreenResult, wells: readonly WellRecord[], file: string): WellComparison {
   const solver = new TransectSolver(64);
+  // boxes of the strips, so that a well looks only at the strips around it
+  const stripTree = boxIndex(result.strips.length, (s, add) => {
+    const ring = result.strips[s].strip.ringM;
+    let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+    for (let i = 0; i < ring.length; i += 2) {
+      minX = Math.min(minX, ring[i]); maxX = Math.max(maxX, ring[i]);
+      minY = Math.min(minY, ring[i + 1]); maxY = Math.max(maxY, ring[i + 1]);
+    }
+    add(minX, minY, maxX, maxY);
+  });
   const figures: WellFigure[] = wells.map((well) => {
     const [x, y] = result.crs.forward([well.lon, well.lat]);
-    const { polygons } = result.zoneIndex;
+    const { polygons, polygonTree } = result.zoneIndex;
+    // the first zone (in the zones' order, as the solve takes overlaps) whose polygon holds the well
     let polygon = -1;
-    for (let p = 0; p < polygons.count && polygon < 0; p++) if (insideRings(x, y, polygons.rings[p])) polygon = p;
+    for (const p of polygonTree.search(x, y, x, y).sort((a, b) => a - b)) {
+      if (pointInRings(x, y, polygons.rings[p])) { polygon = p; break; }
+    }
     const zone = polygon >= 0 ? polygons.zone[polygon] : -1;
     const zoneId = zone >= 0 ? result.zones[zone].id : null;
     let computedM = NaN, method: FigureMethod | null = null, note = '';
@@ -183,7 +188,7 @@ export function compareWells(result: ScreenResult, wells: readonly WellRecord[],
       computedM = districtHeadAt(result, x, y);
       if (Number.isFinite(computedM)) method = 'district';
       else {
-        computedM = stripHeadAt(result, x, y, solver);
+        computedM = stripHeadAt(result, stripTree, x, y, solver);
         if (Number.isFinite(computedM)) method = 'strips';
         else note = result.district ? 'outside the district solve' : 'outside every strip (no transect of the strips reaches it)';
       }
