@@ -95,7 +95,10 @@ export function readZoneSpreads(file: string, features: readonly unknown[], zone
       if (low === null || high === null) return { medianMPerDay: zone.kMPerDay, logSd: 0 };
       if (!(high >= low)) problems.push({ severity: 'error', place: place(f.kHigh), message: `"${f.kHigh}" ${high} is below "${f.kLow}" ${low}` });
       const lowM = kToMPerDay(low, rules.units.k), highM = kToMPerDay(high, rules.units.k);
-      return { medianMPerDay: Math.sqrt(lowM * highM), logSd: Math.log(highM / lowM) / (2 * Z90) };
+      // a K the run scaled (the multipliers fitted to wells, --apply-k-fit) moves the range with it
+      const givenK = properties[f.k];
+      const scale = typeof givenK === 'number' && givenK > 0 ? zone.kMPerDay / kToMPerDay(givenK, rules.units.k) : 1;
+      return { medianMPerDay: Math.sqrt(lowM * highM) * scale, logSd: Math.log(highM / lowM) / (2 * Z90) };
     }
     if (given(f.kLogSd)) {
       const value = properties[f.kLogSd];

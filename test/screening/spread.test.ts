@@ -44,6 +44,14 @@ describe('spread from uncertain K', () => {
     }
   });
 
+  it('moves a range with a K the run scaled (multipliers fitted to wells, applied)', () => {
+    const { result, spreads } = pair(10, 0, { k_low_m_d: 5, k_high_m_d: 20 });
+    const zoneFeatures = [box('Z', { k_m_d: 10, base_m: BASE, ground_m: 120, recharge_mm_yr: 0, k_low_m_d: 5, k_high_m_d: 20 }, [0, -L, LENGTH, 0])];
+    const scaled = readZoneSpreads('zones.geojson', zoneFeatures, [{ ...result.zones[0], kMPerDay: 20 }], DEFAULT_RULES).spreads[0];
+    expect(scaled.medianMPerDay).toBeCloseTo(2 * spreads.spreads[0].medianMPerDay, 12);
+    expect(scaled.logSd).toBe(spreads.spreads[0].logSd);
+  });
+
   it('gives one answer for one seed, another for another', () => {
     const { result, spreads } = pair(10, 200, { k_log_sd: 0.5 });
     const once = spreadFromK(result, spreads.spreads, { samples: 50, seed: 3, correlated: false, top: 20 });
