@@ -68,7 +68,7 @@ export function wellsRecord(outcome: WellsOutcome, sha256: string | null) {
       rmse_before_m: roundNumber(fit.rmseBeforeM),
       rmse_after_m: roundNumber(fit.rmseAfterM),
       screenings: fit.screenings,
-      zones: fit.zones.map((zone) => ({ zone_id: zone.zoneId, multiplier: roundNumber(zone.multiplier), wells: zone.wells, at_bound: zone.atBound })),
+      zones: fit.zones.map((zone) => ({ zone_id: zone.zoneId, multiplier: roundNumber(zone.multiplier), wells: zone.wells, at_bound: zone.atBound, fitted: zone.fitted })),
     },
   };
 }
@@ -77,11 +77,13 @@ export function wellsRecord(outcome: WellsOutcome, sha256: string | null) {
 export function wellsText(outcome: WellsOutcome): string {
   const { comparison, fit } = outcome;
   const f = (v: number, d: number) => (Number.isFinite(v) ? v.toFixed(d) : '-');
-  const fitted = fit.zones.filter((zone) => zone.wells > 0);
+  const fitted = fit.zones.filter((zone) => zone.fitted);
+  const leftOut = fit.zones.filter((zone) => zone.wells > 0 && !zone.fitted).length;
   return (
     `Wells: ${comparison.all.count} of ${comparison.figures.length} compared${comparison.uncovered > 0 ? ` (${comparison.uncovered} with no computed water table: see wells.csv)` : ''}; ` +
     `mean error ${f(comparison.all.meanErrorM, 2)} m (computed less observed), RMSE ${f(comparison.all.rmseM, 2)} m\n` +
     `K multipliers that best fit the wells (${outcome.applied ? 'APPLIED to this run (--apply-k-fit)' : 'suggested, not applied; --apply-k-fit applies them'}; RMSE ${f(fit.rmseBeforeM, 2)} -> ${f(fit.rmseAfterM, 2)} m at the fit's resolution): ` +
-    (fitted.length === 0 ? 'none (no well stands in a zone)' : fitted.map((zone) => `${zone.zoneId} x${f(zone.multiplier, 2)} (${zone.wells} wells${zone.atBound ? ', at its bound' : ''})`).join(', '))
+    (fitted.length === 0 ? 'none (no well stands in a zone)' : fitted.map((zone) => `${zone.zoneId} x${f(zone.multiplier, 2)} (${zone.wells} wells${zone.atBound ? ', at its bound' : ''})`).join(', ')) +
+    (leftOut > 0 ? `; ${leftOut} more zones with wells left at 1 (the fit takes the ${fitted.length} with most wells: each costs a screening a step)` : '')
   );
 }

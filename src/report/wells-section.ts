@@ -71,7 +71,7 @@ export function wellsSection(result: ScreenResult, outcome: WellsOutcome): strin
       const stats = comparison.byZone.find((z) => z.zoneId === zone.zoneId)?.summary;
       return (
         `<tr><td>${escapeHtml(zone.zoneId)}</td><td class="num">${stats?.count ?? 0}</td><td class="num">${f(stats?.meanErrorM ?? NaN)}</td><td class="num">${f(stats?.rmseM ?? NaN)}</td>` +
-        `<td class="num">${zone.wells > 0 ? `x${f(zone.multiplier)}${zone.atBound ? ' (at its bound)' : ''}` : '-'}</td></tr>`
+        `<td class="num">${zone.fitted ? `x${f(zone.multiplier)}${zone.atBound ? ' (at its bound)' : ''}` : zone.wells > 0 ? 'not fitted (only the zones with most wells are)' : '-'}</td></tr>`
       );
     })
     .join('');

@@ -12,6 +12,11 @@ export const K_MULTIPLIER_MIN = 0.1;
 export const K_MULTIPLIER_MAX = 10;
 /** Gauss-Newton steps at most, and the step in log10 K for the sensitivities. */
 const MAX_STEPS = 6;
+/**
+ * Each fitted zone costs a screening per step: at most this many zones are fitted (those with the
+ * most wells; ties by the zones' order), the others keep 1 and are said to be left out.
+ */
+export const MAX_FITTED_ZONES = 20;
 const SENSITIVITY_STEP = 0.05;
 
 export interface ZoneFit {
@@ -22,6 +27,8 @@ export interface ZoneFit {
   wells: number;
   /** At a bound: the wells would have it go further. */
   atBound: boolean;
+  /** Whether the fit moved it: false for a zone with no well, or one past MAX_FITTED_ZONES. */
+  fitted: boolean;
 }
 
 export interface ConductivityFit {
@@ -43,7 +50,14 @@ export function scaleZones(zones: readonly ZoneRecord[], multipliers: readonly n
  * Fits the multipliers. The district solve (when the run has it) screens at twice the run's cell,
  * a quarter of the cells, for speed; the reported residuals come from the run itself.
  */
-export function fitConductivity(lines: readonly LineRecord[], zones: readonly ZoneRecord[], settings: ScreenSettings, wells: readonly WellRecord[], file: string): ConductivityFit {
+export function fitConductivity(
+  lines: readonly LineRecord[],
+  zones: readonly ZoneRecord[],
+  settings: ScreenSettings,
+  wells: readonly WellRecord[],
+  file: string,
+  maxFittedZones = MAX_FITTED_ZONES,
+): ConductivityFit {
   const fitSettings: ScreenSettings = settings.stripsOnly ? settings : { ...settings, districtCellM: settings.districtCellM * 2 };
   let screenings = 0;
   const residuals = (logM: Float64Array): Float64Array => {
@@ -59,12 +73,15 @@ export function fitConductivity(lines: readonly LineRecord[], zones: readonly Zo
   let r: Float64Array = Float64Array.from(base.figures, (figure) => figure.residualM);
   const used = base.figures.map((figure) => Number.isFinite(figure.residualM));
   const wellsIn = zones.map((zone) => base.figures.filter((figure, w) => used[w] && figure.zoneId === zone.id).length);
-  const fitted = zones.map((_, z) => wellsIn[z] > 0);
+  const byWells = zones.map((_, z) => z).filter((z) => wellsIn[z] > 0).sort((a, b) => wellsIn[b] - wellsIn[a] || a - b);
+  const chosen = new Set(byWells.slice(0, Math.max(0, maxFittedZones)));
+  const fitted = zones.map((_, z) => chosen.has(z));
   const cost = (values: Float64Array) => values.reduce((sum, v, w) => (used[w] && Number.isFinite(v) ? sum + v * v : sum), 0);
   const count = used.filter(Boolean).length;
   const rmseBefore = count > 0 ? Math.sqrt(cost(r) / count) : NaN;
   let lambda = 1e-3;
-  for (let step = 0; step < MAX_STEPS && count > 0; step++) {
+  // nothing to fit (no zone with a well within the budget): the first screening is all
+  for (let step = 0; step < MAX_STEPS && count > 0 && fitted.some(Boolean); step++) {
     // sensitivities by forward differences, one screening per fitted zone
     const columns: (Float64Array | null)[] = fitted.map((isFitted, z) => {
       if (!isFitted) return null;
@@ -113,6 +130,7 @@ export function fitConductivity(lines: readonly LineRecord[], zones: readonly Zo
         multiplier,
         wells: wellsIn[z],
         atBound: fitted[z] && (multiplier <= K_MULTIPLIER_MIN * 1.0001 || multiplier >= K_MULTIPLIER_MAX * 0.9999),
+        fitted: fitted[z],
       };
     }),
     rmseBeforeM: rmseBefore,

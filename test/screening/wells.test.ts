@@ -86,7 +86,14 @@ describe('the conductivity fit', () => {
     const { lines, zones, settings } = district(K);
     const [[lon, lat]] = lonLat([[1500, 900]]);
     const fit = fitConductivity(lines, zones, settings, [{ index: 0, id: 'far', lon, lat, observedM: 100, date: null }], 'wells.geojson');
-    expect(fit.zones[0]).toMatchObject({ multiplier: 1, wells: 0, atBound: false });
+    expect(fit.zones[0]).toMatchObject({ multiplier: 1, wells: 0, atBound: false, fitted: false });
+  });
+
+  it('fits no more zones than its budget, and leaves the rest at 1, marked', () => {
+    const { lines, zones, settings } = district(K / 2);
+    const fit = fitConductivity(lines, zones, settings, wellsAt([50, 200, 350]), 'wells.geojson', 0);
+    expect(fit.zones[0]).toMatchObject({ multiplier: 1, wells: 3, fitted: false });
+    expect(fit.screenings).toBe(1);
   });
 });
 
