@@ -1,5 +1,5 @@
 // `doab check`: validate both inputs without computing; print every problem, errors first.
-import { errorsOf, loadDistrict, problemLines, PROBLEMS_SHOWN } from '../index.js';
+import { errorsOf, loadDistrict, problemLines, PROBLEMS_SHOWN, readDem } from '../index.js';
 import type { CliIo } from './io.js';
 import { runConfig } from './screen-command.js';
 
@@ -8,12 +8,17 @@ export interface CheckOptions {
   aquifer: string;
   config?: string;
   inputCrs?: string;
+  /** A DEM the screen will take its ground from: zones may then leave out ground_m, as screen allows. */
+  dem?: string;
+  demCrs?: string;
   debug?: boolean;
 }
 
 export async function checkCommand(options: CheckOptions, io: CliIo): Promise<number> {
   const config = runConfig(options as unknown as Record<string, unknown>);
-  const district = await loadDistrict(options.canals, options.aquifer, config);
+  // the DEM is read as screen reads it (a bad one is named), and lets zones leave out their ground
+  if (options.dem) await readDem(options.dem, { demCrs: options.demCrs ?? null, maxInputMB: config.settings.maxInputMB });
+  const district = await loadDistrict(options.canals, options.aquifer, config, { groundFromDem: Boolean(options.dem) });
   const errors = errorsOf(district.problems);
   const warnings = district.problems.filter((problem) => problem.severity === 'warning');
   io.out(problemLines([...errors, ...warnings], PROBLEMS_SHOWN));

@@ -77,6 +77,8 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     });
   inputCommand('check', 'check the inputs without computing: every problem with file, feature and field')
     .option('--config <file>', 'JSON config (field names, units, defaults)')
+    .option('--dem <file>', 'the DEM screen will use: checked too, and zones may then leave out ground_m')
+    .option('--dem-crs <crs>', 'the DEM\'s CRS when its GeoKeys name none')
     .action(async (options: CheckOptions) => {
       exitCode = await checkCommand(options, io);
     });

@@ -196,3 +196,20 @@ describe('doab screen --skip-invalid', () => {
     expect(existsSync(out) ? readdirSync(out) : []).toEqual([]);
   });
 });
+
+describe('doab check --dem', () => {
+  it('lets zones leave out ground_m with the DEM screen will use, and says so; without it they are refused', async () => {
+    const dir = freshDir('check-dem');
+    const aquifer = readJson(join(ROOT, 'data-demo/aquifer.geojson'));
+    for (const feature of aquifer.features) delete feature.properties.ground_m;
+    const path = join(dir, 'aquifer.geojson');
+    writeFileSync(path, JSON.stringify(aquifer));
+    const canals = join(ROOT, 'data-demo/canals.geojson');
+    const without = await runCliInProcess(['check', '--canals', canals, '--aquifer', path]);
+    expect(without.status).toBe(1);
+    expect(without.stdout).toMatch(/no feature has the attribute "ground_m"/);
+    const withDem = await runCliInProcess(['check', '--canals', canals, '--aquifer', path, '--dem', join(ROOT, 'data-demo/dem.tif')]);
+    expect(withDem.status, withDem.stdout + withDem.stderr).toBe(0);
+    expect(withDem.stdout).toMatch(/no feature has "ground_m" .*the DEM's ground alone/);
+  });
+});
