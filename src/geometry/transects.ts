@@ -37,6 +37,16 @@ export interface FacingTable {
 export interface CastOptions {
   maxGapM: number;
   maxAngleDeg: number;
+  /**
+   * Half the window over which a partner's direction is smoothed (m). Default: half the longest
+   * station interval of `stations`; a tile casting part of a district gives the whole district's.
+   */
+  halfWindowM?: number;
+  /**
+   * Index only the segments that meet this box [minX, minY, maxX, maxY] (m): a tile's stations
+   * grown by maxGapM (its halo), which holds every transect they cast. Default: every segment.
+   */
+  segmentBox?: readonly [number, number, number, number] | null;
 }
 
 // A crossing this close to the station is the station's own junction with a touching line (a
@@ -52,14 +62,17 @@ interface SegmentIndex {
   tree: Flatbush;
 }
 
-function buildSegmentIndex(t: LineTable): SegmentIndex {
+function buildSegmentIndex(t: LineTable, box: CastOptions['segmentBox'] = null): SegmentIndex {
   const partCount = t.partLine.length;
   const vertex = new Uint32Array(t.x.length);
   const part = new Uint32Array(t.x.length);
   let n = 0;
+  const outside = (v: number) =>
+    box !== null &&
+    (Math.max(t.x[v], t.x[v + 1]) < box[0] || Math.max(t.y[v], t.y[v + 1]) < box[1] || Math.min(t.x[v], t.x[v + 1]) > box[2] || Math.min(t.y[v], t.y[v + 1]) > box[3]);
   for (let p = 0; p < partCount; p++) {
     for (let v = t.partVertexStart[p]; v + 1 < t.partVertexStart[p + 1]; v++) {
-      if (t.chainageM[v + 1] > t.chainageM[v]) {
+      if (t.chainageM[v + 1] > t.chainageM[v] && !outside(v)) {
         vertex[n] = v;
         part[n] = p;
         n++;
@@ -90,7 +103,7 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
   for (let i = 0; i < stations.count; i++) {
     if (stations.line[i] >= t.lineCount) throw new Error(`Station ${i} is on line ${stations.line[i]}, but there are ${t.lineCount} lines.`);
   }
-  const seg = buildSegmentIndex(t);
+  const seg = buildSegmentIndex(t, options.segmentBox ?? null);
   const n = stations.count * 2;
   const f: FacingTable = {
     count: n,
@@ -105,8 +118,8 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
     partnerSide: new Uint8Array(n).fill(255),
   };
   // the partner's direction is smoothed over the same window as the stations' own (half a step)
-  let halfWindowM = 0;
-  for (let i = 0; i < stations.count; i++) halfWindowM = Math.max(halfWindowM, stations.lengthM[i] / 2);
+  let halfWindowM = options.halfWindowM ?? 0;
+  if (options.halfWindowM === undefined) for (let i = 0; i < stations.count; i++) halfWindowM = Math.max(halfWindowM, stations.lengthM[i] / 2);
   const cosMax = Math.cos((options.maxAngleDeg * Math.PI) / 180);
   const maxGapM = options.maxGapM;
   const minT = JUNCTION_TOLERANCE_M / maxGapM;
@@ -126,7 +139,9 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
     const qx = ax - px, qy = ay - py;
     const tt = (qx * ey - qy * ex) / denom;
     const u = (qx * dy - qy * dx) / denom;
-    if (tt >= minT && tt <= 1 && u >= -VERTEX_SLACK && u <= 1 + VERTEX_SLACK && tt < bestT) {
+    // an exact tie (a shared vertex, a junction) goes to the first segment in the line table, so the
+    // answer does not hang on the order the index visits them in (a tile's index holds fewer)
+    if (tt >= minT && tt <= 1 && u >= -VERTEX_SLACK && u <= 1 + VERTEX_SLACK && (tt < bestT || (tt === bestT && v < seg.vertex[bestSeg]))) {
       bestT = tt;
       bestSeg = i;
       bestU = Math.min(1, Math.max(0, u));

@@ -1,7 +1,7 @@
 // The screening pipeline: validated inputs -> work CRS -> stations -> transects -> zones on each
 // transect -> solve -> strips and line totals -> ranking. Pure: it reads no file and writes none.
 import { groundSampler, type DemGrid, type GroundSampler, type ToDem } from '../geometry/dem.js';
-import { groundFromDem, sampleSpacingM } from './ground.js';
+import { groundFromDem, sampleSpacingM, type GroundPass } from './ground.js';
 import {
   FACING_OUTSIDE_AQUIFER,
   FACING_REASON_NAMES,
@@ -12,8 +12,10 @@ import {
   lineLengthM,
   placeStations,
   zonePolygons,
+  type CastOptions,
   type FacingTable,
   type LineGeometry,
+  type LineTable,
   type StationTable,
   type ZoneIndex,
 } from '../geometry/index.js';
@@ -118,6 +120,8 @@ export interface ScreenExtras {
   dem?: { grid: DemGrid; fromLonLat: ((lon: number, lat: number) => [number, number]) | null; pixelM: number; label: string } | null;
   /** False to leave out the district solve at twice the cell (each line's uncertainty): scenario runs that compare one cell. */
   coarseCheck?: boolean;
+  /** The transects solved by the tiles of an array job (screening/tiles.ts), in place of solving them here. */
+  tiles?: { assemble: (stations: StationTable) => SolvedStations } | null;
 }
 
 /** Work CRS into the DEM's: through lon/lat. */
@@ -132,13 +136,18 @@ function toDemFrom(crs: WorkCrs, dem: NonNullable<ScreenExtras['dem']>): ToDem {
 /** Told when each named stage starts and ends: (stage, done, total) with done 0 or total. */
 export type ProgressListener = (stage: string, done: number, total: number) => void;
 
-export function screenDistrict(
-  lines: LineRecord[],
-  zones: ZoneRecord[],
-  settings: ScreenSettings,
-  onProgress: ProgressListener = () => {},
-  extras: ScreenExtras = {},
-): ScreenResult {
+/** The first stage, shared by a whole run and a tile: the work CRS, the lines and zones in it, the stations. */
+export interface PreparedDistrict {
+  crs: WorkCrs;
+  warnings: string[];
+  geometries: LineGeometry[];
+  lineLengthsM: Float64Array;
+  zoneIndex: ZoneIndex;
+  lineTable: LineTable;
+  stations: StationTable;
+}
+
+export function prepareDistrict(lines: LineRecord[], zones: ZoneRecord[], settings: ScreenSettings, onProgress: ProgressListener = () => {}): PreparedDistrict {
   const { crs, warnings } = chooseWorkCrs(boundsOfParts(lines.map((line) => line.partsLonLat)), settings.crs ?? undefined);
   const geometries: LineGeometry[] = lines.map((line) => ({
     id: line.id,
@@ -152,22 +161,68 @@ export function screenDistrict(
       ),
     ),
   );
-
   // one table of the lines, shared by stations, transects and strips
   const lineTable = buildLineTable(geometries);
   onProgress('stations', 0, lines.length);
   const stations = placeStations(lineTable, settings.stepM);
   onProgress('stations', lines.length, lines.length);
+  return { crs, warnings, geometries, lineLengthsM, zoneIndex, lineTable, stations };
+}
+
+/** Ground from the DEM, in the work CRS; null without a DEM. */
+export function groundOf(crs: WorkCrs, dem: ScreenExtras['dem']): GroundSampler | null {
+  return dem ? groundSampler(dem.grid, toDemFrom(crs, dem), dem.pixelM) : null;
+}
+
+/** The transects of some stations, solved, with ground from the DEM: all of a run, or a tile's. */
+export interface SolvedStations {
+  facings: FacingTable;
+  results: FacingResults;
+  /** The DEM pass's counts; null without a DEM. */
+  groundPass: GroundPass | null;
+}
+
+/**
+ * Casts and solves the transects of `stations` (the whole table, or a tile's rows with the whole
+ * district's smoothing window and a halo box), then takes the ground from the DEM.
+ */
+export function solveStations(
+  lines: LineRecord[],
+  zones: ZoneRecord[],
+  prepared: PreparedDistrict,
+  stations: StationTable,
+  settings: ScreenSettings,
+  ground: GroundSampler | null,
+  cast: Pick<CastOptions, 'halfWindowM' | 'segmentBox'> = {},
+  onProgress: ProgressListener = () => {},
+): SolvedStations {
   onProgress('transects', 0, stations.count);
-  const facings = castTransects(lineTable, stations, { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg });
+  const facings = castTransects(prepared.lineTable, stations, { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg, ...cast });
   onProgress('transects', stations.count, stations.count);
-  const results = solveFacings(lines, lineLengthsM, zones, zoneIndex, stations, facings, settings, (done) =>
+  const results = solveFacings(lines, prepared.lineLengthsM, zones, prepared.zoneIndex, stations, facings, settings, (done) =>
     onProgress('solve', done, facings.count),
   );
   // ground from a DEM: the depths follow the sampled ground instead of each zone's one level
-  const ground = extras.dem ? groundSampler(extras.dem.grid, toDemFrom(crs, extras.dem), extras.dem.pixelM) : null;
-  if (ground && extras.dem) {
-    const pass = groundFromDem(ground, lines, zones, zoneIndex, stations, facings, results, settings);
+  const groundPass = ground ? groundFromDem(ground, lines, zones, prepared.zoneIndex, stations, facings, results, settings) : null;
+  return { facings, results, groundPass };
+}
+
+export function screenDistrict(
+  lines: LineRecord[],
+  zones: ZoneRecord[],
+  settings: ScreenSettings,
+  onProgress: ProgressListener = () => {},
+  extras: ScreenExtras = {},
+): ScreenResult {
+  const prepared = prepareDistrict(lines, zones, settings, onProgress);
+  const { crs, warnings, geometries, lineLengthsM, zoneIndex, lineTable, stations } = prepared;
+  const ground = groundOf(crs, extras.dem);
+  // the transects come solved from the tiles of an array job, or are solved here
+  const { facings, results, groundPass } = extras.tiles
+    ? extras.tiles.assemble(stations)
+    : solveStations(lines, zones, prepared, stations, settings, ground, {}, onProgress);
+  if (ground && extras.dem && groundPass) {
+    const pass = groundPass;
     warnings.push(
       `ground from the DEM ${extras.dem.label}: depths, risk classes and shallow areas follow it, sampled every ${sampleSpacingM(ground, 0).toFixed(0)} m or so along each transect` +
         (pass.gapSamples > 0 ? `; ${pass.gapSamples} of ${pass.samples} samples (on ${pass.gapFacings} transects) fell where the DEM has no data and took their zone's ground_m` : '') +

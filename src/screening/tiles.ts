@@ -1,0 +1,125 @@
+// A district screened as N tiles by N processes (an array job on a batch engine), then gathered.
+// Each tile places every station of the district (cheap, and the same in every process), keeps
+// those in its band (geometry/tiles.ts), and casts and solves their transects against the lines
+// within a halo of maxGapM around them, with the whole district's smoothing window: each of its
+// transects is cast and solved exactly as in a single run. Gathering puts the tiles' columns back
+// in station order and runs the rest of the screening (strips, ranking, district solve, outputs)
+// as one run does, so the gathered outputs are those of a single run, byte for byte.
+import { checkTile, stationBox, stationSubset, stationsOfTile, tileBands, type TileOfSplit } from '../geometry/tiles.js';
+import type { FacingTable, StationTable } from '../geometry/index.js';
+import type { ScreenSettings } from '../shared/settings.js';
+import type { LineRecord, ZoneRecord } from './district-inputs.js';
+import type { FacingResults } from './facing-columns.js';
+import type { GroundPass } from './ground.js';
+import { groundOf, prepareDistrict, solveStations, type ProgressListener, type ScreenExtras, type SolvedStations } from './screen.js';
+
+export type { TileOfSplit };
+
+/** What one tile solved: its stations (by index into the whole district's) and their two sides each. */
+export interface TilePart {
+  tile: TileOfSplit;
+  /** Stations in the whole district, and the band cuts every tile drew: all tiles must agree. */
+  districtStations: number;
+  /** Indices of the tile's stations in the whole district's table, ascending. */
+  stations: Uint32Array;
+  /** Columns of the tile's transect sides: side k of station j of the tile is row 2 j + k. */
+  facings: FacingTable;
+  results: FacingResults;
+  groundPass: GroundPass | null;
+}
+
+/** The halo around a tile's stations (m): every transect they cast, maxGapM long, lies inside it. */
+export function tileHaloM(settings: Pick<ScreenSettings, 'maxGapM'>): number {
+  return settings.maxGapM * 1.001 + 1;
+}
+
+/** Casts and solves the transects of one tile's stations. Pure, as screenDistrict is. */
+export function screenTile(
+  lines: LineRecord[],
+  zones: ZoneRecord[],
+  settings: ScreenSettings,
+  tile: TileOfSplit,
+  onProgress: ProgressListener = () => {},
+  extras: Pick<ScreenExtras, 'dem'> = {},
+): TilePart {
+  checkTile(tile);
+  const prepared = prepareDistrict(lines, zones, settings, onProgress);
+  const whole = prepared.stations;
+  const indices = stationsOfTile(whole, tileBands(whole, tile.count), tile);
+  const stations = stationSubset(whole, indices);
+  // the whole district's window, as castTransects takes it from a whole table
+  let halfWindowM = 0;
+  for (let i = 0; i < whole.count; i++) halfWindowM = Math.max(halfWindowM, whole.lengthM[i] / 2);
+  const solved = solveStations(lines, zones, prepared, stations, settings, groundOf(prepared.crs, extras.dem), { halfWindowM, segmentBox: stationBox(stations, tileHaloM(settings)) }, onProgress);
+  return { tile, districtStations: whole.count, stations: indices, ...solved };
+}
+
+const FACING_COLUMNS = ['partner', 'reason', 'transectLengthM', 'endX', 'endY', 'partnerChainageM', 'angleDeg', 'hitLine', 'partnerSide'] as const;
+const RESULT_COLUMNS = [
+  'reason', 'status', 'flags', 'ownStageM', 'partnerStageM', 'baseM', 'ownSeepageM2PerDay', 'partnerSeepageM2PerDay', 'rechargeM2PerDay',
+  'peakWaterTableM', 'peakOffsetM', 'minDepthM', 'shallowM', 'dupuitRatio', 'uncoveredM',
+] as const;
+
+export const TILE_FACING_COLUMNS: readonly string[] = FACING_COLUMNS;
+export const TILE_RESULT_COLUMNS: readonly string[] = RESULT_COLUMNS;
+
+type Column = Float64Array | Int32Array | Uint8Array;
+
+function emptyLike<T extends Column>(column: T, n: number): T {
+  return new (column.constructor as { new (n: number): T })(n);
+}
+
+/**
+ * Puts the tiles' columns back in station order for the whole district. Throws (naming the tile)
+ * when they are not the N tiles of one split of these stations: a count, a station claimed twice
+ * or by none.
+ */
+export function assembleTiles(stations: StationTable, parts: readonly TilePart[]): SolvedStations {
+  if (parts.length === 0) throw new Error('Unexpected: no tiles to gather.');
+  const count = parts[0].tile.count;
+  if (parts.length !== count) throw new Error(`Unexpected: ${parts.length} tiles for a split into ${count}.`);
+  const owner = new Int32Array(stations.count).fill(-1);
+  const seen = new Set<number>();
+  for (const part of parts) {
+    const name = `tile ${part.tile.index} of ${part.tile.count}`;
+    if (part.tile.count !== count) throw new Error(`${name} belongs to a split into ${part.tile.count}, the others to ${count}.`);
+    if (seen.has(part.tile.index)) throw new Error(`${name} is given twice.`);
+    seen.add(part.tile.index);
+    if (part.districtStations !== stations.count) throw new Error(`${name} placed ${part.districtStations} stations, this run ${stations.count}: the inputs or settings differ.`);
+    if (part.facings.count !== 2 * part.stations.length) throw new Error(`${name} has ${part.facings.count} transect sides for ${part.stations.length} stations.`);
+    for (const s of part.stations) {
+      if (s >= stations.count) throw new Error(`${name} holds station ${s}, past the district's ${stations.count}.`);
+      if (owner[s] !== -1) throw new Error(`${name} holds station ${s}, which tile ${parts[owner[s]].tile.index} holds too.`);
+      owner[s] = parts.indexOf(part);
+    }
+  }
+  for (let s = 0; s < stations.count; s++) if (owner[s] === -1) throw new Error(`Station ${s} is in no tile: the tiles do not cover the district.`);
+  const n = 2 * stations.count;
+  const first = parts[0];
+  const facings = { count: n } as FacingTable;
+  const results = {} as FacingResults;
+  for (const name of FACING_COLUMNS) (facings as unknown as Record<string, Column>)[name] = emptyLike(first.facings[name], n);
+  for (const name of RESULT_COLUMNS) (results as unknown as Record<string, Column>)[name] = emptyLike(first.results[name], n);
+  let groundPass: GroundPass | null = null;
+  for (const part of parts) {
+    for (const name of FACING_COLUMNS) scatter(facings[name], part.facings[name], part.stations);
+    for (const name of RESULT_COLUMNS) scatter(results[name], part.results[name], part.stations);
+    if (part.groundPass) {
+      groundPass ??= { samples: 0, gapSamples: 0, gapFacings: 0, noGroundFacings: 0 };
+      groundPass.samples += part.groundPass.samples;
+      groundPass.gapSamples += part.groundPass.gapSamples;
+      groundPass.gapFacings += part.groundPass.gapFacings;
+      groundPass.noGroundFacings += part.groundPass.noGroundFacings;
+    }
+  }
+  return { facings, results, groundPass };
+}
+
+/** Rows 2 j and 2 j + 1 of `from` go to rows 2 s and 2 s + 1 of `into`, s = stations[j]. */
+function scatter(into: Column, from: Column, stations: Uint32Array): void {
+  for (let j = 0; j < stations.length; j++) {
+    const s = stations[j];
+    into[2 * s] = from[2 * j];
+    into[2 * s + 1] = from[2 * j + 1];
+  }
+}
