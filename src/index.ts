@@ -25,6 +25,8 @@ import { renderReport, type ReportMeta } from './report/report.js';
 import { keyFacing, profileOfFacing, type Profile } from './screening/profile.js';
 import { checkRunBudget } from './screening/budget.js';
 import { screenDistrict, type ProgressListener, type ScreenExtras, type ScreenResult } from './screening/screen.js';
+import { assembleTiles, screenTile, type TileOfSplit, type TilePart } from './screening/tiles.js';
+import type { StationTable } from './geometry/index.js';
 import type { StripSummary } from './screening/aggregate.js';
 import { DataError, errorsOf, formatProblem, InputProblems, type Problem } from './shared/errors.js';
 import { VERSION } from './shared/version.js';
@@ -111,6 +113,10 @@ export interface ScreenOptions {
   onProgress?: ProgressListener;
   /** Ground from a DEM (readDem). */
   dem?: Dem | null;
+  /** The transects as the tiles of an array job solved them (readTileFolder), instead of solving them here. */
+  tiles?: TilePart[] | null;
+  /** The tiles' folder, for messages. */
+  tilesLabel?: string;
 }
 
 /** The problems that stop a run on this district, or null when it can go on (bad features skipped, if asked). */
@@ -127,8 +133,34 @@ export function screenLoaded(district: LoadedDistrict, config: RunConfig, option
   const stopping = stoppingProblems(district, options);
   if (stopping) throw new InputProblems(stopping);
   checkRunBudget(district.lines, config.settings);
-  return screenDistrict(district.lines, district.zones, config.settings, options.onProgress, { dem: demExtras(options.dem) });
+  const parts = options.tiles;
+  const tiles = parts
+    ? {
+        assemble: (stations: StationTable) => {
+          try {
+            return assembleTiles(stations, parts);
+          } catch (error) {
+            throw new DataError({ file: options.tilesLabel ?? 'the tiles' }, `the tiles cannot be gathered: ${(error as Error).message}`);
+          }
+        },
+      }
+    : null;
+  return screenDistrict(district.lines, district.zones, config.settings, options.onProgress, { dem: demExtras(options.dem), tiles });
 }
+
+/** Screens one tile of a loaded district (doab screen --tile): its stations' transects, solved. */
+export function screenTileLoaded(district: LoadedDistrict, config: RunConfig, tile: TileOfSplit, options: Omit<ScreenOptions, 'tiles' | 'tilesLabel'> = {}): TilePart {
+  const stopping = stoppingProblems(district, options);
+  if (stopping) throw new InputProblems(stopping);
+  checkRunBudget(district.lines, config.settings);
+  return screenTile(district.lines, district.zones, config.settings, tile, options.onProgress, { dem: demExtras(options.dem) });
+}
+
+export { checkTileFolder, writeTileFile } from './output/tile-file.js';
+export { readTileFolder, type GatheredTiles } from './input/read-tiles.js';
+export { tileFileName, type TilePart, type TileRunMeta, type TileOfSplit } from './screening/tiles.js';
+export { MAX_TILES } from './geometry/tiles.js';
+export { hashInput } from './input/read-features.js';
 
 export interface WriteRunOptions {
   district: LoadedDistrict;

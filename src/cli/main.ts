@@ -3,6 +3,7 @@
 import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
 import { DataError, InputProblems, problemLines, PROBLEMS_SHOWN, SETTINGS, SETTING_KEYS, UsageError, VERSION, type SettingSpec } from '../index.js';
 import { checkCommand, type CheckOptions } from './check-command.js';
+import { gatherCommand, type GatherOptions } from './gather-command.js';
 import { initConfigCommand, type InitConfigOptions } from './init-config-command.js';
 import { registerLiningCommand } from './lining-command.js';
 import type { CliIo } from './io.js';
@@ -67,6 +68,7 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .option('--samples <n>', 'draws of each zone\'s K from its range (k_low_m_d/k_high_m_d or k_log_sd) for the spread of losses and risk')
     .option('--seed <s>', 'seed of the draws (default 1): one seed, one answer')
     .option('--correlated-k', 'draw all zones\' K together (fully correlated) instead of independently')
+    .option('--tile <i/n>', 'screen only tile I of N (counted from 1) and write its tile file into --out for doab gather; N alone takes the index from JOB_COMPLETION_INDEX, SLURM_ARRAY_TASK_ID or AWS_BATCH_JOB_ARRAY_INDEX (counted from 0)')
     .action(async (options: ScreenOptions) => {
       const progress = progressReporter({ quiet: Boolean(options.quiet), stream: process.stderr });
       try {
@@ -88,6 +90,25 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     .action(async (options: InitConfigOptions) => {
       exitCode = await initConfigCommand(options, io);
     });
+  const gather = program
+    .command('gather')
+    .description('gather the tile files of doab screen --tile I/N (every tile 1 to N) into the outputs of one run')
+    .requiredOption('--tiles <dir>', 'the folder the tiles wrote into (their --out)')
+    .requiredOption('--out <dir>', 'output folder (created if missing)')
+    .addOption(settingOption(SETTINGS.workers))
+    .option('--to-postgis <url>', 'also write the layers, ranking and run record into PostGIS (connection string; password from PGPASSWORD or ~/.pgpass)')
+    .option('--pg-schema <name>', 'schema to write into (created if missing; default doab)')
+    .option('--pg-if-exists <mode>', 'a run of the same id already in the schema: replace or refuse (default refuse)')
+    .option('--quiet', 'print only errors and the caution line')
+    .option('--debug', 'show stack traces of internal errors');
+  gather.action(async (options: GatherOptions) => {
+    const progress = progressReporter({ quiet: Boolean(options.quiet), stream: process.stderr });
+    try {
+      exitCode = await gatherCommand(options, argv, io, progress.onProgress);
+    } finally {
+      progress.stop();
+    }
+  });
   registerProfileCommand(program, io, (code) => {
     exitCode = code;
   });

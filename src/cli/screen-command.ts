@@ -26,7 +26,16 @@ import {
   loadWells,
   UsageError,
   type RunConfig,
+  checkTileFolder,
+  hashInput,
+  screenTileLoaded,
+  writeTileFile,
+  DataError,
+  VERSION,
+  type GatheredTiles,
 } from '../index.js';
+import { createHash } from 'node:crypto';
+import { parseTileOption } from './tile-option.js';
 import type { CliIo } from './io.js';
 
 export interface ScreenOptions {
@@ -48,6 +57,8 @@ export interface ScreenOptions {
   pgSchema?: string;
   pgIfExists?: string;
   correlatedK?: boolean;
+  /** I/N, or N with the index from an array job's variable: screen one tile and write its file. */
+  tile?: string;
   /** The settings' flags (--step and the rest), by commander's attribute names. */
   [flag: string]: unknown;
 }
@@ -67,7 +78,14 @@ function recordedArgv(argv: string[]): string[] {
 /** Draws at most (each solves every strip again). */
 const MAX_SAMPLES = 100_000;
 
-export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener): Promise<number> {
+/** The tiles being gathered (doab gather): their transects stand in for solving them here. */
+export interface GatherSource {
+  tiles: GatheredTiles;
+  /** The tiles' folder, as given. */
+  dir: string;
+}
+
+export async function screenCommand(options: ScreenOptions, argv: string[], io: CliIo, onProgress?: ProgressListener, gather?: GatherSource): Promise<number> {
   const startedAt = new Date().toISOString();
   const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
   const config = runConfig(options);
@@ -92,6 +110,10 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
       throw new UsageError(`--pg-schema: ${(error as Error).message}`, 'pg-schema');
     }
   }
+  if (options.tile !== undefined) {
+    if (options.toPostgis !== undefined) throw new UsageError('--to-postgis goes to doab gather, which writes the whole run: a tile writes only its tile file', 'to-postgis');
+    return screenTileCommand(options, config, io, onProgress);
+  }
   checkOutputFolder(
     options.out,
     [options.canals, options.aquifer, options.config, options.wells, options.dem].flatMap((path) => (path ? filesOfInput(path) : [])),
@@ -111,7 +133,11 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   log(`read ${district.lines.length} lines from ${options.canals} and ${district.zones.length} zones from ${options.aquifer}`);
   const dem = options.dem ? await readDem(options.dem, { demCrs: options.demCrs ?? null, maxInputMB: config.settings.maxInputMB }) : null;
   if (dem) log(`read a DEM of ${dem.grid.width} x ${dem.grid.height} pixels (${dem.crsLabel}) from ${options.dem}${dem.nodataPixels > 0 ? `, ${dem.nodataPixels} without data` : ''}`);
-  const screened = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress, dem });
+  if (gather) {
+    checkSameInputs(gather, { canals: district.canals?.sha256, aquifer: district.aquifer?.sha256, dem: dem?.sha256, ...extraInputHashes(options) }, options);
+    log(`gathering ${gather.tiles.parts.length} tile${gather.tiles.parts.length === 1 ? '' : 's'} from ${gather.dir}: their transects, solved, stand in for solving them here`);
+  }
+  const screened = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress, dem, tiles: gather?.tiles.parts, tilesLabel: gather?.dir });
   const checked = wells ? checkAgainstWells(district, config, screened, wells, { applyFit: options.applyKFit, onProgress, dem }) : null;
   const result = checked ? checked.result : screened;
   const spread = samples === null ? undefined : spreadOfRun(district, config, result, { samples, seed, correlated: Boolean(options.correlatedK) });
@@ -137,5 +163,61 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   }
   if (!options.quiet) io.out(summaryText(result, 10, errors.length, checked?.outcome, spread));
   else io.err(`${CAUTION}\n`);
+  return 0;
+}
+
+/** Options a tile leaves out of its record: where it writes, which tile, and what changes no figure. */
+const NOT_RECORDED = new Set(['out', 'tile', 'quiet', 'debug', 'workers', 'toPostgis', 'pgSchema', 'pgIfExists']);
+
+/** The options that decide the run's figures, keys sorted, as the tiles record them. */
+export function recordedTileOptions(options: ScreenOptions): Record<string, unknown> {
+  return Object.fromEntries(
+    Object.keys(options)
+      .filter((key) => !NOT_RECORDED.has(key) && options[key] !== undefined)
+      .sort()
+      .map((key) => [key, options[key]]),
+  );
+}
+
+/** SHA-256 of the config and wells files (the lines, zones and DEM are hashed as they are read). */
+function extraInputHashes(options: ScreenOptions): Record<string, string> {
+  const hashes: Record<string, string> = {};
+  if (options.config) hashes.config = hashInput(options.config);
+  if (options.wells) hashes.wells = hashInput(options.wells);
+  return hashes;
+}
+
+/** Every input as the tiles read it: a file changed since stops the gathering, naming it. */
+function checkSameInputs(gather: GatherSource, now: Record<string, string | undefined>, options: ScreenOptions): void {
+  const recorded = gather.tiles.run.inputs;
+  for (const key of new Set([...Object.keys(recorded), ...Object.keys(now)])) {
+    if (now[key] === undefined && recorded[key] === undefined) continue;
+    if (now[key] !== recorded[key]) {
+      const path = String((options as Record<string, unknown>)[key] ?? key);
+      throw new DataError({ file: path }, `this ${key} file is not the one the tiles in ${gather.dir} were screened with (its SHA-256 differs): rerun the tiles on it, or gather with the file they used`);
+    }
+  }
+}
+
+/** doab screen --tile: screen one tile and write its file into --out, for doab gather. */
+async function screenTileCommand(options: ScreenOptions, config: RunConfig, io: CliIo, onProgress?: ProgressListener): Promise<number> {
+  const log = options.quiet ? () => {} : (text: string) => io.err(`${text}\n`);
+  const { tile, from } = parseTileOption(options.tile as string);
+  const inputs = [options.canals, options.aquifer, options.config, options.wells, options.dem].flatMap((path) => (path ? filesOfInput(path) : []));
+  checkTileFolder(options.out, tile, inputs);
+  const district = await loadDistrict(options.canals, options.aquifer, config, { groundFromDem: Boolean(options.dem) });
+  const stopping = stoppingProblems(district, options);
+  if (stopping) throw new InputProblems(stopping);
+  const dem = options.dem ? await readDem(options.dem, { demCrs: options.demCrs ?? null, maxInputMB: config.settings.maxInputMB }) : null;
+  const part = screenTileLoaded(district, config, tile, { skipInvalid: options.skipInvalid, onProgress, dem });
+  const recorded = recordedTileOptions(options);
+  const hashes: Record<string, string> = { canals: district.canals!.sha256, aquifer: district.aquifer!.sha256, ...(dem ? { dem: dem.sha256 } : {}), ...extraInputHashes(options) };
+  const runKey = createHash('sha256').update(JSON.stringify({ version: VERSION, options: recorded, inputs: hashes })).digest('hex');
+  const path = await writeTileFile(options.out, part, { tool: 'doab', version: VERSION, options: recorded, cwd: process.cwd(), inputs: hashes, runKey });
+  let solved = 0;
+  for (let i = 0; i < part.results.status.length; i++) if (part.results.status[i] === 0) solved++;
+  log(`tile ${tile.index} of ${tile.count} (from ${from}): ${part.stations.length} of ${part.districtStations} stations, ${solved} transect sides solved; wrote ${path}`);
+  log(`when all ${tile.count} tiles are written, run: doab gather --tiles ${options.out} --out <folder>`);
+  if (options.quiet) io.err(`${CAUTION}\n`);
   return 0;
 }

@@ -123,3 +123,68 @@ function scatter(into: Column, from: Column, stations: Uint32Array): void {
     into[2 * s + 1] = from[2 * j + 1];
   }
 }
+
+/** What a tile file's header says of the tile itself (the run's options and inputs go beside it). */
+export interface TilePartMeta {
+  tile: TileOfSplit;
+  districtStations: number;
+  groundPass: GroundPass | null;
+}
+
+/** A tile's columns under their names (facing.*, result.*), and what goes with them. */
+export function tilePartColumns(part: TilePart): { meta: TilePartMeta; columns: Record<string, Column | Uint32Array> } {
+  const columns: Record<string, Column | Uint32Array> = { stations: part.stations };
+  for (const name of FACING_COLUMNS) columns[`facing.${name}`] = part.facings[name];
+  for (const name of RESULT_COLUMNS) columns[`result.${name}`] = part.results[name];
+  return { meta: { tile: part.tile, districtStations: part.districtStations, groundPass: part.groundPass }, columns };
+}
+
+/** The tile back from its columns; throws, saying what is missing or the wrong size. */
+export function tilePartFromColumns(meta: TilePartMeta, columns: Record<string, ArrayBufferView>): TilePart {
+  const stations = columns.stations;
+  if (!(stations instanceof Uint32Array)) throw new Error('it has no stations column');
+  const n = 2 * stations.length;
+  const take = (name: string, like: Column): Column => {
+    const column = columns[name];
+    if (!column || column.constructor !== like.constructor || (column as Column).length !== n) throw new Error(`its column ${name} is missing, or not ${n} ${like.constructor.name} values`);
+    return column as Column;
+  };
+  // the shapes the columns must have, from an empty table of the same kinds
+  const facings = { count: n } as FacingTable;
+  const results = {} as FacingResults;
+  const likeFacing: Record<string, Column> = { partner: new Int32Array(0), reason: new Uint8Array(0), transectLengthM: new Float64Array(0), endX: new Float64Array(0), endY: new Float64Array(0), partnerChainageM: new Float64Array(0), angleDeg: new Float64Array(0), hitLine: new Int32Array(0), partnerSide: new Uint8Array(0) };
+  for (const name of FACING_COLUMNS) (facings as unknown as Record<string, Column>)[name] = take(`facing.${name}`, likeFacing[name]);
+  for (const name of RESULT_COLUMNS) {
+    const like = name === 'reason' || name === 'status' || name === 'flags' ? new Uint8Array(0) : new Float64Array(0);
+    (results as unknown as Record<string, Column>)[name] = take(`result.${name}`, like);
+  }
+  const tile = meta?.tile;
+  if (!tile || !Number.isInteger(tile.index) || !Number.isInteger(tile.count)) throw new Error('its header names no tile');
+  if (!Number.isSafeInteger(meta.districtStations)) throw new Error('its header gives no station count');
+  return { tile: { index: tile.index, count: tile.count }, districtStations: meta.districtStations, stations, facings, results, groundPass: meta.groundPass ?? null };
+}
+
+/** What every tile of a run records of the run, beside its own columns. */
+export interface TileRunMeta {
+  tool: 'doab';
+  version: string;
+  /** The screen command's options as given (paths as typed), less --out and --tile. */
+  options: Record<string, unknown>;
+  /** The folder the tile ran in: relative input paths are read from there. */
+  cwd: string;
+  /** SHA-256 of each input file the run reads, by option name. */
+  inputs: Record<string, string>;
+  /** One hash of the options and inputs: tiles of one run share it. */
+  runKey: string;
+}
+
+export type TileFileMeta = TileRunMeta & TilePartMeta;
+
+/** tile-0003-of-0007.doabtile: the name sorts with the index. */
+export function tileFileName(tile: TileOfSplit): string {
+  const width = Math.max(4, String(tile.count).length);
+  return `tile-${String(tile.index).padStart(width, '0')}-of-${String(tile.count).padStart(width, '0')}.doabtile`;
+}
+
+export const TILE_FILE_PATTERN = /^tile-(\d+)-of-(\d+)\.doabtile$/;
+
