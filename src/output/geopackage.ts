@@ -1,16 +1,18 @@
 // One OGC GeoPackage 1.3 (OGC 12-128r18) [published] holding a run: the strips, lines and
 // (when asked) transects in the work CRS with an R-tree index each, the ranking as an attributes
 // table, the run record as metadata, and the SLD styles in the layer_styles table desktop GIS reads
-// on opening. Built with better-sqlite3 in a temporary file that is always removed; the caller
-// writes the returned bytes with the run's atomic writer. Same result and options, same bytes.
-import { closedRing, layerProperties, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
+// on opening. Built with better-sqlite3 in a temporary file that is always removed, when the run's
+// atomic writer reaches it, and handed over a megabyte at a time: a district's GeoPackage is never
+// held in memory. Same result and options, same bytes.
+import { closedRing, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
 import Database from 'better-sqlite3';
-import { readFileSync } from 'node:fs';
+import { closeSync, mkdtempSync, openSync, readFileSync, readSync, rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
-import { linesLayer, rankingRow, RANKING_COLUMNS, stripProperties, transectsLayer } from './layers.js';
+import { doabLineFields, lineRows, rankingRow, RANKING_COLUMNS, stripProperties, transectRows, transectSides } from './layers.js';
 import { linesSld, stripsSld, type LinesLook, type StripsLook } from './sld.js';
 
 export interface GeoPackageOptions {
@@ -241,44 +243,40 @@ interface Layer {
   columns: Column[];
   keys: string[];
   rows: Record<string, unknown>[];
-  geometries: { blob: Buffer; env: Envelope }[];
+  /** Row i's geometry, made as it is inserted: a layer's blobs are never all held. */
+  geometry: (i: number) => { blob: Buffer; env: Envelope };
 }
 
 function stripsTable(result: ScreenResult, srsId: number): Layer {
   const rows = result.strips.map(stripProperties);
   const { columns, keys } = columnsOf(rows, () => true);
-  const geometries = result.strips.map((strip) => geometryBlob(srsId, WKB_POLYGON, [closedRing(strip.strip.ringM)]));
-  return { table: 'strips', geometryType: 'POLYGON', description: 'Strips between facing lines, ranked (as strips.geojson)', columns, keys, rows, geometries };
+  const geometry = (i: number) => geometryBlob(srsId, WKB_POLYGON, [closedRing(result.strips[i].strip.ringM)]);
+  return { table: 'strips', geometryType: 'POLYGON', description: 'Strips between facing lines, ranked (as strips.geojson)', columns, keys, rows, geometry };
 }
 
 function linesTable(result: ScreenResult, srsId: number): Layer {
-  const rows = [...layerProperties(linesLayer(result, 'sequence'))];
-  // the fields doab adds (all real numbers but the texts) are those of a line without attributes of its own
-  const own = result.lines.length === 0 ? new Set<string>() : new Set(Object.keys([...layerProperties(linesLayer(
-    { ...result, lines: [{ ...result.lines[0], properties: {} }], lineSummaries: [result.lineSummaries[0]], lineFigures: [result.lineFigures[0]] },
-    'sequence',
-  ))][0]));
+  const rows = lineRows(result);
+  // the fields doab adds (all real numbers but the texts), as against the input's own attributes
+  const own = new Set(doabLineFields(result));
   // the kind as the solve read it (the input may name it otherwise or in its own words): the style's filter
   rows.forEach((row, i) => (row.kind_used = result.lines[i].kind));
   own.add('kind_used');
   const { columns, keys } = columnsOf(rows, (key) => own.has(key));
-  const geometries = result.geometries.map((line) => geometryBlob(srsId, WKB_MULTILINESTRING, line.parts));
-  return { table: 'lines', geometryType: 'MULTILINESTRING', description: 'Canals and drains with their losses (as canals.geojson, plus kind_used)', columns, keys, rows, geometries };
+  const geometry = (i: number) => geometryBlob(srsId, WKB_MULTILINESTRING, result.geometries[i].parts);
+  return { table: 'lines', geometryType: 'MULTILINESTRING', description: 'Canals and drains with their losses (as canals.geojson, plus kind_used)', columns, keys, rows, geometry };
 }
 
 function transectsTable(result: ScreenResult, srsId: number): Layer {
-  const rows = [...layerProperties(transectsLayer(result, 'sequence'))];
+  const rows = transectRows(result);
   const { stations, facings } = result;
-  const geometries: { blob: Buffer; env: Envelope }[] = [];
   // the same facings in the same order as transectsLayer writes them
-  for (let i = 0; i < facings.count; i++) {
-    if (facings.partner[i] < 0) continue;
-    const s = i >> 1;
-    geometries.push(geometryBlob(srsId, WKB_LINESTRING, [Float64Array.of(stations.x[s], stations.y[s], facings.endX[i], facings.endY[i])]));
-  }
-  if (geometries.length !== rows.length) throw new Error(`Unexpected transect count: ${geometries.length} geometries for ${rows.length} features.`);
+  const sides = transectSides(result);
+  const geometry = (k: number) => {
+    const i = sides[k], s = i >> 1;
+    return geometryBlob(srsId, WKB_LINESTRING, [Float64Array.of(stations.x[s], stations.y[s], facings.endX[i], facings.endY[i])]);
+  };
   const { columns, keys } = columnsOf(rows, () => true);
-  return { table: 'transects', geometryType: 'LINESTRING', description: 'Transects from stations to their partner lines (as transects.geojson)', columns, keys, rows, geometries };
+  return { table: 'transects', geometryType: 'LINESTRING', description: 'Transects from stations to their partner lines (as transects.geojson)', columns, keys, rows, geometry };
 }
 
 function timestampOf(startedAt: string | null | undefined): string {
@@ -303,8 +301,10 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
   const contents = db.prepare('INSERT INTO gpkg_contents VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)');
   const extension = db.prepare('INSERT INTO gpkg_extensions VALUES (?, ?, ?, ?, ?)');
 
-  const layers = [stripsTable(result, srsId), linesTable(result, srsId), ...(result.settings.writeTransects ? [transectsTable(result, srsId)] : [])];
-  for (const layer of layers) {
+  // one layer's records at a time
+  const layers = [stripsTable, linesTable, ...(result.settings.writeTransects ? [transectsTable] : [])];
+  for (const table of layers) {
+    const layer = table(result, srsId);
     const t = quoteId(layer.table);
     db.exec(`CREATE TABLE ${t} (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL, ${GEOMETRY_COLUMN} ${layer.geometryType}${layer.columns.map((c) => `, ${quoteId(c.name)} ${c.type}`).join('')})`);
     const insert = db.prepare(`INSERT INTO ${t} VALUES (?, ?${', ?'.repeat(layer.columns.length)})`);
@@ -313,7 +313,7 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
     const rtree = db.prepare(`INSERT INTO ${quoteId(rtreeName)} VALUES (?, ?, ?, ?, ?)`);
     const env = emptyEnvelope();
     layer.rows.forEach((row, i) => {
-      const { blob, env: e } = layer.geometries[i];
+      const { blob, env: e } = layer.geometry(i);
       insert.run(i + 1, blob, ...layer.keys.map((key, k) => sqlValue(row[key], layer.columns[k].type)));
       // an R-tree holds 32-bit floats, rounded outwards by SQLite, so a search never misses a feature
       if (Number.isFinite(e.minX)) rtree.run(i + 1, e.minX, e.maxX, e.minY, e.maxY);
@@ -352,16 +352,73 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
   db.pragma(`user_version = ${GPKG_USER_VERSION}`);
 }
 
+// pieces of the file as the writer takes them
+const PIECE_BYTES = 1 << 20;
+// SQLite's page cache while building (KiB): enough that the R-trees' pages stay in memory
+const CACHE_KIB = 32 * 1024;
+
 /**
- * The run as one GeoPackage file's bytes, built in memory (no temporary file: the run's atomic
- * writer writes it as it writes every output, and a full disk or a size limit is met there).
+ * The run as one GeoPackage file, in pieces of a megabyte: built in a temporary file when the
+ * pieces are first asked for (so not before the run's atomic writer reaches it), read back, and
+ * removed however the reading ends. Each iteration builds the file again.
  */
-export function geopackageBytes(result: ScreenResult, options: GeoPackageOptions): Uint8Array {
-  const db = new Database(':memory:');
+export function geopackageFile(result: ScreenResult, options: GeoPackageOptions): Iterable<Uint8Array> {
+  return {
+    *[Symbol.iterator]() {
+      const dir = mkdtempSync(join(tmpdir(), 'doab-gpkg-'));
+      try {
+        const path = join(dir, 'doab.gpkg');
+        const db = new Database(path);
+        try {
+          // nothing to roll back to and nothing to survive a crash: the file is removed either way
+          db.pragma('journal_mode = OFF');
+          db.pragma('synchronous = OFF');
+          db.pragma(`cache_size = -${CACHE_KIB}`);
+          db.transaction(() => fill(db, result, options))();
+        } finally {
+          db.close();
+        }
+        let first = true;
+        for (const piece of filePieces(path)) {
+          if (first) zeroHeaderCounters(piece);
+          first = false;
+          yield piece;
+        }
+      } finally {
+        rmSync(dir, { recursive: true, force: true });
+      }
+    },
+  };
+}
+
+/**
+ * Sets the header's file change counter, its version-valid-for number and the SQLite version that
+ * wrote it to 0 (SQLite file format, section 1.3 [published]), as a database serialized from memory
+ * has them: the bytes then depend on neither how many times the file was written nor which SQLite
+ * wrote it. Equal counters keep the header's in-header database size valid.
+ */
+function zeroHeaderCounters(firstPiece: Uint8Array): void {
+  if (firstPiece.length < 100) throw new Error(`Unexpected GeoPackage size: ${firstPiece.length} bytes, less than its 100-byte header.`);
+  firstPiece.fill(0, 24, 28);
+  firstPiece.fill(0, 92, 100);
+}
+
+function* filePieces(path: string): Generator<Uint8Array> {
+  const fd = openSync(path, 'r');
   try {
-    db.transaction(() => fill(db, result, options))();
-    return new Uint8Array(db.serialize());
+    for (;;) {
+      // a fresh buffer each time: the writer may hold a piece after asking for the next
+      const piece = new Uint8Array(PIECE_BYTES);
+      const read = readSync(fd, piece, 0, PIECE_BYTES, null);
+      if (read <= 0) return;
+      yield read === PIECE_BYTES ? piece : piece.subarray(0, read);
+    }
   } finally {
-    db.close();
+    closeSync(fd);
   }
+}
+
+/** The whole file's bytes at once, for tests and small runs (a run's writer takes geopackageFile's pieces). */
+export function geopackageBytes(result: ScreenResult, options: GeoPackageOptions): Uint8Array {
+  return Buffer.concat([...geopackageFile(result, options)]);
 }

@@ -1,17 +1,6 @@
-// What the database writers (the GeoPackage and PostGIS) share: a layer's records read back from
-// the GeoJSON writer's own text, so every writer gives the same attributes; rings closed as WKB
-// wants them; quoted SQL identifiers; the WKB geometry type codes.
-
-/** A layer's features one record at a time (the layer written as an RFC 8142 sequence), properties exactly as the GeoJSON writes them. */
-export function* layerProperties(pieces: Iterable<string>): Generator<Record<string, unknown>> {
-  let rest = '';
-  for (const piece of pieces) {
-    const records = (rest + piece).split('\u001e');
-    rest = records.pop() ?? '';
-    for (const record of records) if (record.trim() !== '') yield JSON.parse(record).properties;
-  }
-  if (rest.trim() !== '') yield JSON.parse(rest).properties;
-}
+// What the database writers (the GeoPackage and PostGIS) share besides the layers' records
+// (layers.ts gives those as a reader of the GeoJSON gets them back): rings closed as WKB wants
+// them; quoted SQL identifiers; the WKB geometry type codes.
 
 /** A strip's ring closed, as WKB wants it. */
 export function closedRing(ringM: Float64Array): Float64Array {

@@ -43,20 +43,33 @@ export interface LayerFeature {
   geometry: object;
 }
 
+/** The properties of a feature as its JSON writes them, `"key":value,...` (see featureJson). */
+function propertiesJson(properties: Record<string, unknown>, real: RealFields): string {
+  const fields: string[] = [];
+  for (const key of Object.keys(properties)) {
+    const value = properties[key];
+    const isReal = typeof value === 'number' && (real === 'all' || real.has(key));
+    const text = isReal && Number.isInteger(value) && Math.abs(value as number) < 1e21 ? `${value}.0` : (JSON.stringify(value) ?? 'null');
+    fields.push(`${JSON.stringify(key)}:${text}`);
+  }
+  return fields.join(',');
+}
+
 /**
  * A feature as JSON, with every real-valued property written with a decimal point (400 as 400.0):
  * JSON itself has one number type, and a reader that infers field types from the text (GDAL does)
  * would otherwise call a field Integer in one run and Real in the next.
  */
 export function featureJson(feature: LayerFeature, real: RealFields): string {
-  const fields: string[] = [];
-  for (const key of Object.keys(feature.properties)) {
-    const value = feature.properties[key];
-    const isReal = typeof value === 'number' && (real === 'all' || real.has(key));
-    const text = isReal && Number.isInteger(value) && Math.abs(value as number) < 1e21 ? `${value}.0` : (JSON.stringify(value) ?? 'null');
-    fields.push(`${JSON.stringify(key)}:${text}`);
-  }
-  return `{"type":"Feature","properties":{${fields.join(',')}},"geometry":${JSON.stringify(feature.geometry)}}`;
+  return `{"type":"Feature","properties":{${propertiesJson(feature.properties, real)}},"geometry":${JSON.stringify(feature.geometry)}}`;
+}
+
+/**
+ * A feature's properties as a reader of the layer gets them back (NaN and Infinity as null, -0 as
+ * 0): what the database writers store, so every writer gives the same attributes.
+ */
+export function propertiesAsWritten(properties: Record<string, unknown>, real: RealFields = 'all'): Record<string, unknown> {
+  return JSON.parse(`{${propertiesJson(properties, real)}}`) as Record<string, unknown>;
 }
 
 /** The layer's text in pieces of about a megabyte, one feature built at a time, so no layer is ever one string. */
@@ -119,14 +132,14 @@ export function stripProperties(strip: StripSummary): Record<string, unknown> {
 }
 
 export function stripsLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
-  return featureCollection(
-    result.strips.map((strip) => ({
-      type: 'Feature',
-      properties: stripProperties(strip),
-      geometry: { type: 'Polygon', coordinates: [ringToLonLat(result.crs, strip.strip.ringM)] },
-    })),
-    format,
-  );
+  return featureCollection(stripFeatures(result), format);
+}
+
+// one feature at a time, built as the writer reaches it: a layer's features are never all held
+function* stripFeatures(result: ScreenResult): Generator<LayerFeature> {
+  for (const strip of result.strips) {
+    yield { type: 'Feature', properties: stripProperties(strip), geometry: { type: 'Polygon', coordinates: [ringToLonLat(result.crs, strip.strip.ringM)] } };
+  }
 }
 
 /** "left: no-partner 1200 m; right: not-parallel 300 m, outside-aquifer 100 m" */
@@ -147,81 +160,114 @@ const LINE_REAL_FIELDS: ReadonlySet<string> = new Set([
   'bed_resistance_used_d', 'wetted_perimeter_used_m', 'covers_share',
 ]);
 
+/** A line's properties on the lines layer: its own attributes as they came in, then doab's figures. */
+export function lineProperties(line: ScreenResult['lines'][number], summary: ScreenResult['lineSummaries'][number], figure: ScreenResult['lineFigures'][number]): Record<string, unknown> {
+  // the input's attributes go out as they came in; the prototype-free copy keeps __proto__ a plain key
+  const properties: Record<string, unknown> = Object.create(null);
+  for (const key of Object.keys(line.properties)) properties[key] = line.properties[key];
+  properties.length_m = roundNumber(summary.lengthM);
+  // the figure a planner reads: the district solve's when it ran, with its method named
+  properties.net_loss_m3_d = roundNumber(figure.netLossM3PerDay);
+  properties.net_loss_m3_d_km = roundNumber(figure.netLossM3PerDayKm);
+  properties.loss_method = figure.method;
+  properties.covers_share = roundNumber(figure.coversShare);
+  properties.coarse_cell_diff_m3_d = roundNumber(figure.coarseDiffM3PerDay);
+  properties.strip_net_loss_m3_d = roundNumber(figure.stripNetLossM3PerDay);
+  properties.strip_net_loss_m3_d_km = roundNumber(figure.stripNetLossM3PerDayKm);
+  properties.strip_diff_m3_d = figure.method === 'district' ? roundNumber(figure.stripNetLossM3PerDay - figure.netLossM3PerDay) : null;
+  properties.paired_m = roundNumber(summary.pairedM);
+  properties.unpaired_m = roundNumber(summary.unpairedM);
+  properties.solved_sides_m = roundNumber(summary.solvedSidesM);
+  properties.unpaired_reasons = reasonsText(summary.unpairedBySideM);
+  // the bed the solve used (from the line's attributes or the config's defaults): 0 d is a clean bed
+  properties.bed_resistance_used_d = roundNumber(line.bedResistanceD);
+  // 0 where the bed is clean and no perimeter was given (none is needed), so the field is Real in every run
+  properties.wetted_perimeter_used_m = Number.isNaN(line.wettedPerimeterM) ? 0 : roundNumber(line.wettedPerimeterM);
+  return properties;
+}
+
+/** The names of the fields doab adds to the lines layer, in their order (those of a line without attributes of its own). */
+export function doabLineFields(result: ScreenResult): string[] {
+  if (result.lines.length === 0) return [];
+  return Object.keys(lineProperties({ ...result.lines[0], properties: {} }, result.lineSummaries[0], result.lineFigures[0]));
+}
+
+/** The lines layer's records as a reader gets them back, one per line in order. */
+export function lineRows(result: ScreenResult): Record<string, unknown>[] {
+  return result.lines.map((line, i) => propertiesAsWritten(lineProperties(line, result.lineSummaries[i], result.lineFigures[i]), LINE_REAL_FIELDS));
+}
+
 export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
-  return featureCollection(
-    result.lines.map((line, i) => {
-      const summary = result.lineSummaries[i];
-      const figure = result.lineFigures[i];
-      // the input's attributes go out as they came in; the prototype-free copy keeps __proto__ a plain key
-      const properties: Record<string, unknown> = Object.create(null);
-      for (const key of Object.keys(line.properties)) properties[key] = line.properties[key];
-      properties.length_m = roundNumber(summary.lengthM);
-      // the figure a planner reads: the district solve's when it ran, with its method named
-      properties.net_loss_m3_d = roundNumber(figure.netLossM3PerDay);
-      properties.net_loss_m3_d_km = roundNumber(figure.netLossM3PerDayKm);
-      properties.loss_method = figure.method;
-      properties.covers_share = roundNumber(figure.coversShare);
-      properties.coarse_cell_diff_m3_d = roundNumber(figure.coarseDiffM3PerDay);
-      properties.strip_net_loss_m3_d = roundNumber(figure.stripNetLossM3PerDay);
-      properties.strip_net_loss_m3_d_km = roundNumber(figure.stripNetLossM3PerDayKm);
-      properties.strip_diff_m3_d = figure.method === 'district' ? roundNumber(figure.stripNetLossM3PerDay - figure.netLossM3PerDay) : null;
-      properties.paired_m = roundNumber(summary.pairedM);
-      properties.unpaired_m = roundNumber(summary.unpairedM);
-      properties.solved_sides_m = roundNumber(summary.solvedSidesM);
-      properties.unpaired_reasons = reasonsText(summary.unpairedBySideM);
-      // the bed the solve used (from the line's attributes or the config's defaults): 0 d is a clean bed
-      properties.bed_resistance_used_d = roundNumber(line.bedResistanceD);
-      // 0 where the bed is clean and no perimeter was given (none is needed), so the field is Real in every run
-      properties.wetted_perimeter_used_m = Number.isNaN(line.wettedPerimeterM) ? 0 : roundNumber(line.wettedPerimeterM);
-      const parts = line.partsLonLat.map((part) => part.map(([lon, lat]) => [roundDegrees(lon), roundDegrees(lat)]));
-      // one geometry type for the whole layer, so a GIS sees a line layer, not "any"
-      return { type: 'Feature' as const, properties, geometry: { type: 'MultiLineString', coordinates: parts } };
-    }),
-    format,
-    LINE_REAL_FIELDS,
-  );
+  return featureCollection(lineFeatures(result), format, LINE_REAL_FIELDS);
+}
+
+function* lineFeatures(result: ScreenResult): Generator<LayerFeature> {
+  for (let i = 0; i < result.lines.length; i++) {
+    const line = result.lines[i];
+    const parts = line.partsLonLat.map((part) => part.map(([lon, lat]) => [roundDegrees(lon), roundDegrees(lat)]));
+    // one geometry type for the whole layer, so a GIS sees a line layer, not "any"
+    yield { type: 'Feature', properties: lineProperties(line, result.lineSummaries[i], result.lineFigures[i]), geometry: { type: 'MultiLineString', coordinates: parts } };
+  }
 }
 
 export function transectsLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
   return featureCollection(transectFeatures(result), format);
 }
 
+/** The transect sides the transects layer holds, in its order: every side with a partner. */
+export function transectSides(result: ScreenResult): number[] {
+  const sides: number[] = [];
+  for (let i = 0; i < result.facings.count; i++) if (result.facings.partner[i] >= 0) sides.push(i);
+  return sides;
+}
+
+/** The transects layer's records as a reader gets them back, one per side of `transectSides`. */
+export function transectRows(result: ScreenResult): Record<string, unknown>[] {
+  return transectSides(result).map((i) => propertiesAsWritten(transectProperties(result, i)));
+}
+
 // one feature at a time: a district can have millions of transects
 function* transectFeatures(result: ScreenResult): Generator<LayerFeature> {
-  const { stations, facings, results, lines, crs } = result;
+  const { stations, facings, crs } = result;
   for (let i = 0; i < facings.count; i++) {
     if (facings.partner[i] < 0) continue;
     const station = i >> 1;
-    const status = results.status[i];
     yield {
       type: 'Feature',
-      properties: {
-        line: lines[stations.line[station]].id,
-        side: i % 2 === 0 ? 'left' : 'right',
-        chainage_m: roundNumber(stations.chainageM[station]),
-        station_length_m: roundNumber(stations.lengthM[station]),
-        partner: lines[facings.partner[i]].id,
-        partner_chainage_m: roundNumber(facings.partnerChainageM[i]),
-        reason: FACING_REASON_NAMES[results.reason[i]],
-        solve: status === NOT_PAIRED ? 'not-solved' : SOLVE_STATUS_NAMES[status],
-        transect_length_m: roundNumber(facings.transectLengthM[i]),
-        stage_m: roundNumber(results.ownStageM[i]),
-        partner_stage_m: roundNumber(results.partnerStageM[i]),
-        base_m: roundNumber(results.baseM[i]),
-        seepage_m2_d: roundNumber(results.ownSeepageM2PerDay[i]),
-        partner_seepage_m2_d: roundNumber(results.partnerSeepageM2PerDay[i]),
-        recharge_m2_d: roundNumber(results.rechargeM2PerDay[i]),
-        peak_water_table_m: roundNumber(results.peakWaterTableM[i]),
-        peak_offset_m: roundNumber(results.peakOffsetM[i]),
-        min_depth_m: roundNumber(results.minDepthM[i]),
-        dupuit_ratio: roundNumber(results.dupuitRatio[i]),
-      },
+      properties: transectProperties(result, i),
       geometry: {
         type: 'LineString',
         coordinates: [toLonLat(crs, stations.x[station], stations.y[station]), toLonLat(crs, facings.endX[i], facings.endY[i])],
       },
     };
   }
+}
+
+function transectProperties(result: ScreenResult, i: number): Record<string, unknown> {
+  const { stations, facings, results, lines } = result;
+  const station = i >> 1;
+  const status = results.status[i];
+  return {
+    line: lines[stations.line[station]].id,
+    side: i % 2 === 0 ? 'left' : 'right',
+    chainage_m: roundNumber(stations.chainageM[station]),
+    station_length_m: roundNumber(stations.lengthM[station]),
+    partner: lines[facings.partner[i]].id,
+    partner_chainage_m: roundNumber(facings.partnerChainageM[i]),
+    reason: FACING_REASON_NAMES[results.reason[i]],
+    solve: status === NOT_PAIRED ? 'not-solved' : SOLVE_STATUS_NAMES[status],
+    transect_length_m: roundNumber(facings.transectLengthM[i]),
+    stage_m: roundNumber(results.ownStageM[i]),
+    partner_stage_m: roundNumber(results.partnerStageM[i]),
+    base_m: roundNumber(results.baseM[i]),
+    seepage_m2_d: roundNumber(results.ownSeepageM2PerDay[i]),
+    partner_seepage_m2_d: roundNumber(results.partnerSeepageM2PerDay[i]),
+    recharge_m2_d: roundNumber(results.rechargeM2PerDay[i]),
+    peak_water_table_m: roundNumber(results.peakWaterTableM[i]),
+    peak_offset_m: roundNumber(results.peakOffsetM[i]),
+    min_depth_m: roundNumber(results.minDepthM[i]),
+    dupuit_ratio: roundNumber(results.dupuitRatio[i]),
+  };
 }
 
 // OWASP, CSV Injection: a cell starting with =, +, -, @, tab or carriage return may run as a

@@ -2,12 +2,12 @@
 // them, in a schema of the user's choosing, geometry in the work CRS (its SRID registered when the
 // database lacks it), keyed by run id, with a table of runs. One transaction: a failure anywhere
 // leaves the database as it was.
-import { closedRing, layerProperties, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
+import { closedRing, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
 import pg from 'pg';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
 import { workCrsWkt } from './geopackage.js';
-import { linesLayer, rankingRow, RANKING_COLUMNS, stripProperties, transectsLayer } from './layers.js';
+import { lineRows, rankingRow, RANKING_COLUMNS, stripProperties, transectRows, transectSides } from './layers.js';
 
 export interface PostgisOptions {
   /** Connection string; the password best comes from PGPASSWORD or a password file (pg reads both). */
@@ -163,7 +163,7 @@ function stripsTable(result: ScreenResult): Table {
 }
 
 function linesTable(result: ScreenResult): Table {
-  const rows = [...layerProperties(linesLayer(result, 'sequence'))];
+  const rows = lineRows(result);
   rows.forEach((row, i) => {
     row.kind_used = result.lines[i].kind;
     row.line_id = result.lines[i].id;
@@ -182,11 +182,9 @@ function linesTable(result: ScreenResult): Table {
 
 /** The transects layer (with --transects), keyed by the transect side's number in the run; each a one-part MultiLineString. */
 function transectsTable(result: ScreenResult): Table {
-  const rows = [...layerProperties(transectsLayer(result, 'sequence'))];
+  const rows = transectRows(result);
   const { stations, facings } = result;
-  const sides: number[] = [];
-  // the layer's own order: every side with a partner
-  for (let i = 0; i < facings.count; i++) if (facings.partner[i] >= 0) sides.push(i);
+  const sides = transectSides(result);
   rows.forEach((row, k) => (row.side_number = sides[k]));
   const key: Column = { name: 'side_number', key: 'side_number', type: 'bigint' };
   const text = new Set(['line', 'side', 'partner', 'reason', 'solve']);

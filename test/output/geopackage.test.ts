@@ -4,11 +4,11 @@
 import Database from 'better-sqlite3';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { geopackageBytes, GPKG_APPLICATION_ID, GPKG_USER_VERSION, type GeoPackageOptions } from '../../src/output/geopackage.js';
+import { geopackageBytes, geopackageFile, GPKG_APPLICATION_ID, GPKG_USER_VERSION, type GeoPackageOptions } from '../../src/output/geopackage.js';
 import { layerText, linesLayer, RANKING_COLUMNS, stripProperties, stripsLayer, transectsLayer } from '../../src/output/layers.js';
 import { linesSld, stripsSld } from '../../src/output/sld.js';
 import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES } from '../../src/report/palette.js';
@@ -83,6 +83,30 @@ describe('GeoPackage of the demo (strips only, with transects)', () => {
       expect(srs[3].definition).toMatch(/^PROJCS\["WGS 84 \/ UTM zone \d+N"/);
     } finally {
       db.close();
+    }
+  });
+
+  it('is built in a temporary file only while read, removed however the reading ends, with a header as from memory', () => {
+    const tmp = process.env.TMPDIR;
+    process.env.TMPDIR = mkdtempSync(join(tmpdir(), 'doab-gpkg-tmp-'));
+    try {
+      const file = geopackageFile(result, optionsFor(result));
+      // nothing is built until the writer asks for the first piece
+      expect(readdirSync(process.env.TMPDIR)).toEqual([]);
+      for (const piece of file) {
+        expect(readdirSync(process.env.TMPDIR)).toHaveLength(1);
+        // the file change counter, version-valid-for and SQLite version: 0, as a database serialized from memory has them
+        expect([...piece.subarray(24, 28), ...piece.subarray(92, 100)]).toEqual(new Array(12).fill(0));
+        break;
+      }
+      expect(readdirSync(process.env.TMPDIR)).toEqual([]);
+      const pieces = [...file];
+      expect(pieces.slice(0, -1).every((piece) => piece.length === 1 << 20)).toBe(true);
+      expect(Buffer.concat(pieces).equals(readFileSync(path))).toBe(true);
+      expect(readdirSync(process.env.TMPDIR)).toEqual([]);
+    } finally {
+      if (tmp === undefined) delete process.env.TMPDIR;
+      else process.env.TMPDIR = tmp;
     }
   });
 
