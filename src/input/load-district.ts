@@ -7,6 +7,11 @@ import { crossCheck } from '../screening/cross-checks.js';
 import { checkLines, checkZones, type LineRecord, type ZoneRecord } from '../screening/district-inputs.js';
 
 export interface LoadedDistrict {
+  /**
+   * The lines' file. Its features are let go once checked (each entry undefined, the length kept
+   * for now): the records hold all a run needs, and a large district's features would double what
+   * it holds. featureCount says how many there were.
+   */
   canals: InputFile | null;
   aquifer: InputFile | null;
   lines: LineRecord[];
@@ -38,6 +43,7 @@ export async function loadDistrict(canalsPath: string, aquiferPath: string, conf
     const checked = checkLines(canalsPath, canals.features, config.rules);
     lines = checked.records;
     for (const item of checked.problems) problems.push(item);
+    canals.features.fill(undefined);
   }
   if (aquifer) {
     const checked = checkZones(aquiferPath, aquifer.features, config.rules, checks);

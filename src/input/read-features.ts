@@ -21,6 +21,8 @@ export interface InputFile {
   sha256: string;
   bytes: number;
   features: unknown[];
+  /** How many features the file held (loadDistrict lets the lines' features go once checked; this stays). */
+  featureCount: number;
   /** The CRS the file was written in, or null for lon/lat as RFC 7946 asks. */
   sourceCrs: string | null;
   warnings: string[];
@@ -150,7 +152,7 @@ export async function readFeatureFile(path: string, options: ReadOptions = {}): 
   const extension = extname(path).toLowerCase();
   const raw =
     extension === '.shp' ? readShapefileFromDisk(path, options) : extension === '.zip' ? readZippedShapefile(path, options) : null;
-  let file: Omit<InputFile, 'features' | 'sourceCrs' | 'warnings'> & { features: unknown[]; declaredCrs: string | null };
+  let file: Omit<InputFile, 'features' | 'featureCount' | 'sourceCrs' | 'warnings'> & { features: unknown[]; declaredCrs: string | null };
   if (raw) {
     const features = await parseShapefile(raw.label, raw.shp, raw.dbf, raw.encoding);
     file = { path, format: raw.format, sha256: raw.sha256, bytes: raw.bytes, features, declaredCrs: raw.prj };
@@ -178,6 +180,7 @@ export async function readFeatureFile(path: string, options: ReadOptions = {}): 
     sha256: file.sha256,
     bytes: file.bytes,
     features: file.features,
+    featureCount: file.features.length,
     sourceCrs: crs ? crs.label : null,
     warnings,
   };

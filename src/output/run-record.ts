@@ -101,7 +101,7 @@ export interface InputFacts {
   sourceCrs: string | null;
   sha256: string;
   bytes: number;
-  features: readonly unknown[];
+  featureCount: number;
 }
 
 export interface RunMeta {
@@ -125,7 +125,7 @@ export interface RunMeta {
 }
 
 function describeInput(file: InputFacts) {
-  return { path: file.path, format: file.format, source_crs: file.sourceCrs, sha256: file.sha256, bytes: file.bytes, features: file.features.length };
+  return { path: file.path, format: file.format, source_crs: file.sourceCrs, sha256: file.sha256, bytes: file.bytes, features: file.featureCount };
 }
 
 /** The district solve's grid, convergence, water balance and areas, or why it did not run. */
