@@ -47,6 +47,13 @@ export interface CastOptions {
    * grown by maxGapM (its halo), which holds every transect they cast. Default: every segment.
    */
   segmentBox?: readonly [number, number, number, number] | null;
+  /** The segments of these same lines, indexed once (castIndex) for many casts, as a worker makes them. */
+  index?: CastIndex;
+}
+
+/** The lines' segments indexed for casting: build once with castIndex, cast many chunks of stations with it. */
+export interface CastIndex {
+  readonly segments: unknown;
 }
 
 // A crossing this close to the station is the station's own junction with a touching line (a
@@ -86,6 +93,11 @@ function buildSegmentIndex(t: LineTable, box: CastOptions['segmentBox'] = null):
   return { vertex: vertex.subarray(0, n), part: part.subarray(0, n), tree };
 }
 
+/** Every segment of the lines, indexed: for castTransects' `index` option with the same lines. */
+export function castIndex(lines: LineTable): CastIndex {
+  return { segments: buildSegmentIndex(lines) };
+}
+
 function checkOptions(o: CastOptions): void {
   if (!(o.maxGapM > 0) || !Number.isFinite(o.maxGapM)) throw new Error(`Unexpected maxGapM value: ${o.maxGapM}.`);
   if (!(o.maxAngleDeg >= 0 && o.maxAngleDeg <= 90)) throw new Error(`Unexpected maxAngleDeg value: ${o.maxAngleDeg} (want 0 to 90).`);
@@ -103,7 +115,7 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
   for (let i = 0; i < stations.count; i++) {
     if (stations.line[i] >= t.lineCount) throw new Error(`Station ${i} is on line ${stations.line[i]}, but there are ${t.lineCount} lines.`);
   }
-  const seg = buildSegmentIndex(t, options.segmentBox ?? null);
+  const seg = options.index ? (options.index.segments as SegmentIndex) : buildSegmentIndex(t, options.segmentBox ?? null);
   const n = stations.count * 2;
   const f: FacingTable = {
     count: n,

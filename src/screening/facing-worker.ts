@@ -1,6 +1,7 @@
 // A transect-solve worker (started by facing-workers.ts): builds the zone index once from the
-// zone polygons, then solves each chunk of facings it is sent with solveFacingRange and posts the
-// results back, their buffers transferred. Modules are imported inside the try, so that a failure
+// zone polygons, then casts (when asked, against the lines in shared memory) and solves each chunk
+// it is sent with the same code as the main thread, and posts the results back, their buffers
+// transferred. Modules are imported inside the try, so that a failure
 // to load is reported to the waiting thread rather than lost.
 import { workerData } from 'node:worker_threads';
 import type { FacingChunk, FacingWorkerData, FacingWorkerReply } from './facing-workers.js';
@@ -15,14 +16,20 @@ const reply = (message: FacingWorkerReply, transfer: ArrayBuffer[] = []): void =
 
 try {
   const { buildZoneIndex } = await import('../geometry/index.js');
-  const { emptyResults, solveFacingRange } = await import('./solve-facings.js');
+  const { solveFacingRange } = await import('./solve-facings.js');
+  const { workOnChunk } = await import('./facing-workers.js');
+  const { castIndex } = await import('../geometry/transects.js');
   const context = { lines: data.lines, lineLengthsM: data.lineLengthsM, zones: data.zones, zoneIndex: buildZoneIndex(data.zonePolygons), settings: data.settings };
+  // the segments are indexed once, when the first chunk to cast comes
+  const cast = data.cast;
+  let index: ReturnType<typeof castIndex> | null = null;
+  const castWith = cast ? { ...cast, index: () => (index ??= castIndex(cast.lineTable)) } : null;
   reply({ ready: true });
   data.port.on('message', (chunk: FacingChunk) => {
     try {
-      const results = emptyResults(chunk.facings.reason);
-      solveFacingRange(context, chunk.stations, chunk.facings, results);
-      reply({ start: chunk.start, results }, Object.values(results).map((column: Uint8Array) => column.buffer as ArrayBuffer));
+      const { results, facings } = workOnChunk(chunk, castWith, (stations, columns, into) => solveFacingRange(context, stations, columns, into));
+      const buffers = [...Object.values(results), ...(facings ? Object.values(facings).filter((column) => typeof column === 'object') : [])].map((column: Uint8Array) => column.buffer as ArrayBuffer);
+      reply({ start: chunk.start, results, facings }, buffers);
     } catch (error) {
       reply({ error: (error as Error).stack ?? String(error) });
     }

@@ -7,9 +7,11 @@ import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { MessageChannel, Worker, receiveMessageOnPort, type MessagePort } from 'node:worker_threads';
-import type { FacingTable, StationTable } from '../geometry/index.js';
+import type { FacingTable, LineTable, StationTable } from '../geometry/index.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { emptyResults, type FacingInputs, type FacingResults, type SolveContext, type StationInputs } from './facing-columns.js';
+import { castIndex, type CastIndex } from '../geometry/transects.js';
+import { castTransects } from '../geometry/index.js';
 
 /**
  * Fewer facings than this are solved in process: starting a worker and building its zone index
@@ -22,7 +24,7 @@ export const WORKER_MIN_FACINGS = 50_000;
 const MAX_CHUNK_FACINGS = 1 << 15;
 
 /** Counts of worker runs in this process, for tests that must know the workers ran. */
-export const facingWorkerStats = { runs: 0, threads: 0, chunks: 0, threadChunks: 0 };
+export const facingWorkerStats = { runs: 0, threads: 0, chunks: 0, threadChunks: 0, threadCastChunks: 0 };
 
 /** Workers for a solve of `facings` facings: the setting (null for the machine's cores), 1 below the threshold. */
 export function workerCount(setting: number | null, facings: number): number {
@@ -44,18 +46,64 @@ export interface FacingWorkerData {
   port: MessagePort;
   /** Int32 counter a worker bumps (and notifies) after each message it posts. */
   signal: SharedArrayBuffer;
+  /** When the workers cast the transects too: the lines (in shared memory) and the cast's options. */
+  cast: CastWork | null;
 }
 
-/** A chunk of work: facings start .. start + reason.length - 1, with their stations' columns. */
+/** Casting in the workers: the lines' table and the options every chunk is cast with. */
+export interface CastWork {
+  lineTable: LineTable;
+  options: { maxGapM: number; maxAngleDeg: number; halfWindowM: number };
+}
+
+/**
+ * A chunk of work: facings start .. start + 2 n - 1 of n stations, with their stations' columns,
+ * and their facings' columns; or, when the worker is to cast them first, none (and every station column).
+ */
 export interface FacingChunk {
   start: number;
-  stations: StationInputs;
-  facings: FacingInputs;
+  stations: StationInputs | StationTable;
+  facings: FacingInputs | null;
 }
 
-export type FacingWorkerReply = { ready: true } | { start: number; results: FacingResults } | { error: string };
+export type FacingWorkerReply = { ready: true } | { start: number; results: FacingResults; facings: FacingTable | null } | { error: string };
 
 const STATION_COLUMNS = ['x', 'y', 'line', 'chainageM'] as const;
+const CAST_STATION_COLUMNS = ['line', 'part', 'chainageM', 'x', 'y', 'dirX', 'dirY', 'lengthM'] as const;
+/** The facing columns castTransects fills, in its table's order. */
+const CAST_FACING_COLUMNS = ['partner', 'reason', 'transectLengthM', 'endX', 'endY', 'partnerChainageM', 'angleDeg', 'hitLine', 'partnerSide'] as const;
+
+/** The line table in shared memory: every worker reads the one copy. */
+function sharedLineTable(t: LineTable): LineTable {
+  const share = <T extends Float64Array | Uint32Array>(column: T): T => {
+    const shared = new (column.constructor as { new (buffer: SharedArrayBuffer): T })(new SharedArrayBuffer(column.byteLength));
+    shared.set(column);
+    return shared;
+  };
+  return { lineCount: t.lineCount, ids: [], linePartStart: share(t.linePartStart), partVertexStart: share(t.partVertexStart), partLine: share(t.partLine), chainageM: share(t.chainageM), x: share(t.x), y: share(t.y) };
+}
+
+/**
+ * Casts the chunk's transects (when it carries no facings) and solves them: the one function a
+ * worker and this thread run on a chunk, so that either gives the same columns.
+ */
+export function workOnChunk(
+  chunk: FacingChunk,
+  cast: { lineTable: LineTable; options: CastWork['options']; index: () => CastIndex } | null,
+  solve: (stations: StationInputs, facings: FacingInputs, results: FacingResults) => void,
+): { results: FacingResults; facings: FacingTable | null } {
+  let facings: FacingInputs;
+  let cast_: FacingTable | null = null;
+  if (chunk.facings === null) {
+    if (!cast) throw new Error('Unexpected chunk to cast without the lines.');
+    const stations = chunk.stations as StationTable;
+    cast_ = castTransects(cast.lineTable, { ...stations, count: stations.x.length }, { ...cast.options, index: cast.index() });
+    facings = cast_;
+  } else facings = chunk.facings;
+  const results = emptyResults(facings.reason);
+  solve(chunk.stations, facings, results);
+  return { results, facings: cast_ };
+}
 const FACING_COLUMNS = ['reason', 'endX', 'endY', 'partner', 'partnerChainageM', 'transectLengthM'] as const;
 
 /**
@@ -70,20 +118,44 @@ function workerEntry(): URL {
 /** How long a worker may take to start and build its zone index before the run gives up on it (ms). */
 const START_TIMEOUT_MS = 60_000;
 
+/**
+ * Solves the facings over worker threads; with `facings` a CastWork instead of a table, the
+ * workers cast the transects of their chunk of stations first. Returns the results and the
+ * facings (as given, or cast).
+ */
 export function solveInWorkers(
   context: SolveContext,
   stations: StationTable,
-  facings: FacingTable,
+  facingsOrCast: FacingTable | CastWork,
   workerTotal: number,
   onProgress: (done: number) => void,
   solveChunk: (context: SolveContext, stations: StationInputs, facings: FacingInputs, results: FacingResults) => void,
-): FacingResults {
-  const n = facings.count;
+): { results: FacingResults; facings: FacingTable } {
+  const castWork = 'lineTable' in facingsOrCast ? facingsOrCast : null;
+  const given = castWork ? null : (facingsOrCast as FacingTable);
+  const n = 2 * stations.count;
+  if (given && given.count !== n) throw new Error(`Unexpected ${given.count} facings for ${stations.count} stations.`);
+  const cast = castWork ? { lineTable: sharedLineTable(castWork.lineTable), options: castWork.options } : null;
+  // this thread's own index of the segments, made when it first casts a chunk
+  let ownIndex: CastIndex | null = null;
+  const ownCast = cast ? { ...cast, index: () => (ownIndex ??= castIndex(cast.lineTable)) } : null;
+  const facings: FacingTable = given ?? {
+    count: n,
+    partner: new Int32Array(n),
+    reason: new Uint8Array(n),
+    transectLengthM: new Float64Array(n),
+    endX: new Float64Array(n),
+    endY: new Float64Array(n),
+    partnerChainageM: new Float64Array(n),
+    angleDeg: new Float64Array(n),
+    hitLine: new Int32Array(n),
+    partnerSide: new Uint8Array(n),
+  };
   // about eight chunks a worker, so that one slow region does not hold the others up
   const chunkFacings = Math.min(MAX_CHUNK_FACINGS, Math.max(2, 2 * Math.ceil(n / (16 * workerTotal))));
   const chunkTotal = Math.ceil(n / chunkFacings);
   // every facing is overwritten by its chunk's results
-  const results = emptyResults(facings.reason, false);
+  const results = emptyResults(given ? given.reason : new Uint8Array(n), false);
   const signal = new SharedArrayBuffer(4);
   const counter = new Int32Array(signal);
   // the workers need each line's stage and bed, not its geometry or attributes
@@ -97,22 +169,26 @@ export function solveInWorkers(
   const takeChunk = (): FacingChunk => {
     const start = next * chunkFacings, end = Math.min(n, start + chunkFacings);
     next++;
+    if (!given) {
+      const columns = Object.fromEntries(CAST_STATION_COLUMNS.map((key) => [key, stations[key].slice(start >> 1, (end + 1) >> 1)]));
+      return { start, stations: { count: (end - start) >> 1, ...columns } as unknown as StationTable, facings: null };
+    }
     return {
       start,
       stations: Object.fromEntries(STATION_COLUMNS.map((key) => [key, stations[key].slice(start >> 1, (end + 1) >> 1)])) as unknown as StationInputs,
-      facings: Object.fromEntries(FACING_COLUMNS.map((key) => [key, facings[key].slice(start, end)])) as unknown as FacingInputs,
+      facings: Object.fromEntries(FACING_COLUMNS.map((key) => [key, given[key].slice(start, end)])) as unknown as FacingInputs,
     };
   };
   const send = (slot: (typeof workers)[number]): void => {
     if (next >= chunkTotal) return;
     const chunk = takeChunk();
-    const transfer = [...Object.values(chunk.stations), ...Object.values(chunk.facings)].map((column) => (column as Float64Array).buffer as ArrayBuffer);
+    const transfer = [...Object.values(chunk.stations), ...Object.values(chunk.facings ?? {})].filter((column) => typeof column === 'object').map((column) => (column as Float64Array).buffer as ArrayBuffer);
     slot.port.postMessage(chunk, transfer);
   };
   try {
     for (let w = 1; w < workerTotal; w++) {
       const { port1, port2 } = new MessageChannel();
-      const workerData: FacingWorkerData = { lines, lineLengthsM: context.lineLengthsM, zones, zonePolygons: context.zoneIndex.polygons, settings: context.settings, port: port2, signal };
+      const workerData: FacingWorkerData = { lines, lineLengthsM: context.lineLengthsM, zones, zonePolygons: context.zoneIndex.polygons, settings: context.settings, port: port2, signal, cast };
       const worker = new Worker(entry, { workerData, transferList: [port2] });
       worker.unref();
       workers.push({ worker, port: port1, ready: false });
@@ -134,6 +210,10 @@ export function solveInWorkers(
             continue;
           }
           place(results, reply.start, reply.results);
+          if (reply.facings) {
+            placeFacings(facings, reply.start, reply.facings);
+            facingWorkerStats.threadCastChunks++;
+          }
           threadChunks++;
           done++;
           doneFacings += reply.results.reason.length;
@@ -144,9 +224,9 @@ export function solveInWorkers(
       // a worker bumps the counter after posting; the timeout only guards against a lost wake-up
       if (!received && next < chunkTotal) {
         const chunk = takeChunk();
-        const own = emptyResults(chunk.facings.reason);
-        solveChunk(context, chunk.stations, chunk.facings, own);
+        const { results: own, facings: ownFacings } = workOnChunk(chunk, ownCast, (s, f, r) => solveChunk(context, s, f, r));
         place(results, chunk.start, own);
+        if (ownFacings) placeFacings(facings, chunk.start, ownFacings);
         done++;
         doneFacings += own.reason.length;
         onProgress(doneFacings);
@@ -166,7 +246,12 @@ export function solveInWorkers(
   facingWorkerStats.chunks += chunkTotal;
   facingWorkerStats.threadChunks += threadChunks;
   onProgress(n);
-  return results;
+  return { results, facings };
+}
+
+/** Copies a chunk's cast facings into the whole run's at the chunk's first facing. */
+function placeFacings(facings: FacingTable, start: number, chunk: FacingTable): void {
+  for (const key of CAST_FACING_COLUMNS) (facings[key] as Float64Array).set(chunk[key] as Float64Array, start);
 }
 
 /** Copies a chunk's results into the whole run's at the chunk's first facing. */

@@ -8,7 +8,6 @@ import {
   buildLineTable,
   buildStrips,
   buildZoneIndex,
-  castTransects,
   lineLengthM,
   placeStations,
   zonePolygons,
@@ -24,7 +23,7 @@ import { m3PerDayToM3PerYear } from '../shared/units.js';
 import { lossPerKm, summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
 import { districtSolve, type DistrictResult } from './district.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
-import { NOT_PAIRED, solveFacings, type FacingResults } from './solve-facings.js';
+import { castAndSolveFacings, NOT_PAIRED, type FacingResults } from './solve-facings.js';
 import { SOLVE_OK } from '../hydraulics/transect-solver.js';
 import { RISK_CLASSES, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 
@@ -196,11 +195,20 @@ export function solveStations(
   cast: Pick<CastOptions, 'halfWindowM' | 'segmentBox'> = {},
   onProgress: ProgressListener = () => {},
 ): SolvedStations {
-  onProgress('transects', 0, stations.count);
-  const facings = castTransects(prepared.lineTable, stations, { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg, ...cast });
-  onProgress('transects', stations.count, stations.count);
-  const results = solveFacings(lines, prepared.lineLengthsM, zones, prepared.zoneIndex, stations, facings, settings, (done) =>
-    onProgress('solve', done, facings.count),
+  // the smoothing window of a partner's direction: half the longest station interval of the whole
+  // table, as castTransects takes it, unless a tile gives its district's
+  let halfWindowM = cast.halfWindowM ?? 0;
+  if (cast.halfWindowM === undefined) for (let i = 0; i < stations.count; i++) halfWindowM = Math.max(halfWindowM, stations.lengthM[i] / 2);
+  const { facings, results } = castAndSolveFacings(
+    lines,
+    prepared.lineLengthsM,
+    zones,
+    prepared.zoneIndex,
+    prepared.lineTable,
+    stations,
+    { maxGapM: settings.maxGapM, maxAngleDeg: settings.maxAngleDeg, ...cast, halfWindowM },
+    settings,
+    (stage, done, total) => onProgress(stage, done, total),
   );
   // ground from a DEM: the depths follow the sampled ground instead of each zone's one level
   const groundPass = ground ? groundFromDem(ground, lines, zones, prepared.zoneIndex, stations, facings, results, settings) : null;

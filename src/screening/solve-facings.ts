@@ -5,7 +5,10 @@
 import {
   FACING_OUTSIDE_AQUIFER,
   FACING_PAIRED,
+  castTransects,
   cutTransect,
+  type CastOptions,
+  type LineTable,
   type FacingTable,
   type StationTable,
   type TransectCut,
@@ -49,7 +52,7 @@ export function solveFacings(
 ): FacingResults {
   const context: SolveContext = { lines, lineLengthsM, zones, zoneIndex, settings };
   const workers = workerCount(settings.workers ?? null, facings.count);
-  if (workers > 1) return solveInWorkers(context, stations, facings, workers, onProgress, solveFacingRange);
+  if (workers > 1) return solveInWorkers(context, stations, facings, workers, onProgress, solveFacingRange).results;
   const results = emptyResults(facings.reason);
   onProgress(0);
   solveFacingRange(context, stations, facings, results, onProgress);
@@ -62,6 +65,37 @@ export function solveFacings(
  * emptyResults). Facing i belongs to station i >> 1 of `stations`, so a chunk that starts at an
  * even facing is solved from its slices exactly as from the whole table.
  */
+/**
+ * Casts and solves the transects of every station. With `settings.workers` above 1 and enough
+ * stations, the worker threads cast their chunks of stations too (against the lines in shared
+ * memory); each transect is cast and solved by the same code either way, with the same smoothing
+ * window, so the columns are the same to the last bit for any number of workers.
+ */
+export function castAndSolveFacings(
+  lines: LineRecord[],
+  lineLengthsM: Float64Array,
+  zones: ZoneRecord[],
+  zoneIndex: ZoneIndex,
+  lineTable: LineTable,
+  stations: StationTable,
+  cast: CastOptions & { halfWindowM: number },
+  settings: ScreenSettings,
+  onProgress: (stage: 'transects' | 'solve', done: number, total: number) => void = () => {},
+): { facings: FacingTable; results: FacingResults } {
+  const n = 2 * stations.count;
+  const workers = workerCount(settings.workers ?? null, n);
+  if (workers > 1) {
+    const context: SolveContext = { lines, lineLengthsM, zones, zoneIndex, settings };
+    const options = { maxGapM: cast.maxGapM, maxAngleDeg: cast.maxAngleDeg, halfWindowM: cast.halfWindowM };
+    return solveInWorkers(context, stations, { lineTable, options }, workers, (done) => onProgress('solve', done, n), solveFacingRange);
+  }
+  onProgress('transects', 0, stations.count);
+  const facings = castTransects(lineTable, stations, cast);
+  onProgress('transects', stations.count, stations.count);
+  const results = solveFacings(lines, lineLengthsM, zones, zoneIndex, stations, facings, settings, (done) => onProgress('solve', done, n));
+  return { facings, results };
+}
+
 export function solveFacingRange(
   context: SolveContext,
   stations: StationInputs,

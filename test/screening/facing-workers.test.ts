@@ -1,4 +1,4 @@
-// The transect solve over worker threads gives the same files, byte for byte, for any number of
+// The transect cast and solve over worker threads give the same files, byte for byte, for any number of
 // workers: on the demo (source modules, workers through tsx) and on a generated network of a few
 // thousand stations (the compiled dist/, as bin/doab.js runs it). The worker threshold is forced
 // to 0 so that these small districts really go through the workers, and a counter proves they did.
@@ -66,7 +66,7 @@ describe('the transect solve over worker threads', () => {
   it('writes the same demo files with 1, 2 and 3 workers (strips only)', async () => {
     const out = join(freshDir('workers-demo'), 'out');
     const args = ['--canals', join(ROOT, 'data-demo/canals.geojson'), '--aquifer', join(ROOT, 'data-demo/aquifer.geojson')];
-    const runsBefore = facingWorkerStats.runs, threadsBefore = facingWorkerStats.threads, threadChunksBefore = facingWorkerStats.threadChunks;
+    const runsBefore = facingWorkerStats.runs, threadsBefore = facingWorkerStats.threads, threadChunksBefore = facingWorkerStats.threadChunks, castBefore = facingWorkerStats.threadCastChunks;
     const one = await screenWithWorkers(mainInProcess, args, out, 1);
     expect(facingWorkerStats.runs).toBe(runsBefore);
     expect(one.get('strips.geojson')?.includes('"q_a_m2_d"'), 'strips with seepage').toBe(true);
@@ -75,6 +75,8 @@ describe('the transect solve over worker threads', () => {
     // N workers are this thread and N - 1 started ones, each handed two chunks at the start
     expect(facingWorkerStats.threads).toBe(threadsBefore + 3);
     expect(facingWorkerStats.threadChunks).toBeGreaterThanOrEqual(threadChunksBefore + 2 * 3);
+    // the started threads cast their chunks' transects as well as solving them
+    expect(facingWorkerStats.threadCastChunks).toBe(facingWorkerStats.threadChunks - threadChunksBefore + castBefore);
   });
 
   it('writes the same files for a generated network with 1, 2 and 3 workers, from the compiled dist/', async () => {
