@@ -154,7 +154,19 @@ export interface DistrictSolution {
   freeCellCount: number;
   /** Bytes the linear solver held in typed arrays. */
   solverBytes: number;
+  /**
+   * u = h^2 per cell (m^2) over the reference base, the unknowns the flows came from, when the
+   * solve ran in u (one base under every cell); null under Picard. What districtFlows needs to
+   * give the same flows again.
+   */
+  squaredThicknessM2: Float64Array | null;
 }
+
+/** The flows of a state of the grid: what balance gives from a solve, or from heads stitched together. */
+export type DistrictFlows = Pick<
+  DistrictSolution,
+  'fixedCells' | 'exchangeM3PerDay' | 'sideFlowM3PerDay' | 'totalRechargeM3PerDay' | 'balanceResidualM3PerDay' | 'balanceRelative' | 'largestCellResidualM3PerDay' | 'dryCellCount'
+>;
 
 // Inexact Picard: while the heads still move, a linear solve far finer than the move is wasted, so
 // the first step's linear tolerance is loose and each step tightens it until the full tolerance
@@ -184,21 +196,16 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
   checkSettings(settings);
   checkGrid(grid);
   checkEveryFreeGroupMeetsAFixedCell(grid);
-  const { columns, rows, cellKind, baseM } = grid;
+  const { columns, rows, cellKind } = grid;
   const cellCount = columns * rows;
   const solver = new MultigridConjugateGradient(columns, rows, options.multigrid);
 
-  let freeCellCount = 0, bedCellCount = 0, activeCellCount = 0, baseSum = 0, firstBase = NaN, equalBases = true;
+  let freeCellCount = 0, bedCellCount = 0;
   for (let g = 0; g < cellCount; g++) {
-    if (cellKind[g] === CELL_OUTSIDE) continue;
     if (cellKind[g] === CELL_FREE) freeCellCount++;
     else if (cellKind[g] === CELL_BED) bedCellCount++;
-    activeCellCount++;
-    baseSum += baseM[g];
-    if (activeCellCount === 1) firstBase = baseM[g];
-    else if (baseM[g] !== firstBase) equalBases = false;
   }
-  const referenceBaseM = equalBases ? firstBase : baseSum / activeCellCount;
+  const { equalBases, referenceBaseM } = solveBase(grid);
   // one linear solve is exact only with equal bases and no bed
   const iterates = !equalBases || bedCellCount > 0;
 
@@ -240,7 +247,13 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
     }
   }
 
-  const result = balance(grid, equalBases ? solver.x : null, referenceBaseM, headM, settings.dryThicknessM);
+  let squaredThicknessM2: Float64Array | null = null;
+  if (equalBases) {
+    squaredThicknessM2 = new Float64Array(cellCount);
+    const w = columns + 2;
+    for (let row = 0; row < rows; row++) squaredThicknessM2.set(solver.x.subarray((row + 1) * w + 1, (row + 1) * w + 1 + columns), row * columns);
+  }
+  const result = districtFlows(grid, squaredThicknessM2, headM, { dryThicknessM: settings.dryThicknessM });
   return {
     status,
     headM,
@@ -253,7 +266,25 @@ export function solveDistrict(grid: DistrictGrid, options: DistrictSolveOptions 
     freeCellCount,
     bedCellCount,
     solverBytes: solver.bytes,
+    squaredThicknessM2,
   };
+}
+
+/**
+ * Whether one base lies under every active cell (the solve is then linear in u = h^2 over it), and
+ * the reference base of u: that base, or the mean base (the first iterate's) when they differ.
+ */
+export function solveBase(grid: DistrictGrid): { equalBases: boolean; referenceBaseM: number } {
+  const { cellKind, baseM } = grid;
+  let activeCellCount = 0, baseSum = 0, firstBase = NaN, equalBases = true;
+  for (let g = 0; g < cellKind.length; g++) {
+    if (cellKind[g] === CELL_OUTSIDE) continue;
+    activeCellCount++;
+    baseSum += baseM[g];
+    if (activeCellCount === 1) firstBase = baseM[g];
+    else if (baseM[g] !== firstBase) equalBases = false;
+  }
+  return { equalBases, referenceBaseM: equalBases ? firstBase : baseSum / activeCellCount };
 }
 
 /**
@@ -406,13 +437,19 @@ function readHeads(grid: DistrictGrid, x: Float64Array, headM: Float64Array): nu
 }
 
 /**
- * Flows from the final state: from u when `u` is given (equal bases: exactly the flows the linear
- * solve balanced), else from the heads with the face thickness of those same heads.
+ * Flows from a state of the grid: from u per cell (m^2) when `u` is given (one base: exactly the
+ * flows the linear solve balanced), else from the heads with the face thickness of those same
+ * heads. The solve's own state balances to its tolerance; heads put together from separate solves
+ * (the district's tiles) need not, and the cell residuals say by how much.
  */
-function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: number, headM: Float64Array, dryThicknessM: number) {
+export function districtFlows(grid: DistrictGrid, u: Float64Array | null, headM: Float64Array, options: { dryThicknessM?: number } = {}): DistrictFlows {
   const { columns, rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale, bed } = grid;
+  const dryThicknessM = options.dryThicknessM ?? DEFAULTS.dryThicknessM;
+  const n = columns * rows;
+  if (headM.length !== n) throw new Error(`Unexpected headM length: ${headM.length} (columns * rows = ${n}).`);
+  if (u !== null && u.length !== n) throw new Error(`Unexpected u length: ${u.length} (columns * rows = ${n}).`);
+  const referenceBaseM = u === null ? NaN : solveBase(grid).referenceBaseM;
   const areaM2 = cellM * cellM;
-  const w = columns + 2;
   let fixedCount = 0;
   for (let g = 0; g < cellKind.length; g++) if (cellKind[g] >= CELL_FIXED) fixedCount++;
   const fixedCells = new Uint32Array(fixedCount);
@@ -426,8 +463,7 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
       const g = row * columns + col;
       const kind = cellKind[g];
       if (kind === CELL_OUTSIDE) continue;
-      const p = (row + 1) * w + col + 1;
-      const valueI = u === null ? headM[g] : kind === CELL_FIXED ? fixedValue(fixedHeadM[g], referenceBaseM) : u[p];
+      const valueI = u === null ? headM[g] : kind === CELL_FIXED ? fixedValue(fixedHeadM[g], referenceBaseM) : u[g];
       const rechargeM3PerDay = rechargeMPerDay[g] * areaM2;
       totalRechargeM3PerDay += rechargeM3PerDay;
       if (rechargeM3PerDay > 0) inflow += rechargeM3PerDay;
@@ -435,19 +471,19 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
       // the four neighbours in a fixed order: west, east, previous row, next row
       let out = 0;
       for (let side = 0; side < 4; side++) {
-        let gj: number, pj: number, face: number;
+        let gj: number, face: number;
         if (side === 0) {
           if (col === 0) continue;
-          gj = g - 1; pj = p - 1; face = gj;
+          gj = g - 1; face = gj;
         } else if (side === 1) {
           if (col + 1 === columns) continue;
-          gj = g + 1; pj = p + 1; face = g;
+          gj = g + 1; face = g;
         } else if (side === 2) {
           if (row === 0) continue;
-          gj = g - columns; pj = p - w; face = gj;
+          gj = g - columns; face = gj;
         } else {
           if (row + 1 === rows) continue;
-          gj = g + columns; pj = p + w; face = g;
+          gj = g + columns; face = g;
         }
         const kindJ = cellKind[gj];
         if (kindJ === CELL_OUTSIDE) continue;
@@ -457,7 +493,7 @@ function balance(grid: DistrictGrid, u: Float64Array | null, referenceBaseM: num
           const t = faceCoefficientH(kMPerDay[g], kMPerDay[gj], headM[g] - baseM[g], headM[gj] - baseM[gj], dryThicknessM);
           flow = scale * t * (valueI - headM[gj]);
         } else {
-          const valueJ = kindJ === CELL_FIXED ? fixedValue(fixedHeadM[gj], referenceBaseM) : u[pj];
+          const valueJ = kindJ === CELL_FIXED ? fixedValue(fixedHeadM[gj], referenceBaseM) : u[gj];
           flow = scale * faceCoefficientU(kMPerDay[g], kMPerDay[gj]) * (valueI - valueJ);
         }
         out += flow;

@@ -9,7 +9,19 @@ import { gridOver, gridSize, zonesExtent, type Grid } from '../geometry/grid.js'
 import type { LineTable } from '../geometry/lines.js';
 import type { ZonePolygons } from '../geometry/zones.js';
 import type { GroundSampler } from '../geometry/dem.js';
-import { CELL_BED, CELL_FIXED, CELL_FREE, CELL_OUTSIDE, cellNeighbour, solveDistrict, type DistrictGrid, type DistrictSolveStatus } from '../hydraulics/district-solver.js';
+import {
+  CELL_BED,
+  CELL_FIXED,
+  CELL_FREE,
+  CELL_OUTSIDE,
+  cellNeighbour,
+  districtFlows,
+  solveBase,
+  solveDistrict,
+  type DistrictFlows,
+  type DistrictGrid,
+  type DistrictSolveStatus,
+} from '../hydraulics/district-solver.js';
 import { UsageError } from '../shared/errors.js';
 import { RISK_CLASSES, riskClass, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 import { bedAt, stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
@@ -132,6 +144,34 @@ function formatCount(n: number): string {
   return Number.isFinite(n) ? String(Math.round(n)) : 'infinitely many';
 }
 
+/**
+ * The district's grid over `grid` (the whole grid, or a tile's window of it) ready to solve, and
+ * what the figures need of it besides the heads.
+ */
+export interface DistrictSetup {
+  grid: Grid;
+  districtGrid: DistrictGrid;
+  groundM: Float64Array;
+  burned: BurnedLines;
+  /** Aquifer cells that no line reaches (no steady state): left out, area in m^2. */
+  cutOffAreaM2: number;
+  /** Line cells whose stage is at or below the base under them. */
+  dryLineCells: number;
+  /** Cells holding an edge head, per zone (index as in the zone list). */
+  edgeCellsByZone: Uint32Array;
+}
+
+/**
+ * Heads held on a window's cut edges: for each cell in `cells` (ascending indices of the window's
+ * grid), the head in `headM` (NaN: none known, the cell is left as it is). A held cell joins the
+ * lines in reaching the free cells, so a window cut from the aquifer leaves none out that the whole
+ * grid reaches from beyond the cut. A line's own cell keeps its stage.
+ */
+export interface HeldEdge {
+  cells: Uint32Array;
+  headM: Float64Array;
+}
+
 interface GridSolve {
   grid: Grid;
   cellKind: Uint8Array;
@@ -149,17 +189,18 @@ interface GridSolve {
   totalRechargeM3PerDay: number;
   largestCellResidualM3PerDay: number;
   dryCells: number;
-  /** Aquifer cells that no line reaches (no steady state): left out, area in m^2. */
   cutOffAreaM2: number;
-  /** Line cells whose stage is at or below the base under them. */
   dryLineCells: number;
-  /** Cells holding an edge head, per zone (index as in the zone list). */
   edgeCellsByZone: Uint32Array;
 }
 
-function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
+/**
+ * Zones and lines onto the cells of `grid`, with a line's stage, bed and face scales in its cells
+ * and a zone's edge head on the aquifer's outer edge; `held` fixes the cut edges of a window.
+ */
+export function districtSetup(inputs: DistrictInputs, grid: Grid, held: HeldEdge | null = null): DistrictSetup {
   const { lines, zones, lineTable, lineLengthsM, zonePolygons } = inputs;
-  const grid = gridOver(zonesExtent(zonePolygons), cellM);
+  const { cellM } = grid;
   const zoneOf = fillZones(grid, zonePolygons).zone;
   const burned = burnLines(grid, lineTable);
   const n = grid.cells;
@@ -208,33 +249,55 @@ function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
       edgeCellsByZone[z]++;
     } else cellKind[g] = CELL_FREE;
   }
-  const cutOff = leaveOutUnreached(grid, cellKind);
-  // each line where it runs in its cells, not at their centres (the subgrid correction)
+  // a held cell is held unless a line holds its stage there; a cut edge is no outer edge of the aquifer
+  const holds = (k: number) => held !== null && !Number.isNaN(held.headM[k]) && cellKind[held.cells[k]] !== CELL_OUTSIDE && !(cellKind[held.cells[k]] === CELL_FIXED && lineOf[held.cells[k]] >= 0);
+  const cutOff = leaveOutUnreached(grid, cellKind, held === null ? null : held.cells.filter((_, k) => holds(k)));
+  // each line where it runs in its cells, not at their centres (the subgrid correction), before the held cells turn fixed
   const fixedFaceScale = lineFaceScales(grid, cellKind, burned, lineTable);
+  for (let k = 0; held !== null && k < held.cells.length; k++) {
+    if (!holds(k)) continue;
+    cellKind[held.cells[k]] = CELL_FIXED;
+    fixedHeadM[held.cells[k]] = held.headM[k];
+  }
   const districtGrid: DistrictGrid = { columns: grid.columns, rows: grid.rows, cellM, cellKind, kMPerDay, rechargeMPerDay, baseM, fixedHeadM, fixedFaceScale };
   if (bedCells > 0) districtGrid.bed = { conductanceM2PerDay: bedConductance, floorM: bedFloorM };
-  const solution = solveDistrict(districtGrid);
+  return { grid, districtGrid, groundM, burned, cutOffAreaM2: cutOff * cellM * cellM, dryLineCells, edgeCellsByZone };
+}
+
+/** A set-up grid and the state of its heads: the flows and what the figures read. */
+function gridSolve(
+  setup: DistrictSetup,
+  waterTableM: Float64Array,
+  flows: DistrictFlows,
+  run: { status: DistrictSolveStatus; linearIterations: number; picardIterations: number; bedIterations: number },
+): GridSolve {
   return {
-    grid,
-    cellKind,
-    groundM,
-    burned,
-    waterTableM: solution.headM,
-    fixedCells: solution.fixedCells,
-    exchangeM3PerDay: solution.exchangeM3PerDay,
-    sideFlowM3PerDay: solution.sideFlowM3PerDay,
-    rechargeMPerDay,
-    status: solution.status,
-    linearIterations: solution.linearIterations,
-    picardIterations: solution.picardIterations,
-    bedIterations: solution.bedIterations,
-    totalRechargeM3PerDay: solution.totalRechargeM3PerDay,
-    largestCellResidualM3PerDay: solution.largestCellResidualM3PerDay,
-    dryCells: solution.dryCellCount,
-    cutOffAreaM2: cutOff * cellM * cellM,
-    dryLineCells,
-    edgeCellsByZone,
+    grid: setup.grid,
+    cellKind: setup.districtGrid.cellKind,
+    groundM: setup.groundM,
+    burned: setup.burned,
+    waterTableM,
+    fixedCells: flows.fixedCells,
+    exchangeM3PerDay: flows.exchangeM3PerDay,
+    sideFlowM3PerDay: flows.sideFlowM3PerDay,
+    rechargeMPerDay: setup.districtGrid.rechargeMPerDay,
+    status: run.status,
+    linearIterations: run.linearIterations,
+    picardIterations: run.picardIterations,
+    bedIterations: run.bedIterations,
+    totalRechargeM3PerDay: flows.totalRechargeM3PerDay,
+    largestCellResidualM3PerDay: flows.largestCellResidualM3PerDay,
+    dryCells: flows.dryCellCount,
+    cutOffAreaM2: setup.cutOffAreaM2,
+    dryLineCells: setup.dryLineCells,
+    edgeCellsByZone: setup.edgeCellsByZone,
   };
+}
+
+function solveAt(inputs: DistrictInputs, cellM: number): GridSolve {
+  const setup = districtSetup(inputs, gridOver(zonesExtent(inputs.zonePolygons), cellM));
+  const solution = solveDistrict(setup.districtGrid);
+  return gridSolve(setup, solution.headM, solution, solution);
 }
 
 /** Whether an aquifer cell touches the aquifer's outer edge: a side on no zone, or on the grid's own edge. */
@@ -246,13 +309,14 @@ function onOuterEdge(grid: Grid, zoneOf: Int32Array, g: number): boolean {
   return false;
 }
 
-/** Free cells joined to no line cell have no steady water table: marks them outside; returns how many. */
-function leaveOutUnreached(grid: Grid, cellKind: Uint8Array): number {
+/** Free cells joined to no line cell (nor to a held cell) have no steady water table: marks them outside; returns how many. */
+function leaveOutUnreached(grid: Grid, cellKind: Uint8Array, heldCells: Uint32Array | null): number {
   const { columns, cells } = grid;
   const reached = new Uint8Array(cells);
   const stack = new Int32Array(cells);
   let top = 0;
   for (let g = 0; g < cells; g++) if (cellKind[g] === CELL_FIXED || cellKind[g] === CELL_BED) { reached[g] = 1; stack[top++] = g; }
+  if (heldCells !== null) for (const g of heldCells) if (!reached[g]) { reached[g] = 1; stack[top++] = g; }
   while (top > 0) {
     const g = stack[--top];
     for (let side = 0; side < 4; side++) {
@@ -372,10 +436,128 @@ function bankMask(grid: Grid, cellKind: Uint8Array, bankWidthM: number): Uint8Ar
 }
 
 /**
- * Solves the district at the cell the settings and memory budget allow, and at twice that cell;
- * throws a UsageError naming districtMemoryMB before allocating a grid that would not fit.
+ * One tile's share of the district solve (made by districtTilePiece in district-tiles.ts): plain
+ * figures and typed arrays, so that a tile file holds it bit for bit.
  */
-export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings, options: { coarseCheck?: boolean } = {}): DistrictResult {
+export interface DistrictTilePiece {
+  header: Record<string, number | string | boolean | null>;
+  arrays: Record<string, Float64Array | Float32Array | Int32Array | Uint32Array | Uint8Array>;
+}
+
+/** What a district tile piece says it is, in its header's `kind`. */
+export const DISTRICT_TILE_KIND = 'doab district tile 1';
+
+/** A band of whole columns (or rows) of a grid: [start, end). */
+export interface TileBand {
+  axis: 'columns' | 'rows';
+  start: number;
+  end: number;
+}
+
+/**
+ * Tile `index` (1-based) of `count`: a band of whole columns of the grid, or of rows when it has
+ * more rows than columns, the bands as near equal in width as whole cells allow.
+ * Example: tileBand({ columns: 10, rows: 4 }, 2, 3) -> { axis: 'columns', start: 3, end: 6 }
+ */
+export function tileBand(grid: { columns: number; rows: number }, index: number, count: number): TileBand {
+  const axis = grid.columns >= grid.rows ? 'columns' : 'rows';
+  const length = axis === 'columns' ? grid.columns : grid.rows;
+  if (!(Number.isInteger(count) && count >= 1 && count <= length)) throw new Error(`Unexpected tile count: ${count} (the district grid is ${length} ${axis} wide: 1 to ${length} tiles).`);
+  if (!(Number.isInteger(index) && index >= 1 && index <= count)) throw new Error(`Unexpected tile index: ${index} of ${count}.`);
+  return { axis, start: Math.floor(((index - 1) * length) / count), end: Math.floor((index * length) / count) };
+}
+
+/** Cells of a band, and the grid cell of its k-th cell (bands list their cells row by row). */
+export function bandCells(grid: { columns: number; rows: number }, band: TileBand): { count: number; cell: (k: number) => number } {
+  const width = band.end - band.start;
+  if (band.axis === 'rows') return { count: width * grid.columns, cell: (k) => band.start * grid.columns + k };
+  return { count: width * grid.rows, cell: (k) => Math.floor(k / width) * grid.columns + band.start + (k % width) };
+}
+
+/** The header keys of a piece's grid at the cell (`fine`) or at twice it (`coarse`). */
+const pieceKey = (which: 'fine' | 'coarse', name: string) => (which === 'fine' ? name : `coarse${name[0].toUpperCase()}${name.slice(1)}`);
+
+/**
+ * The heads of the whole grid put together from the pieces' bands, and their flows, as a solve
+ * would give them. Throws, naming the tile, on pieces that do not make up this grid.
+ */
+function stitchAt(inputs: DistrictInputs, cellM: number, pieces: readonly DistrictTilePiece[], which: 'fine' | 'coarse'): GridSolve {
+  const grid = gridOver(zonesExtent(inputs.zonePolygons), cellM);
+  const setup = districtSetup(inputs, grid);
+  const { cellKind, fixedHeadM } = setup.districtGrid;
+  const { equalBases } = solveBase(setup.districtGrid);
+  const headM = new Float64Array(grid.cells).fill(NaN);
+  const u = equalBases ? new Float64Array(grid.cells) : null;
+  const key = (name: string) => pieceKey(which, name);
+  const run = { status: 'converged' as DistrictSolveStatus, linearIterations: 0, picardIterations: 0, bedIterations: 0 };
+  for (const piece of pieces) {
+    const { header, arrays } = piece;
+    const name = `district tile ${header.tileIndex} of ${header.tileCount}`;
+    const band = tileBand(grid, Number(header.tileIndex), pieces.length);
+    const expected: Record<string, number | string> = {
+      [key('cellM')]: cellM,
+      [key('originXM')]: grid.originX,
+      [key('originYM')]: grid.originY,
+      [key('columns')]: grid.columns,
+      [key('rows')]: grid.rows,
+      [key('bandAxis')]: band.axis,
+      [key('bandStart')]: band.start,
+      [key('bandEnd')]: band.end,
+    };
+    for (const [field, value] of Object.entries(expected)) {
+      if (header[field] !== value) throw new Error(`${name} does not fit this district: its ${field} is ${header[field]}, the district's ${value} (a tile of another district, or of other settings).`);
+    }
+    const cells = bandCells(grid, band);
+    const bandHeadM = arrays[key('headM')], bandU = arrays[key('squaredThicknessM2')];
+    if (!(bandHeadM instanceof Float64Array) || bandHeadM.length !== cells.count) throw new Error(`${name} holds no ${key('headM')} of ${cells.count} values for its band.`);
+    if (u !== null && (!(bandU instanceof Float64Array) || bandU.length !== cells.count)) throw new Error(`${name} holds no ${key('squaredThicknessM2')} of ${cells.count} values for its band.`);
+    for (let k = 0; k < cells.count; k++) {
+      const g = cells.cell(k);
+      const kind = cellKind[g];
+      if (kind === CELL_OUTSIDE) continue;
+      if (kind === CELL_FIXED) { headM[g] = fixedHeadM[g]; continue; }
+      if (Number.isNaN(bandHeadM[k])) throw new Error(`${name} has no head at cell ${g} (row ${Math.floor(g / grid.columns)}, column ${g % grid.columns}), where the district's grid is in the aquifer.`);
+      headM[g] = bandHeadM[k];
+      if (u !== null) u[g] = (bandU as Float64Array)[k];
+    }
+    const status = header[key('status')] as DistrictSolveStatus;
+    if (run.status === 'converged' && status !== 'converged') run.status = status;
+    run.linearIterations += Number(header[key('linearIterations')]);
+    run.picardIterations = Math.max(run.picardIterations, Number(header[key('picardIterations')]));
+    run.bedIterations = Math.max(run.bedIterations, Number(header[key('bedIterations')]));
+  }
+  return gridSolve(setup, headM, districtFlows(setup.districtGrid, u, headM), run);
+}
+
+/** Refuses pieces that are not the N tiles of one split, each once; returns N. */
+function checkPieces(pieces: readonly DistrictTilePiece[], coarseCheck: boolean): number {
+  const count = pieces.length;
+  if (count === 0) throw new Error('No district tile pieces to stitch.');
+  const seen = new Set<number>();
+  for (const { header } of pieces) {
+    const name = `district tile ${header.tileIndex} of ${header.tileCount}`;
+    if (header.kind !== DISTRICT_TILE_KIND) throw new Error(`${name} is not a district tile piece (kind ${header.kind}, want ${DISTRICT_TILE_KIND}).`);
+    if (header.tileCount !== count) throw new Error(`${name} is one of ${header.tileCount} tiles, but ${count} pieces were given.`);
+    const index = header.tileIndex;
+    if (!(typeof index === 'number' && Number.isInteger(index) && index >= 1 && index <= count)) throw new Error(`${name} has an index outside 1 to ${count}.`);
+    if (seen.has(index)) throw new Error(`${name} is given twice.`);
+    seen.add(index);
+    if (coarseCheck && header.coarseCheck !== true) throw new Error(`${name} was solved without the coarse check (the solve at twice the cell), which this run asks for.`);
+  }
+  return count;
+}
+
+/**
+ * Solves the district at the cell the settings and memory budget allow, and at twice that cell;
+ * throws a UsageError naming districtMemoryMB before allocating a grid that would not fit. Given
+ * `pieces` (every tile of one split, made by districtTilePiece, in any order), stitches their heads
+ * instead of solving, and derives every figure from them as from a solve.
+ */
+export function districtSolve(
+  inputs: DistrictInputs,
+  settings: ScreenSettings,
+  options: { coarseCheck?: boolean; pieces?: readonly DistrictTilePiece[] } = {},
+): DistrictResult {
   const extent = zonesExtent(inputs.zonePolygons);
   const { cellM } = chooseCell(extent, settings);
   const warnings: string[] = [];
@@ -385,10 +567,50 @@ export function districtSolve(inputs: DistrictInputs, settings: ScreenSettings, 
         `the grid at ${settings.districtCellM} m would need more than the ${settings.districtMemoryMB} MB of districtMemoryMB`,
     );
   }
-  const fine = solveAt(inputs, cellM);
   // the same solve at twice the cell, for each line's numerical uncertainty (left out by scenario
   // runs that compare solves at one cell, such as a lining plan's)
-  const coarse = options.coarseCheck === false ? null : solveAt(inputs, 2 * cellM);
+  const coarseCheck = options.coarseCheck !== false;
+  if (options.pieces === undefined) {
+    const fine = solveAt(inputs, cellM);
+    const coarse = coarseCheck ? solveAt(inputs, 2 * cellM) : null;
+    return districtFigures(inputs, settings, cellM, fine, coarse, warnings);
+  }
+  const count = checkPieces(options.pieces, coarseCheck);
+  const fine = stitchAt(inputs, cellM, options.pieces, 'fine');
+  const coarse = coarseCheck ? stitchAt(inputs, 2 * cellM, options.pieces, 'coarse') : null;
+  const result = districtFigures(inputs, settings, cellM, fine, coarse, warnings);
+  if (count > 1) {
+    result.warnings.push(tilesWarning(options.pieces, result));
+    const unsettled = options.pieces.filter((piece) => piece.header.heldStatus !== 'converged').map((piece) => piece.header.tileIndex);
+    if (unsettled.length > 0) result.warnings.push(`the heads held on the cut edges of district tile${unsettled.length === 1 ? '' : 's'} ${unsettled.join(', ')} did not converge: the stitched figures are not reliable`);
+  }
+  return result;
+}
+
+/** What the stitch of N tiles did, and how far its figures may be from one whole solve. */
+function tilesWarning(pieces: readonly DistrictTilePiece[], result: DistrictResult): string {
+  const { header } = pieces[0];
+  return (
+    `district solve in ${pieces.length} tiles (bands of ${header.bandAxis}), each solved over its band and a margin of ${header.marginM} m ` +
+    `(${header.marginCells} cells) with its cut edges held at the heads of the whole district solved at a ${header.heldCellM} m cell, then stitched: ` +
+    `each line's loss within ${(100 * DISTRICT_TILE_LOSS_TOLERANCE).toFixed(0)}% or ${DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY} m3/d and the water table within ` +
+    `${DISTRICT_TILE_HEAD_TOLERANCE_M} m of one whole solve (as tested); the stitched heads balance to ${result.balance.residualM3PerDay.toPrecision(3)} m3/d ` +
+    `(${(100 * result.balance.residualRelative).toPrecision(2)}% of the largest term), largest cell imbalance ${result.balance.largestCellResidualM3PerDay.toPrecision(3)} m3/d`
+  );
+}
+
+/**
+ * How near the stitched figures of a district solved in tiles come to one whole solve, as
+ * test/screening/district-tiles.test.ts holds them to: a line's loss within this fraction of it,
+ * or within the floor (m^3/d) for a line that loses little; every water table within the head
+ * tolerance (m).
+ */
+export const DISTRICT_TILE_LOSS_TOLERANCE = 0.02;
+export const DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY = 5;
+export const DISTRICT_TILE_HEAD_TOLERANCE_M = 0.02;
+
+/** Every figure of a district result from the heads at the cell (`fine`) and at twice it (`coarse`). */
+function districtFigures(inputs: DistrictInputs, settings: ScreenSettings, cellM: number, fine: GridSolve, coarse: GridSolve | null, warnings: string[]): DistrictResult {
   const lineCount = inputs.lines.length;
   const { loss, cells: lineCells } = lineLosses(fine, lineCount);
   const lineLossCoarseM3PerDay = coarse ? lineLosses(coarse, lineCount).loss : new Float64Array(lineCount).fill(NaN);
