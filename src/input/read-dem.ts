@@ -2,7 +2,6 @@
 // its grid, its nodata value, and its CRS from the GeoKeys (an EPSG code) or as the user names it.
 import { statSync, readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
-import { fromArrayBuffer } from 'geotiff';
 import { DataError, UsageError } from '../shared/errors.js';
 import type { DemGrid } from '../geometry/dem.js';
 import { lonLatToCrs, resolveSourceCrs } from './source-crs.js';
@@ -40,6 +39,8 @@ export async function readDem(path: string, options: { demCrs?: string | null; m
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   let image;
   try {
+    // loaded when a DEM is read, not at every start of the command
+    const { fromArrayBuffer } = await import('geotiff');
     const tiff = await fromArrayBuffer(Uint8Array.from(bytes).buffer);
     image = await tiff.getImage();
   } catch (error) {
