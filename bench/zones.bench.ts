@@ -1,15 +1,19 @@
 // Detailed zone outlines: npx tsx bench/zones.bench.ts [lines]
 // The same district solved with its zones as 4-vertex rectangles and as the same rectangles
 // densified to 10,000 vertices per ring (geometry unchanged), and the ring check of one
-// 8,000-vertex zone. Prints both times and their ratio; the target is a ratio of at most 1.2.
+// 8,000-vertex zone; then the cross-checks of lines against zones and of zones against each other
+// (overlaps, holes) on the same zones in lon/lat, once sharing their edges and once overlapping
+// their neighbours by 100 m. Prints both times and their ratio; the target is a ratio of at most 1.2.
 import { performance } from 'node:perf_hooks';
 import { buildLineTable, buildZoneIndex, castTransects, lineLengthM, placeStations, zonePolygons } from '../src/geometry/index.js';
-import { checkZones, type LineRecord, type ZoneRecord } from '../src/screening/district-inputs.js';
+import { chooseWorkCrs } from '../src/geometry/work-crs.js';
+import { crossCheck } from '../src/screening/cross-checks.js';
+import { checkLines, checkZones, type LineRecord, type ZoneRecord } from '../src/screening/district-inputs.js';
 import { solveFacings } from '../src/screening/solve-facings.js';
 import { DEFAULT_RULES } from '../src/shared/input-rules.js';
 import { defaultSettings } from '../src/shared/settings.js';
-import { syntheticNetwork } from './network.js';
-import { densifiedRect, zoneGridOver } from './zone-grid.js';
+import { syntheticDistrict, syntheticNetwork } from './network.js';
+import { densifiedRect, zoneGridOver, type Box } from './zone-grid.js';
 
 const count = Number(process.argv[2] ?? 3000);
 if (!Number.isInteger(count) || count < 2) throw new Error(`Unexpected lines value: ${process.argv[2]}.`);
@@ -63,3 +67,54 @@ const checked = checkZones('aquifer.geojson', [feature], DEFAULT_RULES);
 const checkS = (performance.now() - t0) / 1000;
 if (checked.problems.some((p) => p.severity === 'error')) throw new Error(`The bench ring was refused: ${checked.problems[0].message}`);
 console.log(`ring check, ${RING_VERTICES} vertices     ${checkS.toFixed(3).padStart(7)} s`);
+
+// the same district in lon/lat (syntheticDistrict's plain in UTM 43N), through the validation stage
+const district = syntheticDistrict(count);
+const lineRecords = checkLines('canals.geojson', district.lineFeatures, DEFAULT_RULES).records;
+const { crs } = chooseWorkCrs([74, 29, 76, 30], district.crs);
+const toLonLat = (x: number, y: number): number[] => crs.inverse([300_000 + x, 3_300_000 + y]);
+
+/**
+ * The cell as a lon/lat ring of `vertices` vertices: its corners projected, each side split evenly
+ * in lon/lat (the same shape). A side is split from its lower-left end whichever way the ring runs,
+ * so neighbours that share a side share its vertices to the last bit, as zones digitised from one map do.
+ */
+function lonLatRing([x0, y0, x1, y1]: Box, vertices: number): number[][] {
+  const corners = [toLonLat(x0, y0), toLonLat(x1, y0), toLonLat(x1, y1), toLonLat(x0, y1)];
+  const perSide = vertices / 4, ring: number[][] = [];
+  for (let s = 0; s < 4; s++) {
+    const a = corners[s], b = corners[(s + 1) % 4];
+    const forward = a[0] < b[0] || (a[0] === b[0] && a[1] < b[1]);
+    const [lo, hi] = forward ? [a, b] : [b, a];
+    for (let i = 0; i < perSide; i++) {
+      const t = (forward ? i : perSide - i) / perSide;
+      ring.push([lo[0] + (hi[0] - lo[0]) * t, lo[1] + (hi[1] - lo[1]) * t]);
+    }
+  }
+  ring.push(ring[0]);
+  return ring;
+}
+const zoneRecords = (grow: number, vertices: number): ZoneRecord[] =>
+  checkZones('aquifer.geojson', cells.map(([x0, y0, x1, y1], i) => ({
+    type: 'Feature',
+    properties: { id: `Z-${i}`, k_m_d: 8, base_m: 150, ground_m: 180 },
+    geometry: { type: 'Polygon', coordinates: [lonLatRing([x0 - grow, y0 - grow, x1 + grow, y1 + grow], vertices)] },
+  })), DEFAULT_RULES).records;
+const crossCheckS = (zoneList: ZoneRecord[]): { s: number; problems: number } => {
+  const t0 = performance.now();
+  const { problems } = crossCheck(lineRecords, zoneList, { lines: 'canals.geojson', zones: 'aquifer.geojson' }, district.crs);
+  return { s: (performance.now() - t0) / 1000, problems: problems.length };
+};
+for (const [name, grow] of [['sharing edges', 0], ['overlapping 100 m', 50]] as const) {
+  const plain = zoneRecords(grow, 4), detailed = zoneRecords(grow, VERTICES);
+  let plainS = Infinity, detailedS = Infinity, found = '';
+  for (let run = 0; run < 4; run++) {
+    const p = crossCheckS(plain), d = crossCheckS(detailed);
+    plainS = Math.min(plainS, p.s);
+    detailedS = Math.min(detailedS, d.s);
+    found = `${p.problems} and ${d.problems} problems`;
+  }
+  console.log(`checks, ${name}, 4-vertex zones        ${plainS.toFixed(3).padStart(7)} s`);
+  console.log(`checks, ${name}, ${VERTICES}-vertex zones   ${detailedS.toFixed(3).padStart(7)} s   (${found})`);
+  console.log(`ratio                        ${(detailedS / plainS).toFixed(2).padStart(7)}   (target <= 1.2)`);
+}

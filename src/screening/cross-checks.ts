@@ -1,17 +1,16 @@
 // Checks that need lines and zones together, or zones against each other: a line's stage at or
 // below the aquifer base under it (an error: the strip solution cannot hold), a stage far above
 // ground, and zones that overlap. Runs on valid records, in lon/lat, before projection.
-import Flatbush from 'flatbush';
+import type Flatbush from 'flatbush';
 import { area } from '@turf/area';
-import { bbox } from '@turf/bbox';
-import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
 import { centroid } from '@turf/centroid';
 import { featureCollection, multiPolygon, polygon } from '@turf/helpers';
-import { intersect } from '@turf/intersect';
 import { union } from '@turf/union';
-import type { Feature, MultiPolygon } from 'geojson';
+import { boxIndex } from '../geometry/box-index.js';
 import { buildLineTable } from '../geometry/lines.js';
 import { boundsOfParts, chooseWorkCrs, projectPositions } from '../geometry/work-crs.js';
+import { pointInOutline, zoneOutline, type ZoneOutline } from '../geometry/zone-outlines.js';
+import { overlapKey, zoneOverlay, type ZoneHole } from '../geometry/zone-overlay.js';
 import type { Problem } from '../shared/errors.js';
 import { stageAtChainage, type LineRecord, type ZoneRecord } from './district-inputs.js';
 
@@ -26,16 +25,12 @@ export interface CrossCheckFiles {
   zones: string;
 }
 
-function zoneShapes(zones: ZoneRecord[]): { shapes: Feature<MultiPolygon>[]; index: Flatbush | null } {
-  const shapes = zones.map((zone) => multiPolygon(zone.polygonsLonLat));
-  if (zones.length === 0) return { shapes, index: null };
-  const index = new Flatbush(zones.length);
-  for (const shape of shapes) {
-    const [w, s, e, n] = bbox(shape);
-    index.add(w, s, e, n);
-  }
-  index.finish();
-  return { shapes, index };
+/** Each zone's outline with its edge index, and an index of the zones' boxes. */
+function zoneOutlines(zones: ZoneRecord[]): { outlines: ZoneOutline[]; index: Flatbush | null } {
+  const outlines = zones.map((zone) => zoneOutline(zone.polygonsLonLat));
+  if (zones.length === 0) return { outlines, index: null };
+  const index = boxIndex(outlines.length, (i, add) => add(outlines[i].minX, outlines[i].minY, outlines[i].maxX, outlines[i].maxY));
+  return { outlines, index };
 }
 
 /**
@@ -51,15 +46,15 @@ export function crossCheck(
 ): { problems: Problem[]; badLines: Set<number> } {
   const problems: Problem[] = [];
   const badLines = new Set<number>();
-  const { shapes, index } = zoneShapes(zones);
+  const { outlines, index } = zoneOutlines(zones);
   if (!index) return { problems, badLines };
 
-  shapes.forEach((shape, i) => {
-    const [w, s, e, n] = bbox(shape);
-    for (const j of index.search(w, s, e, n)) {
+  // overlaps and holes from the zones' edges: the cost follows the edges near other zones, not every vertex
+  const overlay = zoneOverlay(outlines);
+  outlines.forEach((outline, i) => {
+    for (const j of index.search(outline.minX, outline.minY, outline.maxX, outline.maxY)) {
       if (j <= i) continue;
-      const overlap = intersect(featureCollection([shape, shapes[j]]));
-      const overlapM2 = overlap ? area(overlap) : 0;
+      const overlapM2 = overlay.overlapM2.get(overlapKey(i, j, zones.length)) ?? 0;
       if (overlapM2 > OVERLAP_TOLERANCE_M2) {
         problems.push({
           severity: 'warning',
@@ -70,7 +65,7 @@ export function crossCheck(
     }
   });
 
-  for (const item of holesBetweenZones(shapes, files.zones)) problems.push(item);
+  if (zones.length >= 2) for (const item of holeProblems(overlay.holes ?? holesByUnion(zones), files.zones)) problems.push(item);
 
   const crs = lines.length > 0 ? chooseWorkCrs(boundsOfParts(lines.map((line) => line.partsLonLat)), workCrs ?? undefined).crs : null;
   const outside: string[] = [];
@@ -84,7 +79,7 @@ export function crossCheck(
         if (reported) return;
         const stageM = stageAtChainage(line, chainageM, lengthM);
         for (const z of index.search(position[0], position[1], position[0], position[1])) {
-          if (!booleanPointInPolygon(position, shapes[z])) continue;
+          if (!pointInOutline(outlines[z], position[0], position[1])) continue;
           inside = true;
           const zone = zones[z];
           const place = { file: files.lines, featureIndex: line.index, featureId: line.id, field: line.stageField };
@@ -124,30 +119,37 @@ function round(value: number): number {
 // crossing a sliver 2 m wide covers 200 m^2.
 const HOLE_WARN_M2 = 100;
 
-/** Holes that the zones together leave inside the aquifer: gaps between zones that should share an edge. */
-function holesBetweenZones(shapes: Feature<MultiPolygon>[], file: string): Problem[] {
-  if (shapes.length < 2) return [];
+/** A warning for each hole larger than HOLE_WARN_M2 that the zones together leave inside the aquifer. */
+function holeProblems(holes: ZoneHole[], file: string): Problem[] {
+  return holes
+    .filter((hole) => hole.areaM2 > HOLE_WARN_M2)
+    .map(({ areaM2, lon, lat }) => ({
+      severity: 'warning',
+      place: { file, field: 'geometry' },
+      message: `the zones leave a gap of ${areaM2 < 10_000 ? `${Math.round(areaM2)} m2` : `${(areaM2 / 10_000).toFixed(2)} ha`} between them near lon ${lon.toFixed(5)}, lat ${lat.toFixed(5)}; ` +
+        'transects that cross it are joined to a neighbour zone when the gap is small (up to 2 m or 1% of the transect), else left unsolved',
+    }));
+}
+
+/**
+ * The holes of the zones' union by turf's union, for the rare layout whose union rings the edge
+ * overlay could not close (edges that meet within rounding in more ways than it resolves).
+ */
+function holesByUnion(zones: ZoneRecord[]): ZoneHole[] {
   let merged;
   try {
-    merged = union(featureCollection(shapes));
+    merged = union(featureCollection(zones.map((zone) => multiPolygon(zone.polygonsLonLat))));
   } catch {
     return [];
   }
   if (!merged) return [];
   const polygons = merged.geometry.type === 'Polygon' ? [merged.geometry.coordinates] : merged.geometry.coordinates;
-  const problems: Problem[] = [];
+  const holes: ZoneHole[] = [];
   for (const rings of polygons as number[][][][]) {
     for (const hole of rings.slice(1)) {
-      const holeArea = area(polygon([hole]));
-      if (holeArea <= HOLE_WARN_M2) continue;
       const [lon, lat] = centroid(polygon([hole])).geometry.coordinates;
-      problems.push({
-        severity: 'warning',
-        place: { file, field: 'geometry' },
-        message: `the zones leave a gap of ${holeArea < 10_000 ? `${Math.round(holeArea)} m2` : `${(holeArea / 10_000).toFixed(2)} ha`} between them near lon ${lon.toFixed(5)}, lat ${lat.toFixed(5)}; ` +
-          'transects that cross it are joined to a neighbour zone when the gap is small (up to 2 m or 1% of the transect), else left unsolved',
-      });
+      holes.push({ areaM2: area(polygon([hole])), lon, lat });
     }
   }
-  return problems;
+  return holes;
 }
