@@ -4,9 +4,12 @@
 // the layers again). Prints wall time, stations per second, peak RSS, the ratio to the floor and
 // the scaling exponent between sizes. The district solve is left out: at this scale it is a
 // separate matter (its own bench: bench/district-solver.bench.ts).
-// Run: npm run bench [-- stations...] (builds dist first); DOAB_BENCH_ARGS adds flags to doab screen.
+// With --big it reads a 2 GB GeoJSON of lines instead (written into a temporary folder, then
+// removed): doab's reader in its own process, every feature handed out and dropped, to show that
+// reading holds no more for a larger file.
+// Run: npm run bench [-- stations...] [-- --big] (builds dist first); DOAB_BENCH_ARGS adds flags to doab screen.
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, mkdtempSync, openSync, readFileSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -14,7 +17,9 @@ import { performance } from 'node:perf_hooks';
 import { syntheticDistrict, syntheticNetwork } from './network.js';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
-const sizes = process.argv.length > 2 ? process.argv.slice(2).map(Number) : [10_000, 100_000, 1_000_000];
+const big = process.argv.includes('--big');
+const sizeArgs = process.argv.slice(2).filter((arg) => arg !== '--big');
+const sizes = sizeArgs.length > 0 ? sizeArgs.map(Number) : big ? [] : [10_000, 100_000, 1_000_000];
 for (const n of sizes) if (!Number.isInteger(n) || n < 100) throw new Error(`Unexpected stations value: ${n}.`);
 const extraArgs = (process.env.DOAB_BENCH_ARGS ?? '').split(' ').filter(Boolean);
 const STEP_M = 100;
@@ -43,7 +48,7 @@ console.log('(the district solve is left out: at these sizes it is a separate ma
 interface Row { stations: number; wallS: number; rssMB: number; floorS: number; floorRssMB: number }
 const rows: Row[] = [];
 const header = `${'stations'.padStart(10)} ${'input MiB'.padStart(9)} ${'wall s'.padStart(8)} ${'stations/s'.padStart(11)} ${'peak RSS MB'.padStart(11)} ${'floor s'.padStart(8)} ${'floor RSS'.padStart(9)} ${'x floor'.padStart(7)}`;
-console.log(header);
+if (sizes.length > 0) console.log(header);
 for (const target of sizes) {
   const dir = mkdtempSync(join(tmpdir(), 'doab-bench-'));
   try {
@@ -77,4 +82,47 @@ for (let i = 1; i < rows.length; i++) {
   const exponent = (t1: number, t2: number) => (Math.log(t2 / t1) / Math.log(b.stations / a.stations)).toFixed(2);
   console.log(`scaling ${a.stations.toLocaleString('en-US')} -> ${b.stations.toLocaleString('en-US')} stations: exponent ${exponent(a.wallS, b.wallS)} (floor ${exponent(a.floorS, b.floorS)})`);
 }
-console.log(`peak RSS from ${timeV ? '/usr/bin/time -v' : '(unavailable: no /usr/bin/time)'}; floor seconds exclude its own start-up, doab's wall time includes node's`);
+if (sizes.length > 0) console.log(`peak RSS from ${timeV ? '/usr/bin/time -v' : '(unavailable: no /usr/bin/time)'}; floor seconds exclude its own start-up, doab's wall time includes node's`);
+
+// 2 GB of lines read as doab reads them: the 1 M-station district written again and again, with
+// new ids, until the file passes the size
+const BIG_BYTES = 2 * 1024 ** 3;
+if (big) {
+  const dir = mkdtempSync(join(tmpdir(), 'doab-bench-big-'));
+  try {
+    const path = join(dir, 'canals.geojson');
+    const { lineFeatures } = syntheticDistrict(Math.round(1_000_000 / stationsPerLine));
+    const fd = openSync(path, 'w');
+    let bytes = 0, copies = 0, features = 0;
+    try {
+      bytes += writeSync(fd, '{"type":"FeatureCollection","features":[\n');
+      while (bytes < BIG_BYTES) {
+        for (const feature of lineFeatures as { properties: { id: string } }[]) {
+          const text = JSON.stringify({ ...feature, properties: { ...feature.properties, id: `${feature.properties.id}-${copies}` } });
+          bytes += writeSync(fd, `${features++ === 0 ? '' : ',\n'}${text}`);
+        }
+        copies++;
+      }
+      bytes += writeSync(fd, '\n]}\n');
+    } finally {
+      closeSync(fd);
+    }
+    // doab's reader in a process of its own: each feature handed out, counted and dropped
+    const script = `import { streamGeoJsonFile } from ${JSON.stringify(join(root, 'dist/input/read-features.js'))};
+const t0 = performance.now();
+const read = streamGeoJsonFile(${JSON.stringify(path)}, () => {}, { maxInputMB: 100000 });
+console.log(JSON.stringify({ seconds: (performance.now() - t0) / 1000, features: read.featureCount }));`;
+    const args = ['--input-type=module', '-e', script];
+    const run = timeV ? spawnSync(timeV, ['-v', process.execPath, ...args], { encoding: 'utf8' }) : spawnSync(process.execPath, args, { encoding: 'utf8' });
+    if (run.status !== 0) throw new Error(`The reader exited ${run.status}: ${run.stderr}`);
+    const read = JSON.parse(run.stdout.trim()) as { seconds: number; features: number };
+    if (read.features !== features) throw new Error(`Unexpected feature count: read ${read.features} of ${features}.`);
+    const rssKb = Number(/Maximum resident set size \(kbytes\): (\d+)/.exec(run.stderr)?.[1] ?? NaN);
+    console.log(
+      `read ${(bytes / 2 ** 30).toFixed(2)} GiB of GeoJSON (${features.toLocaleString('en-US')} lines, the 1 M-station district ${copies} times) in ${read.seconds.toFixed(1)} s ` +
+        `(${(bytes / 2 ** 20 / read.seconds).toFixed(0)} MiB/s), peak RSS ${(rssKb / 1024).toFixed(0)} MB`,
+    );
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
