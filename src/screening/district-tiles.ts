@@ -10,7 +10,11 @@
 // margin. A solve at 4 times the cell was tried first and is cheaper, but its heads lie about 2 cm
 // low over the whole demo, a smooth error the margin does not wear down: one drain's loss stayed
 // 2% off with margins of 500 to 2000 m, where the held heads at twice the cell give 0.2% at 1000 m
-// (bench/district-tiles.bench.ts and test/screening/district-tiles.test.ts measure it).
+// (bench/district-tiles.bench.ts and test/screening/district-tiles.test.ts measure it). Holding the
+// flow across the cut instead of the level (the face's flow under the held heads, as recharge of
+// the cell inside) was tried too and was worse: beside a line the held heads' gradient is far off.
+// The price: every tile solves a quarter of the whole grid besides its window, so a tile never
+// takes less than about a fifth of the whole solve's time, however many tiles.
 import { gridOver, zonesExtent, type Grid } from '../geometry/grid.js';
 import { solveDistrict } from '../hydraulics/district-solver.js';
 import type { ScreenSettings } from '../shared/settings.js';

