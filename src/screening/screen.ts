@@ -21,7 +21,7 @@ import {
 import { boundsOfParts, chooseWorkCrs, projectPositions, type WorkCrs } from '../geometry/work-crs.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
 import { lossPerKm, summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
-import { districtSolve, type DistrictResult } from './district.js';
+import { districtSolve, type DistrictResult, type DistrictTilePiece } from './district.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { castAndSolveFacings, NOT_PAIRED, type FacingResults } from './solve-facings.js';
 import { SOLVE_OK } from '../hydraulics/transect-solver.js';
@@ -120,7 +120,7 @@ export interface ScreenExtras {
   /** False to leave out the district solve at twice the cell (each line's uncertainty): scenario runs that compare one cell. */
   coarseCheck?: boolean;
   /** The transects solved by the tiles of an array job (screening/tiles.ts), in place of solving them here. */
-  tiles?: { assemble: (stations: StationTable) => SolvedStations } | null;
+  tiles?: { assemble: (stations: StationTable) => SolvedStations & { districtPieces?: DistrictTilePiece[] | null } } | null;
 }
 
 /** Work CRS into the DEM's: through lon/lat. */
@@ -226,9 +226,9 @@ export function screenDistrict(
   const { crs, warnings, geometries, lineLengthsM, zoneIndex, lineTable, stations } = prepared;
   const ground = groundOf(crs, extras.dem);
   // the transects come solved from the tiles of an array job, or are solved here
-  const { facings, results, groundPass } = extras.tiles
+  const { facings, results, groundPass, districtPieces } = extras.tiles
     ? extras.tiles.assemble(stations)
-    : solveStations(lines, zones, prepared, stations, settings, ground, {}, onProgress);
+    : { ...solveStations(lines, zones, prepared, stations, settings, ground, {}, onProgress), districtPieces: null };
   if (ground && extras.dem && groundPass) {
     const pass = groundPass;
     warnings.push(
@@ -257,7 +257,8 @@ export function screenDistrict(
     district = districtSolve(
       { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM), stripLines: strips.map((s) => [s.strip.lineA, s.strip.lineB] as const), ground },
       settings,
-      { coarseCheck: extras.coarseCheck },
+      // from the tiles: their bands of the grid, stitched (the figures then say so, with their tolerance)
+      { coarseCheck: extras.coarseCheck, pieces: districtPieces ?? undefined },
     );
     warnings.push(...district.warnings);
     if (crs.epsg === null) warnings.push(`the rasters are written with no EPSG code: the work CRS is a proj4 string (${crs.proj4Def}), kept in their citation and in run.json`);

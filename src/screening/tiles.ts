@@ -8,10 +8,12 @@
 import { checkTile, stationBox, stationSubset, stationsOfTile, tileBands, type TileOfSplit } from '../geometry/tiles.js';
 import type { FacingTable, StationTable } from '../geometry/index.js';
 import type { ScreenSettings } from '../shared/settings.js';
+import { UsageError } from '../shared/errors.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import type { FacingResults } from './facing-columns.js';
 import type { GroundPass } from './ground.js';
 import { groundOf, prepareDistrict, solveStations, type ProgressListener, type ScreenExtras, type SolvedStations } from './screen.js';
+import { districtTilePiece, type DistrictTilePiece } from './district-tiles.js';
 
 export type { TileOfSplit };
 
@@ -26,6 +28,8 @@ export interface TilePart {
   facings: FacingTable;
   results: FacingResults;
   groundPass: GroundPass | null;
+  /** The tile's share of the district solve (its band of the grid, solved over a margin); null with stripsOnly. */
+  district: DistrictTilePiece | null;
 }
 
 /** The halo around a tile's stations (m): every transect they cast, maxGapM long, lies inside it. */
@@ -40,7 +44,7 @@ export function screenTile(
   settings: ScreenSettings,
   tile: TileOfSplit,
   onProgress: ProgressListener = () => {},
-  extras: Pick<ScreenExtras, 'dem'> = {},
+  extras: Pick<ScreenExtras, 'dem' | 'coarseCheck'> = {},
 ): TilePart {
   checkTile(tile);
   const prepared = prepareDistrict(lines, zones, settings, onProgress);
@@ -50,8 +54,23 @@ export function screenTile(
   // the whole district's window, as castTransects takes it from a whole table
   let halfWindowM = 0;
   for (let i = 0; i < whole.count; i++) halfWindowM = Math.max(halfWindowM, whole.lengthM[i] / 2);
-  const solved = solveStations(lines, zones, prepared, stations, settings, groundOf(prepared.crs, extras.dem), { halfWindowM, segmentBox: stationBox(stations, tileHaloM(settings)) }, onProgress);
-  return { tile, districtStations: whole.count, stations: indices, ...solved };
+  const ground = groundOf(prepared.crs, extras.dem);
+  const solved = solveStations(lines, zones, prepared, stations, settings, ground, { halfWindowM, segmentBox: stationBox(stations, tileHaloM(settings)) }, onProgress);
+  let district: DistrictTilePiece | null = null;
+  if (!settings.stripsOnly) {
+    onProgress('district solve', 0, 1);
+    // the heads need no strips: the strips' district figures are taken when gathering, from the stitched heads
+    const inputs = { lines, zones, lineTable: prepared.lineTable, lineLengthsM: prepared.lineLengthsM, zonePolygons: prepared.zoneIndex.polygons, stripRings: [], stripLines: [], ground };
+    try {
+      district = districtTilePiece(inputs, settings, tile, { coarseCheck: extras.coarseCheck });
+    } catch (error) {
+      // more tiles than the district grid has columns (or rows): say so as the user's choice to change
+      if (/^Unexpected tile count/.test((error as Error).message)) throw new UsageError(`--tile: ${(error as Error).message.replace(/^Unexpected tile count: /, 'the district solve cannot be split into ')}; use fewer tiles or --strips-only`, 'tile');
+      throw error;
+    }
+    onProgress('district solve', 1, 1);
+  }
+  return { tile, districtStations: whole.count, stations: indices, ...solved, district };
 }
 
 const FACING_COLUMNS = ['partner', 'reason', 'transectLengthM', 'endX', 'endY', 'partnerChainageM', 'angleDeg', 'hitLine', 'partnerSide'] as const;
@@ -74,7 +93,7 @@ function emptyLike<T extends Column>(column: T, n: number): T {
  * when they are not the N tiles of one split of these stations: a count, a station claimed twice
  * or by none.
  */
-export function assembleTiles(stations: StationTable, parts: readonly TilePart[]): SolvedStations {
+export function assembleTiles(stations: StationTable, parts: readonly TilePart[]): SolvedStations & { districtPieces: DistrictTilePiece[] | null } {
   if (parts.length === 0) throw new Error('Unexpected: no tiles to gather.');
   const count = parts[0].tile.count;
   if (parts.length !== count) throw new Error(`Unexpected: ${parts.length} tiles for a split into ${count}.`);
@@ -112,7 +131,10 @@ export function assembleTiles(stations: StationTable, parts: readonly TilePart[]
       groundPass.noGroundFacings += part.groundPass.noGroundFacings;
     }
   }
-  return { facings, results, groundPass };
+  const withDistrict = parts.filter((part) => part.district !== null).length;
+  if (withDistrict !== 0 && withDistrict !== parts.length) throw new Error('some tiles hold their share of the district solve and some do not: the settings differ');
+  const districtPieces = withDistrict === 0 ? null : parts.map((part) => part.district as DistrictTilePiece);
+  return { facings, results, groundPass, districtPieces };
 }
 
 /** Rows 2 j and 2 j + 1 of `from` go to rows 2 s and 2 s + 1 of `into`, s = stations[j]. */
@@ -129,6 +151,8 @@ export interface TilePartMeta {
   tile: TileOfSplit;
   districtStations: number;
   groundPass: GroundPass | null;
+  /** The header of the tile's share of the district solve; null with stripsOnly. */
+  district?: DistrictTilePiece['header'] | null;
 }
 
 /** A tile's columns under their names (facing.*, result.*), and what goes with them. */
@@ -136,7 +160,8 @@ export function tilePartColumns(part: TilePart): { meta: TilePartMeta; columns: 
   const columns: Record<string, Column | Uint32Array> = { stations: part.stations };
   for (const name of FACING_COLUMNS) columns[`facing.${name}`] = part.facings[name];
   for (const name of RESULT_COLUMNS) columns[`result.${name}`] = part.results[name];
-  return { meta: { tile: part.tile, districtStations: part.districtStations, groundPass: part.groundPass }, columns };
+  if (part.district) for (const [name, column] of Object.entries(part.district.arrays)) columns[`district.${name}`] = column as Column;
+  return { meta: { tile: part.tile, districtStations: part.districtStations, groundPass: part.groundPass, district: part.district ? part.district.header : null }, columns };
 }
 
 /** The tile back from its columns; throws, saying what is missing or the wrong size. */
@@ -161,7 +186,14 @@ export function tilePartFromColumns(meta: TilePartMeta, columns: Record<string, 
   const tile = meta?.tile;
   if (!tile || !Number.isInteger(tile.index) || !Number.isInteger(tile.count)) throw new Error('its header names no tile');
   if (!Number.isSafeInteger(meta.districtStations)) throw new Error('its header gives no station count');
-  return { tile: { index: tile.index, count: tile.count }, districtStations: meta.districtStations, stations, facings, results, groundPass: meta.groundPass ?? null };
+  let district: DistrictTilePiece | null = null;
+  if (meta.district) {
+    if (typeof meta.district !== 'object') throw new Error('its header\'s district part is not an object');
+    const arrays: DistrictTilePiece['arrays'] = {};
+    for (const [name, column] of Object.entries(columns)) if (name.startsWith('district.')) arrays[name.slice(9)] = column as DistrictTilePiece['arrays'][string];
+    district = { header: meta.district, arrays };
+  }
+  return { tile: { index: tile.index, count: tile.count }, districtStations: meta.districtStations, stations, facings, results, groundPass: meta.groundPass ?? null, district };
 }
 
 /** What every tile of a run records of the run, beside its own columns. */

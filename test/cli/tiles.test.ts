@@ -10,7 +10,8 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { syntheticDistrict } from '../../bench/network.js';
 import { parseTileOption } from '../../src/cli/tile-option.js';
-import { freshDir, ROOT, runCliInProcess } from './run-cli.js';
+import { freshDir, readCsv, readJson, ROOT, runCliInProcess } from './run-cli.js';
+import { DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY, DISTRICT_TILE_LOSS_TOLERANCE } from '../../src/screening/district.js';
 import { gpkgLayersText } from '../output/gpkg-layers.js';
 
 /** Every file of a run; the record and report without when the run started and its command line. */
@@ -154,6 +155,34 @@ describe('tiles on a batch engine, then gather', () => {
     expect(run.status).toBe(1);
     expect(run.stderr).toContain(`${aquifer}: this aquifer file is not the one the tiles in ${tiles} were screened with`);
   });
+
+  it('runs the district solve in tiles, and gathers it within the tolerance the stitch states', async () => {
+    // the demo at a 40 m cell (the suite's time): every line's loss within the stated tolerance of
+    // one whole solve (DISTRICT_TILE_LOSS_TOLERANCE, measured in test/screening/district-tiles.test.ts)
+    const args = [...demo.filter((arg) => arg !== '--strips-only'), '--cell', '40'];
+    const tiles = join(dir, 'district-tiles');
+    for (const index of [1, 2]) {
+      const run = await runCliInProcess(['screen', ...args, '--tile', `${index}/2`, '--out', tiles, '--quiet']);
+      expect(run.status, run.stderr).toBe(0);
+    }
+    const run = await runCliInProcess(['gather', '--tiles', tiles, '--out', join(dir, 'district-gathered')]);
+    expect(run.status, run.stderr).toBe(0);
+    expect(run.stderr).toContain('district solve in 2 tiles');
+    expect((await runCliInProcess(['screen', ...args, '--out', join(dir, 'district-one'), '--quiet'])).status).toBe(0);
+    const losses = (folder: string) => new Map(readCsv(join(dir, folder, 'lines.csv')).map((row) => [row.line_id, Number(row.net_loss_m3_d)]));
+    const stitched = losses('district-gathered'), one = losses('district-one');
+    expect(stitched.size).toBe(one.size);
+    let largest = 0;
+    for (const [line, loss] of one) {
+      const difference = Math.abs((stitched.get(line) as number) - loss);
+      largest = Math.max(largest, difference);
+      expect(difference, line).toBeLessThanOrEqual(Math.max(DISTRICT_TILE_LOSS_TOLERANCE * Math.abs(loss), DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY));
+    }
+    // stitched, not copied: the figures are the tiles' own
+    expect(largest).toBeGreaterThan(0);
+    const record = readJson(join(dir, 'district-gathered/run.json'));
+    expect(record.totals.method).toBe('district');
+  }, 60_000);
 
   it('takes the tile index from --tile I/N or from the array job of a batch engine', () => {
     expect(parseTileOption('3/7', {}).tile).toEqual({ index: 3, count: 7 });
