@@ -169,7 +169,7 @@ export class JsonStream {
     this.stack.pop();
     // a list grown member by member keeps spare room (17 places for a position's 2); a copy is exact,
     // and keeps a list of numbers unboxed as JSON.parse does
-    const value = frame.streamed ? [] : isArray && frame.container !== null ? (frame.container as unknown[]).slice() : frame.container;
+    const value = frame.streamed ? [] : isArray && frame.container !== null ? exactCopy(frame.container as unknown[]) : frame.container;
     this.value(value, true);
   }
 
@@ -190,4 +190,18 @@ export class JsonStream {
     else (frame.container as Record<string, unknown>)[frame.key] = value;
     this.expect = Expect.CommaOrEnd;
   }
+}
+
+/**
+ * A list's exact copy. A position (two numbers) is built from a literal of its own, which V8 tracks
+ * by where it is made: seeing nearly all of them kept, it makes them in the old generation at once
+ * instead of copying each out of the young one (keeping the features of a 141 MiB file took 18 s,
+ * 8 of them in the young generation's collections; now 7 s, 1 of them).
+ */
+function exactCopy(list: unknown[]): unknown[] {
+  if (list.length === 2) {
+    const [x, y] = list;
+    if (typeof x === 'number' && typeof y === 'number') return [x, y];
+  }
+  return list.slice();
 }
