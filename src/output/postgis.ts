@@ -3,7 +3,7 @@
 // database lacks it), keyed by run id, with a table of runs. One transaction: a failure anywhere
 // leaves the database as it was.
 import { closedRing, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
-import pg from 'pg';
+import type pg from 'pg';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
 import { workCrsWkt } from './geopackage.js';
@@ -332,7 +332,9 @@ export async function writeToPostgis(result: ScreenResult, options: PostgisOptio
   // built before connecting: a bad geometry is found before the database is touched
   const tables = [stripsTable(result), linesTable(result), ...(result.settings.writeTransects ? [transectsTable(result)] : []), rankingTable(result)];
 
-  const client = new pg.Client({ connectionString: options.url });
+  // loaded when a run writes to PostGIS, not at every start of the command
+  const { default: pgModule } = await import('pg');
+  const client = new pgModule.Client({ connectionString: options.url });
   // an error on an idle connection must not crash the process; the query in flight reports it
   client.on('error', () => {});
   try {
