@@ -1,14 +1,12 @@
 // One OGC GeoPackage 1.3 (OGC 12-128r18) [published] holding a run: the strips, lines and
 // (when asked) transects in the work CRS with an R-tree index each, the ranking as an attributes
 // table, the run record as metadata, and the SLD styles in the layer_styles table desktop GIS reads
-// on opening. Built with better-sqlite3 in a temporary file that is always removed, when the run's
-// atomic writer reaches it, and handed over a megabyte at a time: a district's GeoPackage is never
-// held in memory. Same result and options, same bytes.
+// on opening. Built in memory with better-sqlite3 when the run's atomic writer reaches it, and
+// handed over a megabyte at a time. Same result and options, same bytes.
 import { closedRing, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
 import Database from 'better-sqlite3';
-import { closeSync, mkdtempSync, openSync, readFileSync, readSync, rmSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { ScreenResult } from '../screening/screen.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
@@ -354,71 +352,30 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
 
 // pieces of the file as the writer takes them
 const PIECE_BYTES = 1 << 20;
-// SQLite's page cache while building (KiB): enough that the R-trees' pages stay in memory
-const CACHE_KIB = 32 * 1024;
 
 /**
- * The run as one GeoPackage file, in pieces of a megabyte: built in a temporary file when the
- * pieces are first asked for (so not before the run's atomic writer reaches it), read back, and
- * removed however the reading ends. Each iteration builds the file again.
+ * The run as one GeoPackage file, in pieces of a megabyte, built in memory when the pieces are
+ * first asked for: not before the run's atomic writer reaches it, so the file is not held beside
+ * the other outputs, and a full disk or a size limit is met by that writer. Each iteration builds
+ * it again.
  */
 export function geopackageFile(result: ScreenResult, options: GeoPackageOptions): Iterable<Uint8Array> {
   return {
     *[Symbol.iterator]() {
-      const dir = mkdtempSync(join(tmpdir(), 'doab-gpkg-'));
-      try {
-        const path = join(dir, 'doab.gpkg');
-        const db = new Database(path);
-        try {
-          // nothing to roll back to and nothing to survive a crash: the file is removed either way
-          db.pragma('journal_mode = OFF');
-          db.pragma('synchronous = OFF');
-          db.pragma(`cache_size = -${CACHE_KIB}`);
-          db.transaction(() => fill(db, result, options))();
-        } finally {
-          db.close();
-        }
-        let first = true;
-        for (const piece of filePieces(path)) {
-          if (first) zeroHeaderCounters(piece);
-          first = false;
-          yield piece;
-        }
-      } finally {
-        rmSync(dir, { recursive: true, force: true });
-      }
+      const bytes = geopackageBytes(result, options);
+      for (let at = 0; at < bytes.length; at += PIECE_BYTES) yield bytes.subarray(at, at + PIECE_BYTES);
     },
   };
 }
 
-/**
- * Sets the header's file change counter, its version-valid-for number and the SQLite version that
- * wrote it to 0 (SQLite file format, section 1.3 [published]), as a database serialized from memory
- * has them: the bytes then depend on neither how many times the file was written nor which SQLite
- * wrote it. Equal counters keep the header's in-header database size valid.
- */
-function zeroHeaderCounters(firstPiece: Uint8Array): void {
-  if (firstPiece.length < 100) throw new Error(`Unexpected GeoPackage size: ${firstPiece.length} bytes, less than its 100-byte header.`);
-  firstPiece.fill(0, 24, 28);
-  firstPiece.fill(0, 92, 100);
-}
-
-function* filePieces(path: string): Generator<Uint8Array> {
-  const fd = openSync(path, 'r');
-  try {
-    for (;;) {
-      // a fresh buffer each time: the writer may hold a piece after asking for the next
-      const piece = new Uint8Array(PIECE_BYTES);
-      const read = readSync(fd, piece, 0, PIECE_BYTES, null);
-      if (read <= 0) return;
-      yield read === PIECE_BYTES ? piece : piece.subarray(0, read);
-    }
-  } finally {
-    closeSync(fd);
-  }
-}
-
-/** The whole file's bytes at once, for tests and small runs (a run's writer takes geopackageFile's pieces). */
+/** The run as one GeoPackage file's bytes, built in memory (no temporary file). */
 export function geopackageBytes(result: ScreenResult, options: GeoPackageOptions): Uint8Array {
-  return Buffer.concat([...geopackageFile(result, options)]);
+  const db = new Database(':memory:');
+  try {
+    db.transaction(() => fill(db, result, options))();
+    // SQLite's copy; its own pages go with the database
+    return db.serialize();
+  } finally {
+    db.close();
+  }
 }
