@@ -33,7 +33,7 @@ import { VERSION } from './shared/version.js';
 import { readLiningPlan } from './input/lining-plan.js';
 import { loadWells, type LoadedWells } from './input/load-wells.js';
 import { readDem, type Dem } from './input/read-dem.js';
-import { geopackageBytes } from './output/geopackage.js';
+import { geopackageFile } from './output/geopackage.js';
 import { linesSld, stripsSld } from './output/sld.js';
 import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES } from './report/palette.js';
 import { widthScaleTop } from './report/map-svg.js';
@@ -234,7 +234,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
       spread: options.spread,
       dem: options.dem ? { path: options.dem.path, sha256: options.dem.sha256, crs: options.dem.crsLabel, pixels: options.dem.grid.width * options.dem.grid.height, nodataPixels: options.dem.nodataPixels } : null,
   });
-  files.push({ name: GEOPACKAGE_NAME, content: geopackageBytes(result, { runRecord: runJson, startedAt, look }) });
+  files.push({ name: GEOPACKAGE_NAME, content: geopackageFile(result, { runRecord: runJson, startedAt, look }) });
   files.push({ name: 'run.json', content: runJson });
   return files;
 }

@@ -23,8 +23,8 @@ export async function checkCommand(options: CheckOptions, io: CliIo): Promise<nu
   const warnings = district.problems.filter((problem) => problem.severity === 'warning');
   io.out(problemLines([...errors, ...warnings], PROBLEMS_SHOWN));
   io.out(
-    `${options.canals}: ${district.canals?.features.length ?? 0} features (${district.lines.length} valid lines); ` +
-      `${options.aquifer}: ${district.aquifer?.features.length ?? 0} features (${district.zones.length} valid zones)\n`,
+    `${options.canals}: ${district.canals?.featureCount ?? 0} features (${district.lines.length} valid lines); ` +
+      `${options.aquifer}: ${district.aquifer?.featureCount ?? 0} features (${district.zones.length} valid zones)\n`,
   );
   io.out(`${errors.length} error${errors.length === 1 ? '' : 's'}, ${warnings.length} warning${warnings.length === 1 ? '' : 's'}\n`);
   return errors.length > 0 ? 1 : 0;
