@@ -1,5 +1,5 @@
 import { boxIndex } from './box-index.js';
-import { pointInOutline, type ZoneOutline } from './zone-outlines.js';
+import { edgeList, edgesNear, NODE_SIZE, pointInOutline, type ZoneOutline } from './zone-outlines.js';
 
 /**
  * Overlaps between zones and the holes their union leaves, from the zones' edges alone: no polygon
@@ -78,9 +78,12 @@ function nearSegment(ax: number, ay: number, bx: number, by: number, px: number,
  */
 function cutBy(za: number, ia: number, ax: number, ay: number, bx: number, by: number, zc: number, ic: number, cx: number, cy: number, dx: number, dy: number): void {
   const lenA2 = (bx - ax) ** 2 + (by - ay) ** 2;
-  const touchC = nearSegment(ax, ay, bx, by, cx, cy) <= EPS, touchD = nearSegment(ax, ay, bx, by, dx, dy) <= EPS;
-  if (touchC) splitAt(ax, ay, bx, by, lenA2, cx, cy);
-  if (touchD) splitAt(ax, ay, bx, by, lenA2, dx, dy);
+  // an end of c-d that is an end of a-b lies on it and cuts nothing: zones digitised from one map share vertices
+  const endC = (cx === ax && cy === ay) || (cx === bx && cy === by), endD = (dx === ax && dy === ay) || (dx === bx && dy === by);
+  const touchC = endC || (nearBox(ax, ay, bx, by, cx, cy) && nearSegment(ax, ay, bx, by, cx, cy) <= EPS);
+  const touchD = endD || (nearBox(ax, ay, bx, by, dx, dy) && nearSegment(ax, ay, bx, by, dx, dy) <= EPS);
+  if (touchC && !endC) splitAt(ax, ay, bx, by, lenA2, cx, cy);
+  if (touchD && !endD) splitAt(ax, ay, bx, by, lenA2, dx, dy);
   if (touchC || touchD || nearSegment(cx, cy, dx, dy, ax, ay) <= EPS || nearSegment(cx, cy, dx, dy, bx, by) <= EPS) return;
   if (!(side(ax, ay, bx, by, cx, cy) * side(ax, ay, bx, by, dx, dy) < 0 && side(cx, cy, dx, dy, ax, ay) * side(cx, cy, dx, dy, bx, by) < 0)) return;
   const aFirst = za < zc || (za === zc && ia < ic);
@@ -89,6 +92,11 @@ function cutBy(za: number, ia: number, ax: number, ay: number, bx: number, by: n
   const u = ((q1x - p1x) * (q2y - q1y) - (q1y - p1y) * (q2x - q1x)) / ((p2x - p1x) * (q2y - q1y) - (p2y - p1y) * (q2x - q1x));
   const x = p1x + (p2x - p1x) * u, y = p1y + (p2y - p1y) * u;
   addSplit(((x - ax) * (bx - ax) + (y - ay) * (by - ay)) / lenA2, x, y);
+}
+
+/** Whether p lies in the box of a-b grown by 2 EPS, as every point within EPS of a-b (nearSegment) does. */
+function nearBox(ax: number, ay: number, bx: number, by: number, px: number, py: number): boolean {
+  return px >= Math.min(ax, bx) - 2 * EPS && px <= Math.max(ax, bx) + 2 * EPS && py >= Math.min(ay, by) - 2 * EPS && py <= Math.max(ay, by) + 2 * EPS;
 }
 
 /** Twice the signed area of p, q, r: positive when r lies left of p-q. */
@@ -102,21 +110,36 @@ function splitAt(ax: number, ay: number, bx: number, by: number, lenA2: number, 
   addSplit(((px - ax) * (bx - ax) + (py - ay) * (by - ay)) / lenA2, px, py);
 }
 
+// edges of the other zones near the run of edges being cut, with their ends (x0, y0, x1, y1) for the
+// filter each edge of the run makes; and the edges of one zone near a piece of an edge
+const near = edgeList(), nearPiece = edgeList();
+let nearEnds = new Float64Array(256);
+
+/** Copies the ends of the edges near.ids[from .. to - 1] of zone b into nearEnds. */
+function copyEnds(b: ZoneOutline, from: number, to: number): void {
+  if (nearEnds.length < 4 * to) {
+    const grown = new Float64Array(8 * to);
+    grown.set(nearEnds);
+    nearEnds = grown;
+  }
+  for (let m = from; m < to; m++) {
+    const e = near.ids[m], f = b.next[e];
+    nearEnds[4 * m] = b.x[e]; nearEnds[4 * m + 1] = b.y[e]; nearEnds[4 * m + 2] = b.x[f]; nearEnds[4 * m + 3] = b.y[f];
+  }
+}
+
 /** Where the piece p-q of an edge lies against zone b: on one of b's edges (either way round), inside, or outside. */
 function classify(b: ZoneOutline, px: number, py: number, qx: number, qy: number): number {
   const mx = (px + qx) / 2, my = (py + qy) / 2;
-  let status = UNKNOWN;
-  b.edgeTree.search(mx - EPS, my - EPS, mx + EPS, my + EPS, (e) => {
-    if (status !== UNKNOWN) return false;
-    const j = b.next[e];
+  const count = edgesNear(b, mx - EPS, my - EPS, mx + EPS, my + EPS, nearPiece);
+  for (let k = 0; k < count; k++) {
+    const e = nearPiece.ids[k], j = b.next[e];
     const cx = b.x[e], cy = b.y[e], dx = b.x[j], dy = b.y[j];
-    if (nearSegment(cx, cy, dx, dy, mx, my) > EPS) return false;
+    if (nearSegment(cx, cy, dx, dy, mx, my) > EPS) continue;
     const len = Math.hypot(dx - cx, dy - cy);
-    if (Math.abs(side(cx, cy, dx, dy, px, py)) > EPS * len || Math.abs(side(cx, cy, dx, dy, qx, qy)) > EPS * len) return false;
-    status = (qx - px) * (dx - cx) + (qy - py) * (dy - cy) > 0 ? SHARED_SAME : SHARED_OPPOSITE;
-    return false;
-  });
-  if (status !== UNKNOWN) return status;
+    if (Math.abs(side(cx, cy, dx, dy, px, py)) > EPS * len || Math.abs(side(cx, cy, dx, dy, qx, qy)) > EPS * len) continue;
+    return (qx - px) * (dx - cx) + (qy - py) * (dy - cy) > 0 ? SHARED_SAME : SHARED_OPPOSITE;
+  }
   return pointInOutline(b, mx, my) ? INSIDE : OUTSIDE;
 }
 
@@ -140,6 +163,13 @@ export function zoneOverlay(outlines: ZoneOutline[]): ZoneOverlay {
     const others = boxes.search(a.minX, a.minY, a.maxX, a.maxY).filter((zb) => zb !== za).sort((p, q) => p - q);
     const k = others.length;
     const status = new Uint8Array(k), busy = new Uint8Array(k);
+    // per pair, SHARED_SAME or SHARED_OPPOSITE when the other zone has the edge being cut itself, else UNKNOWN
+    const whole = new Uint8Array(k);
+    // the other zones whose box meets the run of a's edges (a's index node) that holds the edge being
+    // cut, and their edges near that run: one search per run and zone, which each edge of the run
+    // filters, finds what a search per edge would. Every edge of the run lies outside the other zones.
+    const active = new Uint32Array(k), nearStart = new Uint32Array(k + 1);
+    let activeCount = 0, run = -1;
     // per pair, where the run of pieces in the other zone began on the edge being cut
     const runOn = new Uint8Array(k), runX = new Float64Array(k), runY = new Float64Array(k);
     // per pair, an origin in the middle of the two boxes' overlap, and the running sum
@@ -151,39 +181,65 @@ export function zoneOverlay(outlines: ZoneOutline[]): ZoneOverlay {
     });
     for (let r = 0; r + 1 < a.ringStart.length; r++) {
       status.fill(UNKNOWN);
+      run = -1;
       let open: Link | null = null, first: Link | null = null, firstAtStart = false;
       for (let i = a.ringStart[r]; i < a.ringStart[r + 1]; i++) {
         const j = a.next[i];
         const ax = a.x[i], ay = a.y[i], bx = a.x[j], by = a.y[j];
         const minX = Math.min(ax, bx) - EPS, minY = Math.min(ay, by) - EPS, maxX = Math.max(ax, bx) + EPS, maxY = Math.max(ay, by) + EPS;
+        if (Math.floor(i / NODE_SIZE) !== run) {
+          run = Math.floor(i / NODE_SIZE);
+          const box = 4 * run;
+          const runMinX = a.nodeBox[box] - EPS, runMinY = a.nodeBox[box + 1] - EPS, runMaxX = a.nodeBox[box + 2] + EPS, runMaxY = a.nodeBox[box + 3] + EPS;
+          activeCount = 0;
+          for (let n = 0; n < k; n++) {
+            const b = outlines[others[n]];
+            nearStart[n + 1] = nearStart[n];
+            if (runMaxX < b.minX || runMinX > b.maxX || runMaxY < b.minY || runMinY > b.maxY) {
+              status[n] = OUTSIDE;
+              busy[n] = 0;
+              whole[n] = UNKNOWN;
+              continue;
+            }
+            active[activeCount++] = n;
+            nearStart[n + 1] = edgesNear(b, runMinX, runMinY, runMaxX, runMaxY, near, nearStart[n]);
+            copyEnds(b, nearStart[n], nearStart[n + 1]);
+          }
+        }
         splitCount = 0;
-        for (let n = 0; n < k; n++) {
-          const b = outlines[others[n]];
+        for (let t = 0; t < activeCount; t++) {
+          const n = active[t], b = outlines[others[n]];
           busy[n] = 0;
+          whole[n] = UNKNOWN;
           if (maxX < b.minX || minX > b.maxX || maxY < b.minY || minY > b.maxY) {
             status[n] = OUTSIDE;
             continue;
           }
-          b.edgeTree.search(minX, minY, maxX, maxY, (e) => {
+          for (let m = nearStart[n]; m < nearStart[n + 1]; m++) {
+            const cx = nearEnds[4 * m], cy = nearEnds[4 * m + 1], dx = nearEnds[4 * m + 2], dy = nearEnds[4 * m + 3];
+            if ((cx > maxX && dx > maxX) || (cx < minX && dx < minX) || (cy > maxY && dy > maxY) || (cy < minY && dy < minY)) continue;
             busy[n] = 1;
-            const f = b.next[e];
-            cutBy(za, i, ax, ay, bx, by, others[n], e, b.x[e], b.y[e], b.x[f], b.y[f]);
-            return false;
-          });
+            // the same edge, either way round, cuts nothing, and every piece of a-b lies on it
+            if (cx === ax && cy === ay && dx === bx && dy === by) whole[n] = SHARED_SAME;
+            else if (cx === bx && cy === by && dx === ax && dy === ay) whole[n] = SHARED_OPPOSITE;
+            else cutBy(za, i, ax, ay, bx, by, others[n], near.ids[m], cx, cy, dx, dy);
+          }
         }
         sortSplits();
         // in a pair's overlap, pieces in a row inside the other zone make one chord: a split made by a
         // third zone is no vertex of it. The union keeps every split, as a vertex where a run may end.
         let edgeBusy = false;
-        for (let n = 0; n < k; n++) if (busy[n]) edgeBusy = true;
+        for (let t = 0; t < activeCount; t++) if (busy[active[t]]) edgeBusy = true;
         if (edgeBusy) open = null;
         let px = ax, py = ay;
         for (let s = 0; s <= splitCount; s++) {
           const qx = s < splitCount ? splitX[s] : bx, qy = s < splitCount ? splitY[s] : by;
           if (qx === px && qy === py) continue;
           let onUnion = true;
-          for (let n = 0; n < k; n++) {
-            if (busy[n] || status[n] >= SHARED_SAME) status[n] = classify(outlines[others[n]], px, py, qx, qy);
+          for (let t = 0; t < activeCount; t++) {
+            const n = active[t];
+            if (whole[n] !== UNKNOWN) status[n] = whole[n];
+            else if (busy[n] || status[n] >= SHARED_SAME) status[n] = classify(outlines[others[n]], px, py, qx, qy);
             const st = status[n], lower = za < others[n];
             const inPair = st === INSIDE || (st === SHARED_SAME && lower);
             if (inPair && !runOn[n]) {
@@ -213,7 +269,8 @@ export function zoneOverlay(outlines: ZoneOutline[]): ZoneOverlay {
           py = qy;
         }
         if (edgeBusy) open = null;
-        for (let n = 0; n < k; n++) {
+        for (let t = 0; t < activeCount; t++) {
+          const n = active[t];
           if (!runOn[n]) continue;
           runOn[n] = 0;
           pairSum[n] += term(runX[n], runY[n], bx, by, pairX[n], pairS[n]);

@@ -61,6 +61,13 @@ describe('cross-checks on zones of 10,000 vertices', () => {
     expect(messages(boxes, 10_000)).toEqual([]);
   });
 
+  it('find no overlap or hole where two zones share one edge of a third (a T-junction)', () => {
+    // A's east edge is B's west edge and C's; at 10,000 vertices A's and B's or C's vertices along it mostly differ
+    const boxes = { A: [75, 29.5, 75.1, 29.6], B: [75.1, 29.5, 75.2, 29.53], C: [75.1, 29.53, 75.2, 29.6] };
+    expect(messages(boxes, 4)).toEqual([]);
+    expect(messages(boxes, 10_000)).toEqual([]);
+  });
+
   it('give a hole between zones the area of its closed form and its place', () => {
     // four zones around a hole 0.01 degrees square; W and E carry its corners on their inner edges
     // only in the 4-vertex case, so the two cases share no vertex beyond the corners of each box
