@@ -126,7 +126,8 @@ describe('district solve in tiles on a generated district', () => {
 });
 
 describe('district solve in tiles on the demo', () => {
-  it('stitches 2, 3 and 7 tiles within the stated tolerances', async () => {
+  // 7 tiles here; test/cli/tiles.test.ts gathers the demo from 2 tile runs at the same cell
+  it('stitches 7 tiles within the stated tolerances', async () => {
     const result = (await screenFiles(DEMO_CANALS, DEMO_AQUIFER, { stripsOnly: true })).result;
     const inputs = inputsOf(result);
     const settings = { ...DEFAULT_SETTINGS, ...result.settings, districtCellM: 40 };
@@ -134,7 +135,7 @@ describe('district solve in tiles on the demo', () => {
     const whole = districtSolve(inputs, settings, { coarseCheck: false });
     // the demo lies on one base: the u path
     expect(whole.picardIterations).toBe(0);
-    for (const count of [2, 3, 7]) {
+    for (const count of [7]) {
       const stitched = districtSolve(inputs, settings, { coarseCheck: false, pieces: pieces(inputs, settings, count, { coarseCheck: false }) });
       expect(misfits(whole, stitched, ids), `${count} tiles`).toEqual([]);
       expect(stitched.strips.length).toBe(whole.strips.length);

@@ -1,19 +1,16 @@
-// Tiles solve each transect exactly as a single run does: the demo and a generated network split
-// into 1, 2 and 7 tiles, gathered, give every column of every transect side bit for bit, and the
-// screening built on them the same strips. The reference is the single run itself.
+// Tiles solve each transect exactly as a single run does: the demo split into 1, 2 and 7 tiles,
+// gathered, gives every column of every transect side bit for bit, and the screening built on them
+// the same strips. The reference is the single run itself. (test/cli/tiles.test.ts runs the same
+// through tile processes and doab gather, on the demo and on a generated network.)
 import { describe, expect, it } from 'vitest';
-import { syntheticDistrict } from '../../bench/network.js';
 import { defaultConfig } from '../../src/input/config.js';
 import { loadDistrict } from '../../src/input/load-district.js';
-import { writeFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { screenDistrict, type ScreenResult } from '../../src/screening/screen.js';
 import { assembleTiles, screenTile, TILE_FACING_COLUMNS, TILE_RESULT_COLUMNS, type TilePart } from '../../src/screening/tiles.js';
 import { stationsOfTile, tileBands, bandOf } from '../../src/geometry/tiles.js';
 import type { ScreenSettings } from '../../src/shared/settings.js';
 import type { LineRecord, ZoneRecord } from '../../src/screening/district-inputs.js';
 import { DEMO_AQUIFER, DEMO_CANALS } from '../report/demo-result.js';
-import { freshDir } from '../cli/run-cli.js';
 
 async function load(canals: string, aquifer: string, settings: Partial<ScreenSettings>) {
   const config = defaultConfig();
@@ -68,18 +65,6 @@ describe('tiles of the work area', () => {
       for (const part of parts) expect(part.stations.length).toBeGreaterThan(0);
       sameColumns(whole, result, `demo in ${count} tiles`);
     }
-  });
-
-  it('give a generated network the same transects as one run, in 2 and 7 tiles', async () => {
-    const dir = freshDir('tiles-network');
-    const { lineFeatures, zoneFeatures, crs } = syntheticDistrict(150);
-    const canals = join(dir, 'canals.geojson'), aquifer = join(dir, 'aquifer.geojson');
-    writeFileSync(canals, JSON.stringify({ type: 'FeatureCollection', features: lineFeatures }));
-    writeFileSync(aquifer, JSON.stringify({ type: 'FeatureCollection', features: zoneFeatures }));
-    const { lines, zones, settings } = await load(canals, aquifer, { crs, maxGapM: 800 });
-    const whole = screenDistrict(lines, zones, settings);
-    expect(whole.counts.solvedFacings).toBeGreaterThan(1000);
-    for (const count of [2, 7]) sameColumns(whole, splitAndGather(lines, zones, settings, count).result, `network in ${count} tiles`);
   });
 
   it('refuses tiles that do not cover the district once', async () => {
