@@ -73,7 +73,7 @@ export function readTileFolder(dir: string): GatheredTiles {
     throw new DataError(
       { file: dir },
       `tile${missing.length === 1 ? '' : 's'} ${shown}${missing.length > 10 ? ` and ${missing.length - 10} more` : ''} of ${count} ${missing.length === 1 ? 'is' : 'are'} missing: ` +
-        `${missing.length === 1 ? 'it' : 'they'} failed, did not run or are still running; rerun ${missing.length === 1 ? 'it' : 'each'} with --tile ${missing[0]}/${count}${missing.length === 1 ? '' : ' and so on'}, then gather again`,
+        `${missing.length === 1 ? 'it failed, did not run or is still running' : 'they failed, did not run or are still running'}; rerun ${missing.length === 1 ? 'it' : 'each'} with --tile ${missing[0]}/${count}${missing.length === 1 ? '' : ' and so on'}, then gather again`,
     );
   }
   const parts: TilePart[] = [];
