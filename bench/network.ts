@@ -91,3 +91,16 @@ export function syntheticDistrict(count: number): { lineFeatures: object[]; zone
   ];
   return { lineFeatures, zoneFeatures, crs: CRS };
 }
+
+/** Stations per line of syntheticNetwork at a step (m), from a sample of 2,000 lines: to aim a bench at a station count. */
+export function stationsPerLine(stepM: number): number {
+  const sample = syntheticNetwork(2000, 1);
+  let stations = 0;
+  for (const g of sample) {
+    const p = g.parts[0];
+    let m = 0;
+    for (let i = 2; i < p.length; i += 2) m += Math.hypot(p[i] - p[i - 2], p[i + 1] - p[i - 1]);
+    stations += Math.floor(m / stepM) + 1;
+  }
+  return stations / sample.length;
+}

@@ -14,7 +14,7 @@ import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { performance } from 'node:perf_hooks';
-import { syntheticDistrict, syntheticNetwork } from './network.js';
+import { stationsPerLine as stationsPerLineAt, syntheticDistrict } from './network.js';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const big = process.argv.includes('--big');
@@ -25,16 +25,8 @@ const extraArgs = (process.env.DOAB_BENCH_ARGS ?? '').split(' ').filter(Boolean)
 const STEP_M = 100;
 const timeV = existsSync('/usr/bin/time') ? '/usr/bin/time' : null;
 
-// lines per station of the generator, from a sample of it, so each size lands near its count
-const sample = syntheticNetwork(2000, 1);
-let sampleStations = 0;
-for (const g of sample) {
-  const p = g.parts[0];
-  let m = 0;
-  for (let i = 2; i < p.length; i += 2) m += Math.hypot(p[i] - p[i - 2], p[i + 1] - p[i - 1]);
-  sampleStations += Math.floor(m / STEP_M) + 1;
-}
-const stationsPerLine = sampleStations / sample.length;
+// lines per station of the generator, so each size lands near its count
+const stationsPerLine = stationsPerLineAt(STEP_M);
 
 try {
   execFileSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', 'tsconfig.build.json'], { cwd: root, stdio: 'pipe' });

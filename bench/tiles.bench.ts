@@ -11,7 +11,7 @@ import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { performance } from 'node:perf_hooks';
-import { syntheticDistrict, syntheticNetwork } from './network.js';
+import { stationsPerLine, syntheticDistrict } from './network.js';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const target = Number(process.argv[2] ?? 200_000);
@@ -21,15 +21,8 @@ for (const n of counts) if (!(Number.isInteger(n) && n >= 1)) throw new Error(`U
 const extraArgs = (process.env.DOAB_BENCH_ARGS ?? '').split(' ').filter(Boolean);
 const timeV = existsSync('/usr/bin/time') ? '/usr/bin/time' : null;
 
-// lines per station of the generator at the default step (100 m), from a sample of it
-const sample = syntheticNetwork(2000, 1);
-let sampleStations = 0;
-for (const g of sample) {
-  const p = g.parts[0];
-  let m = 0;
-  for (let i = 2; i < p.length; i += 2) m += Math.hypot(p[i] - p[i - 2], p[i + 1] - p[i - 1]);
-  sampleStations += Math.floor(m / 100) + 1;
-}
+// lines per station of the generator at the default step (100 m)
+const perLine = stationsPerLine(100);
 
 try {
   execFileSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', 'tsconfig.build.json'], { cwd: root, stdio: 'pipe' });
@@ -57,7 +50,7 @@ const sameFile = (a: string, b: string) => spawnSync('cmp', ['-s', a, b]).status
 
 const dir = mkdtempSync(join(tmpdir(), 'doab-tiles-bench-'));
 try {
-  const { lineFeatures, zoneFeatures, crs } = syntheticDistrict(Math.max(2, Math.round(target / (sampleStations / sample.length))));
+  const { lineFeatures, zoneFeatures, crs } = syntheticDistrict(Math.max(2, Math.round(target / perLine)));
   const canals = join(dir, 'canals.geojson'), aquifer = join(dir, 'aquifer.geojson');
   writeFileSync(canals, JSON.stringify({ type: 'FeatureCollection', features: lineFeatures }));
   writeFileSync(aquifer, JSON.stringify({ type: 'FeatureCollection', features: zoneFeatures }));

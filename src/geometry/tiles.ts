@@ -32,14 +32,8 @@ export function checkTile(tile: TileOfSplit): void {
  */
 export function tileBands(stations: Pick<StationTable, 'count' | 'x' | 'y'>, count: number): TileBands {
   checkTile({ index: 1, count });
-  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
-  for (let i = 0; i < stations.count; i++) {
-    minX = Math.min(minX, stations.x[i]);
-    maxX = Math.max(maxX, stations.x[i]);
-    minY = Math.min(minY, stations.y[i]);
-    maxY = Math.max(maxY, stations.y[i]);
-  }
-  const axis = stations.count === 0 || maxX - minX >= maxY - minY ? 'x' : 'y';
+  const box = stationBox(stations, 0);
+  const axis = box === null || box[2] - box[0] >= box[3] - box[1] ? 'x' : 'y';
   const sorted = (axis === 'x' ? stations.x : stations.y).slice(0, stations.count).sort();
   const cutsM = new Float64Array(count - 1);
   for (let k = 1; k < count; k++) cutsM[k - 1] = stations.count === 0 ? 0 : sorted[Math.floor((k * stations.count) / count)];

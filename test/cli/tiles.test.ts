@@ -12,35 +12,7 @@ import { syntheticDistrict } from '../../bench/network.js';
 import { parseTileOption } from '../../src/cli/tile-option.js';
 import { freshDir, readCsv, readJson, ROOT, runCliInProcess } from './run-cli.js';
 import { DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY, DISTRICT_TILE_LOSS_TOLERANCE } from '../../src/screening/district.js';
-import { gpkgLayersText } from '../output/gpkg-layers.js';
-
-/** Every file of a run; the record and report without when the run started and its command line. */
-function runFiles(out: string): Map<string, string> {
-  const files = new Map<string, string>();
-  for (const name of readdirSync(out).sort()) {
-    let text = readFileSync(join(out, name), 'latin1');
-    if (name === 'run.json') {
-      const record = JSON.parse(text);
-      delete record.started_at;
-      delete record.command_line;
-      text = JSON.stringify(record);
-    }
-    if (name === 'doab.gpkg') text = gpkgLayersText(join(out, name));
-    if (name === 'report.html') {
-      text = text
-        .replace(/\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d+Z/g, 'START')
-        .replace(/\d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/g, 'START')
-        .replace(/<td class="hash">doab (screen|gather) [^<]*<\/td>/, '<td class="hash">COMMAND</td>');
-    }
-    files.set(name, text);
-  }
-  return files;
-}
-
-function expectSameFiles(one: Map<string, string>, gathered: Map<string, string>, label: string): void {
-  expect([...gathered.keys()], label).toEqual([...one.keys()]);
-  for (const [name, text] of one) expect(gathered.get(name) === text, `${name}, ${label}`).toBe(true);
-}
+import { expectSameFiles, runFiles } from './run-files.js';
 
 /** The tiles as a batch engine runs them: N processes at once, each told its index its own way. */
 function runTiles(args: string[], out: string, count: number, indexBy: 'option' | 'JOB_COMPLETION_INDEX' | 'SLURM_ARRAY_TASK_ID' | 'AWS_BATCH_JOB_ARRAY_INDEX'): Promise<void[]> {

@@ -8,34 +8,16 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { syntheticDistrict } from '../../bench/network.js';
 import { facingWorkerStats } from '../../src/screening/facing-workers.js';
 import { freshDir, ROOT, runCliInProcess } from '../cli/run-cli.js';
-import { gpkgLayersText } from '../output/gpkg-layers.js';
+import { expectSameFiles as expectSame, runFiles as filesOfRun } from '../cli/run-files.js';
 
 type Main = (argv: string[], io: { out: (text: string) => void; err: (text: string) => void }) => Promise<number>;
 
-/** Every file of a run; the run record and report without when the run started and its command line. */
+/** Every file of a run; the record says the workers were asked for, and leaves them out of the settings. */
 function runFiles(out: string): Map<string, string> {
-  const files = new Map<string, string>();
-  for (const name of readdirSync(out).sort()) {
-    let text = readFileSync(join(out, name), 'latin1');
-    if (name === 'run.json') {
-      const record = JSON.parse(text);
-      expect(record.command_line.slice(-2)[0]).toBe('--workers');
-      expect(record.settings).not.toHaveProperty('workers');
-      delete record.started_at;
-      delete record.command_line;
-      text = JSON.stringify(record);
-    }
-    // the GeoPackage holds the run record as metadata: its layers are compared
-    if (name === 'doab.gpkg') text = gpkgLayersText(join(out, name));
-    if (name === 'report.html') {
-      text = text
-        .replace(/\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d+Z/g, 'START')
-        .replace(/\d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/g, 'START')
-        .replace(/--workers \d+/g, '--workers N');
-    }
-    files.set(name, text);
-  }
-  return files;
+  return filesOfRun(out, (record) => {
+    expect(record.command_line.slice(-2)[0]).toBe('--workers');
+    expect(record.settings).not.toHaveProperty('workers');
+  });
 }
 
 async function screenWithWorkers(run: Main, args: string[], out: string, workers: number): Promise<Map<string, string>> {
@@ -46,8 +28,7 @@ async function screenWithWorkers(run: Main, args: string[], out: string, workers
 }
 
 function expectSameFiles(a: Map<string, string>, b: Map<string, string>, workers: number): void {
-  expect([...b.keys()]).toEqual([...a.keys()]);
-  for (const [name, text] of a) expect(b.get(name) === text, `${name} with --workers ${workers}`).toBe(true);
+  expectSame(a, b, `--workers ${workers}`);
 }
 
 const mainInProcess: Main = async (argv) => (await runCliInProcess(argv)).status ?? 1;
