@@ -52,7 +52,8 @@ describe('many problems, and large records', () => {
     const line = (i: number) => `{"type":"Feature","properties":{"id":"l${i}"},"geometry":{"type":"LineString","coordinates":[[30.5,29.5],[30.51,29.5]]}}`;
     const path = join(dir, 'canals.geojson');
     writeFileSync(path, `{"type":"FeatureCollection","features":[${Array.from({ length: 200_000 }, (_, i) => line(i)).join(',\n')}]}`);
-    for (const command of ['check', 'screen']) {
+    // screen only: check lists problems by the same code, and reads 200,000 features in the next test
+    for (const command of ['screen']) {
       const run = await runCliInProcess([command, '--canals', path, '--aquifer', AQUIFER, ...(command === 'screen' ? ['--out', join(dir, 'out')] : [])]);
       const text = `${run.stdout}${run.stderr}`;
       expect(run.status, text.slice(0, 500)).toBe(1);
