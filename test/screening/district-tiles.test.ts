@@ -1,8 +1,8 @@
 // The district solve in tiles, stitched, against one whole solve of the same district (the
 // reference is our own: the whole solve, which district.test.ts holds to the Dupuit closed forms).
 // The tolerances are the ones the stitch states (DISTRICT_TILE_* in src/screening/district.ts).
-// The demo runs at a 40 m cell here, a quarter of the cells of the default, to keep the file fast;
-// bench/district-tiles.bench.ts measures the default cell.
+// The demo is gathered from tiles by test/cli/tiles.test.ts (at a 40 m cell, to keep the suite
+// fast); bench/district-tiles.bench.ts measures a 200-line district at the default cell.
 import { describe, expect, it } from 'vitest';
 import { asLineTable } from '../../src/geometry/lines.js';
 import {
@@ -16,7 +16,6 @@ import {
 import { districtTilePiece, type DistrictTilePiece } from '../../src/screening/district-tiles.js';
 import type { ScreenResult } from '../../src/screening/screen.js';
 import { DEFAULT_SETTINGS, type ScreenSettings } from '../../src/shared/settings.js';
-import { DEMO_AQUIFER, DEMO_CANALS, screenFiles } from '../report/demo-result.js';
 import { box, line, screenLocal } from './local-district.js';
 
 function inputsOf(result: ScreenResult): DistrictInputs {
@@ -123,22 +122,4 @@ describe('district solve in tiles on a generated district', () => {
     expect(() => districtTilePiece(inputs, settings, { index: 4, count: 3 })).toThrow('Unexpected tile index: 4 of 3.');
     expect(() => districtTilePiece(inputs, settings, { index: 1, count: 10_000 })).toThrow(/Unexpected tile count: 10000 \(the district grid is \d+ columns wide/);
   });
-});
-
-describe('district solve in tiles on the demo', () => {
-  // 7 tiles here; test/cli/tiles.test.ts gathers the demo from 2 tile runs at the same cell
-  it('stitches 7 tiles within the stated tolerances', async () => {
-    const result = (await screenFiles(DEMO_CANALS, DEMO_AQUIFER, { stripsOnly: true })).result;
-    const inputs = inputsOf(result);
-    const settings = { ...DEFAULT_SETTINGS, ...result.settings, districtCellM: 40 };
-    const ids = result.lines.map((l) => l.id);
-    const whole = districtSolve(inputs, settings, { coarseCheck: false });
-    // the demo lies on one base: the u path
-    expect(whole.picardIterations).toBe(0);
-    for (const count of [7]) {
-      const stitched = districtSolve(inputs, settings, { coarseCheck: false, pieces: pieces(inputs, settings, count, { coarseCheck: false }) });
-      expect(misfits(whole, stitched, ids), `${count} tiles`).toEqual([]);
-      expect(stitched.strips.length).toBe(whole.strips.length);
-    }
-  }, 60_000);
 });
