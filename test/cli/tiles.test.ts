@@ -131,7 +131,7 @@ describe('tiles on a batch engine, then gather', () => {
   it('runs the district solve in tiles, and gathers it within the tolerance the stitch states', async () => {
     // the demo at a 40 m cell (the suite's time): every line's loss within the stated tolerance of
     // one whole solve (DISTRICT_TILE_LOSS_TOLERANCE, measured in test/screening/district-tiles.test.ts)
-    const args = [...demo.filter((arg) => arg !== '--strips-only'), '--cell', '40'];
+    const args = ['--canals', join(ROOT, 'data-demo/canals.geojson'), '--aquifer', join(ROOT, 'data-demo/aquifer.geojson'), '--cell', '40'];
     const tiles = join(dir, 'district-tiles');
     for (const index of [1, 2]) {
       const run = await runCliInProcess(['screen', ...args, '--tile', `${index}/2`, '--out', tiles, '--quiet']);
