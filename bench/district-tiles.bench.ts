@@ -11,11 +11,10 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
-import { asLineTable } from '../src/geometry/lines.js';
 import { checkLines, checkZones } from '../src/screening/district-inputs.js';
 import { districtSolve, type DistrictInputs, type DistrictResult } from '../src/screening/district.js';
 import { DISTRICT_TILE_MARGIN_M, districtTilePiece, type DistrictTilePiece } from '../src/screening/district-tiles.js';
-import { screenDistrict } from '../src/screening/screen.js';
+import { districtInputsOfResult, screenDistrict } from '../src/screening/screen.js';
 import { DEFAULT_RULES } from '../src/shared/input-rules.js';
 import { DEFAULT_SETTINGS, type ScreenSettings } from '../src/shared/settings.js';
 import { syntheticDistrict } from './network.js';
@@ -30,16 +29,7 @@ function prepare(lines: number): { inputs: DistrictInputs; settings: ScreenSetti
   const checkedZones = checkZones('aquifer', zoneFeatures, DEFAULT_RULES).records;
   const settings: ScreenSettings = { ...DEFAULT_SETTINGS, crs, maxGapM: 800, stripsOnly: true, workers: 1 };
   const result = screenDistrict(checkedLines, checkedZones, settings);
-  const inputs: DistrictInputs = {
-    lines: result.lines,
-    zones: result.zones,
-    lineTable: asLineTable(result.geometries),
-    lineLengthsM: result.lineLengthsM,
-    zonePolygons: result.zoneIndex.polygons,
-    stripRings: result.strips.map((s) => s.strip.ringM),
-    stripLines: result.strips.map((s) => [s.strip.lineA, s.strip.lineB] as const),
-    ground: null,
-  };
+  const inputs: DistrictInputs = districtInputsOfResult(result);
   return { inputs, settings: { ...settings, stripsOnly: false } };
 }
 

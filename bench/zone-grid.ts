@@ -45,3 +45,23 @@ export function densifiedRect([x0, y0, x1, y1]: Box, vertices: number): Float64A
   }
   return out;
 }
+
+/**
+ * A closed ring through four corners (counter-clockwise) with `vertices` vertices, each side split
+ * evenly from its lower-left end, so that neighbours sharing a side share its vertices to the last bit,
+ * as zones digitised from one map do.
+ */
+export function densifiedRing(corners: readonly (readonly number[])[], vertices: number): number[][] {
+  const perSide = vertices / 4, ring: number[][] = [];
+  for (let s = 0; s < 4; s++) {
+    const a = corners[s], b = corners[(s + 1) % 4];
+    const forward = a[0] < b[0] || (a[0] === b[0] && a[1] < b[1]);
+    const [lo, hi] = forward ? [a, b] : [b, a];
+    for (let i = 0; i < perSide; i++) {
+      const t = (forward ? i : perSide - i) / perSide;
+      ring.push([lo[0] + (hi[0] - lo[0]) * t, lo[1] + (hi[1] - lo[1]) * t]);
+    }
+  }
+  ring.push(ring[0]);
+  return ring;
+}

@@ -17,7 +17,7 @@ import { solveFacings } from '../src/screening/solve-facings.js';
 import { DEFAULT_RULES } from '../src/shared/input-rules.js';
 import { defaultSettings } from '../src/shared/settings.js';
 import { syntheticDistrict, syntheticNetwork } from './network.js';
-import { densifiedRect, zoneGridOver, type Box } from './zone-grid.js';
+import { densifiedRect, densifiedRing, zoneGridOver, type Box } from './zone-grid.js';
 
 const count = Number(process.argv[2] ?? 3000);
 if (!Number.isInteger(count) || count < 2) throw new Error(`Unexpected lines value: ${process.argv[2]}.`);
@@ -95,19 +95,7 @@ const toLonLat = (x: number, y: number): number[] => crs.inverse([300_000 + x, 3
  * so neighbours that share a side share its vertices to the last bit, as zones digitised from one map do.
  */
 function lonLatRing([x0, y0, x1, y1]: Box, vertices: number): number[][] {
-  const corners = [toLonLat(x0, y0), toLonLat(x1, y0), toLonLat(x1, y1), toLonLat(x0, y1)];
-  const perSide = vertices / 4, ring: number[][] = [];
-  for (let s = 0; s < 4; s++) {
-    const a = corners[s], b = corners[(s + 1) % 4];
-    const forward = a[0] < b[0] || (a[0] === b[0] && a[1] < b[1]);
-    const [lo, hi] = forward ? [a, b] : [b, a];
-    for (let i = 0; i < perSide; i++) {
-      const t = (forward ? i : perSide - i) / perSide;
-      ring.push([lo[0] + (hi[0] - lo[0]) * t, lo[1] + (hi[1] - lo[1]) * t]);
-    }
-  }
-  ring.push(ring[0]);
-  return ring;
+  return densifiedRing([toLonLat(x0, y0), toLonLat(x1, y0), toLonLat(x1, y1), toLonLat(x0, y1)], vertices);
 }
 const zoneRecords = (grow: number, vertices: number): ZoneRecord[] =>
   checkZones('aquifer.geojson', cells.map(([x0, y0, x1, y1], i) => ({

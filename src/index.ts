@@ -158,7 +158,7 @@ export function screenTileLoaded(district: LoadedDistrict, config: RunConfig, ti
 
 export { checkTileFolder, writeTileFile } from './output/tile-file.js';
 export { readTileFolder, type GatheredTiles } from './input/read-tiles.js';
-export { tileFileName, type TilePart, type TileRunMeta, type TileOfSplit } from './screening/tiles.js';
+export { tileFileName, tileSolvedSides, type TilePart, type TileRunMeta, type TileOfSplit } from './screening/tiles.js';
 export { MAX_TILES } from './geometry/tiles.js';
 export { hashInput } from './input/read-features.js';
 

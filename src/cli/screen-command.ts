@@ -29,6 +29,7 @@ import {
   checkTileFolder,
   hashInput,
   screenTileLoaded,
+  tileSolvedSides,
   writeTileFile,
   DataError,
   VERSION,
@@ -216,9 +217,7 @@ async function screenTileCommand(options: ScreenOptions, config: RunConfig, io: 
   const hashes: Record<string, string> = { canals: district.canals!.sha256, aquifer: district.aquifer!.sha256, ...(dem ? { dem: dem.sha256 } : {}), ...extraInputHashes(options) };
   const runKey = createHash('sha256').update(JSON.stringify({ version: VERSION, options: recorded, inputs: hashes })).digest('hex');
   const path = await writeTileFile(options.out, part, { tool: 'doab', version: VERSION, options: recorded, cwd: process.cwd(), inputs: hashes, runKey });
-  let solved = 0;
-  for (let i = 0; i < part.results.status.length; i++) if (part.results.status[i] === 0) solved++;
-  log(`tile ${tile.index} of ${tile.count} (from ${from}): ${part.stations.length} of ${part.districtStations} stations, ${solved} transect sides solved; wrote ${path}`);
+  log(`tile ${tile.index} of ${tile.count} (from ${from}): ${part.stations.length} of ${part.districtStations} stations, ${tileSolvedSides(part)} transect sides solved; wrote ${path}`);
   log(`when all ${tile.count} tiles are written, run: doab gather --tiles ${options.out} --out <folder>`);
   if (options.quiet) io.err(`${CAUTION}\n`);
   return 0;

@@ -93,6 +93,13 @@ function buildSegmentIndex(t: LineTable, box: CastOptions['segmentBox'] = null):
   return { vertex: vertex.subarray(0, n), part: part.subarray(0, n), tree };
 }
 
+/** The half window a partner's direction is smoothed over: half the longest station interval (m). */
+export function smoothingHalfWindowM(stations: Pick<StationTable, 'count' | 'lengthM'>): number {
+  let halfWindowM = 0;
+  for (let i = 0; i < stations.count; i++) halfWindowM = Math.max(halfWindowM, stations.lengthM[i] / 2);
+  return halfWindowM;
+}
+
 /** Every segment of the lines, indexed: for castTransects' `index` option with the same lines. */
 export function castIndex(lines: LineTable): CastIndex {
   return { segments: buildSegmentIndex(lines) };
@@ -130,8 +137,7 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
     partnerSide: new Uint8Array(n).fill(255),
   };
   // the partner's direction is smoothed over the same window as the stations' own (half a step)
-  let halfWindowM = options.halfWindowM ?? 0;
-  if (options.halfWindowM === undefined) for (let i = 0; i < stations.count; i++) halfWindowM = Math.max(halfWindowM, stations.lengthM[i] / 2);
+  const halfWindowM = options.halfWindowM ?? smoothingHalfWindowM(stations);
   const cosMax = Math.cos((options.maxAngleDeg * Math.PI) / 180);
   const maxGapM = options.maxGapM;
   const minT = JUNCTION_TOLERANCE_M / maxGapM;

@@ -21,7 +21,8 @@ import {
 import { boundsOfParts, chooseWorkCrs, projectPositions, type WorkCrs } from '../geometry/work-crs.js';
 import { m3PerDayToM3PerYear } from '../shared/units.js';
 import { lossPerKm, summariseLines, summariseStrip, type LineSummary, type StripSummary } from './aggregate.js';
-import { districtSolve, type DistrictResult, type DistrictTilePiece } from './district.js';
+import { districtSolve, type DistrictInputs, type DistrictResult, type DistrictTilePiece } from './district.js';
+import { smoothingHalfWindowM } from '../geometry/transects.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { castAndSolveFacings, NOT_PAIRED, type FacingResults } from './solve-facings.js';
 import { SOLVE_OK } from '../hydraulics/transect-solver.js';
@@ -168,6 +169,31 @@ export function prepareDistrict(lines: LineRecord[], zones: ZoneRecord[], settin
   return { crs, warnings, geometries, lineLengthsM, zoneIndex, lineTable, stations };
 }
 
+/** What the district solve reads: the lines and zones in the work CRS, and the strips (none in a tile: their figures are taken when gathering). */
+export function districtInputs(
+  lines: LineRecord[],
+  zones: ZoneRecord[],
+  prepared: Pick<PreparedDistrict, 'lineTable' | 'lineLengthsM' | 'zoneIndex'>,
+  strips: readonly StripSummary[],
+  ground: GroundSampler | null,
+): DistrictInputs {
+  return {
+    lines,
+    zones,
+    lineTable: prepared.lineTable,
+    lineLengthsM: prepared.lineLengthsM,
+    zonePolygons: prepared.zoneIndex.polygons,
+    stripRings: strips.map((s) => s.strip.ringM),
+    stripLines: strips.map((s) => [s.strip.lineA, s.strip.lineB] as const),
+    ground,
+  };
+}
+
+/** The district solve's inputs from a finished screening (for a solve again, as benches and tests do). */
+export function districtInputsOfResult(result: ScreenResult): DistrictInputs {
+  return districtInputs(result.lines, result.zones, { lineTable: buildLineTable(result.geometries), lineLengthsM: result.lineLengthsM, zoneIndex: result.zoneIndex }, result.strips, result.ground);
+}
+
 /** Ground from the DEM, in the work CRS; null without a DEM. */
 export function groundOf(crs: WorkCrs, dem: ScreenExtras['dem']): GroundSampler | null {
   return dem ? groundSampler(dem.grid, toDemFrom(crs, dem), dem.pixelM) : null;
@@ -195,10 +221,8 @@ export function solveStations(
   cast: Pick<CastOptions, 'halfWindowM' | 'segmentBox'> = {},
   onProgress: ProgressListener = () => {},
 ): SolvedStations {
-  // the smoothing window of a partner's direction: half the longest station interval of the whole
-  // table, as castTransects takes it, unless a tile gives its district's
-  let halfWindowM = cast.halfWindowM ?? 0;
-  if (cast.halfWindowM === undefined) for (let i = 0; i < stations.count; i++) halfWindowM = Math.max(halfWindowM, stations.lengthM[i] / 2);
+  // the smoothing window of a partner's direction: the whole table's, unless a tile gives its district's
+  const halfWindowM = cast.halfWindowM ?? smoothingHalfWindowM(stations);
   const { facings, results } = castAndSolveFacings(
     lines,
     prepared.lineLengthsM,
@@ -255,7 +279,7 @@ export function screenDistrict(
   } else {
     onProgress('district solve', 0, 1);
     district = districtSolve(
-      { lines, zones, lineTable, lineLengthsM, zonePolygons: zoneIndex.polygons, stripRings: strips.map((s) => s.strip.ringM), stripLines: strips.map((s) => [s.strip.lineA, s.strip.lineB] as const), ground },
+      districtInputs(lines, zones, prepared, strips, ground),
       settings,
       // from the tiles: their bands of the grid, stitched (the figures then say so, with their tolerance)
       { coarseCheck: extras.coarseCheck, pieces: districtPieces ?? undefined },

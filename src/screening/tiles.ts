@@ -5,14 +5,16 @@
 // transects is cast and solved exactly as in a single run. Gathering puts the tiles' columns back
 // in station order and runs the rest of the screening (strips, ranking, district solve, outputs)
 // as one run does, so the gathered outputs are those of a single run, byte for byte.
+import { smoothingHalfWindowM } from '../geometry/transects.js';
 import { checkTile, stationBox, stationSubset, stationsOfTile, tileBands, type TileOfSplit } from '../geometry/tiles.js';
 import type { FacingTable, StationTable } from '../geometry/index.js';
 import type { ScreenSettings } from '../shared/settings.js';
 import { UsageError } from '../shared/errors.js';
+import { SOLVE_OK } from '../hydraulics/transect-solver.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import type { FacingResults } from './facing-columns.js';
 import type { GroundPass } from './ground.js';
-import { groundOf, prepareDistrict, solveStations, type ProgressListener, type ScreenExtras, type SolvedStations } from './screen.js';
+import { districtInputs, groundOf, prepareDistrict, solveStations, type ProgressListener, type ScreenExtras, type SolvedStations } from './screen.js';
 import { districtTilePiece, type DistrictTilePiece } from './district-tiles.js';
 
 export type { TileOfSplit };
@@ -30,6 +32,13 @@ export interface TilePart {
   groundPass: GroundPass | null;
   /** The tile's share of the district solve (its band of the grid, solved over a margin); null with stripsOnly. */
   district: DistrictTilePiece | null;
+}
+
+/** Transect sides of a tile whose strip solution holds. */
+export function tileSolvedSides(part: Pick<TilePart, 'results'>): number {
+  let solved = 0;
+  for (let i = 0; i < part.results.status.length; i++) if (part.results.status[i] === SOLVE_OK) solved++;
+  return solved;
 }
 
 /** The halo around a tile's stations (m): every transect they cast, maxGapM long, lies inside it. */
@@ -52,15 +61,14 @@ export function screenTile(
   const indices = stationsOfTile(whole, tileBands(whole, tile.count), tile);
   const stations = stationSubset(whole, indices);
   // the whole district's window, as castTransects takes it from a whole table
-  let halfWindowM = 0;
-  for (let i = 0; i < whole.count; i++) halfWindowM = Math.max(halfWindowM, whole.lengthM[i] / 2);
+  const halfWindowM = smoothingHalfWindowM(whole);
   const ground = groundOf(prepared.crs, extras.dem);
   const solved = solveStations(lines, zones, prepared, stations, settings, ground, { halfWindowM, segmentBox: stationBox(stations, tileHaloM(settings)) }, onProgress);
   let district: DistrictTilePiece | null = null;
   if (!settings.stripsOnly) {
     onProgress('district solve', 0, 1);
     // the heads need no strips: the strips' district figures are taken when gathering, from the stitched heads
-    const inputs = { lines, zones, lineTable: prepared.lineTable, lineLengthsM: prepared.lineLengthsM, zonePolygons: prepared.zoneIndex.polygons, stripRings: [], stripLines: [], ground };
+    const inputs = districtInputs(lines, zones, prepared, [], ground);
     try {
       district = districtTilePiece(inputs, settings, tile, { coarseCheck: extras.coarseCheck });
     } catch (error) {

@@ -1,5 +1,6 @@
 // Zones digitised in detail: the cross-checks find the same overlaps and holes, with the same
 // messages, whether a zone's outline has 4 vertices or the same shape has 10,000 (issue 14).
+import { densifiedRing } from '../../bench/zone-grid.js';
 import { describe, expect, it } from 'vitest';
 import { crossCheck } from '../../src/screening/cross-checks.js';
 import { checkZones } from '../../src/screening/district-inputs.js';
@@ -17,19 +18,7 @@ const boxAreaM2 = ([lon0, lat0, lon1, lat1]: number[]) => R * R * (lon1 - lon0) 
 
 /** The box as a closed counter-clockwise ring of `vertices` vertices, each side split evenly from its lower-left end. */
 function boxRing([lon0, lat0, lon1, lat1]: number[], vertices: number): number[][] {
-  const corners = [[lon0, lat0], [lon1, lat0], [lon1, lat1], [lon0, lat1]];
-  const perSide = vertices / 4, ring: number[][] = [];
-  for (let s = 0; s < 4; s++) {
-    const a = corners[s], b = corners[(s + 1) % 4];
-    const forward = a[0] < b[0] || (a[0] === b[0] && a[1] < b[1]);
-    const [lo, hi] = forward ? [a, b] : [b, a];
-    for (let i = 0; i < perSide; i++) {
-      const t = (forward ? i : perSide - i) / perSide;
-      ring.push([lo[0] + (hi[0] - lo[0]) * t, lo[1] + (hi[1] - lo[1]) * t]);
-    }
-  }
-  ring.push(ring[0]);
-  return ring;
+  return densifiedRing([[lon0, lat0], [lon1, lat0], [lon1, lat1], [lon0, lat1]], vertices);
 }
 
 const zone = (id: string, box: number[], vertices: number) => ({

@@ -4,7 +4,6 @@
 // The demo is gathered from tiles by test/cli/tiles.test.ts (at a 40 m cell, to keep the suite
 // fast); bench/district-tiles.bench.ts measures a 200-line district at the default cell.
 import { describe, expect, it } from 'vitest';
-import { asLineTable } from '../../src/geometry/lines.js';
 import {
   DISTRICT_TILE_HEAD_TOLERANCE_M,
   DISTRICT_TILE_LOSS_FLOOR_M3_PER_DAY,
@@ -14,22 +13,11 @@ import {
   type DistrictResult,
 } from '../../src/screening/district.js';
 import { districtTilePiece, type DistrictTilePiece } from '../../src/screening/district-tiles.js';
-import type { ScreenResult } from '../../src/screening/screen.js';
+import { districtInputsOfResult } from '../../src/screening/screen.js';
 import { DEFAULT_SETTINGS, type ScreenSettings } from '../../src/shared/settings.js';
 import { box, line, screenLocal } from './local-district.js';
 
-function inputsOf(result: ScreenResult): DistrictInputs {
-  return {
-    lines: result.lines,
-    zones: result.zones,
-    lineTable: asLineTable(result.geometries),
-    lineLengthsM: result.lineLengthsM,
-    zonePolygons: result.zoneIndex.polygons,
-    stripRings: result.strips.map((s) => s.strip.ringM),
-    stripLines: result.strips.map((s) => [s.strip.lineA, s.strip.lineB] as const),
-    ground: null,
-  };
-}
+const inputsOf = districtInputsOfResult;
 
 const pieces = (inputs: DistrictInputs, settings: ScreenSettings, count: number, options: { coarseCheck?: boolean } = {}) =>
   Array.from({ length: count }, (_, i) => districtTilePiece(inputs, settings, { index: i + 1, count }, options));
