@@ -15,13 +15,13 @@ import { readTextFile } from './input/read-text.js';
 import type { OutputFile } from './output/atomic-write.js';
 import { writeAllOrNothing } from './output/atomic-write.js';
 import { roundNumber } from './output/format.js';
-import { linesLayer, linesTable, rankingTable, stripsLayer, transectsLayer, type LayerFormat } from './output/layers.js';
+import { linesLayer, linesTablePieces, rankingTablePieces, stripsLayer, transectsLayer, type LayerFormat } from './output/layers.js';
 import { checkOutputFolder, writeRunFolder } from './output/output-folder.js';
 import { profileFileName, profileTable } from './output/profile-table.js';
 import { districtRasters } from './output/rasters.js';
 import { CAUTION, runRecord } from './output/run-record.js';
 import { orientFromLineA, renderProfileSvg } from './report/profile-svg.js';
-import { renderReport, type ReportMeta } from './report/report.js';
+import { reportPieces, type ReportMeta } from './report/report.js';
 import { keyFacing, profileOfFacing, type Profile } from './screening/profile.js';
 import { checkRunBudget } from './screening/budget.js';
 import { screenDistrict, type ProgressListener, type ScreenExtras, type ScreenResult } from './screening/screen.js';
@@ -192,8 +192,8 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
   const files: OutputFile[] = [
     { name: `strips.${extension}`, content: stripsLayer(result, format) },
     { name: `canals.${extension}`, content: linesLayer(result, format) },
-    { name: 'ranking.csv', content: rankingTable(result) },
-    { name: 'lines.csv', content: linesTable(result) },
+    { name: 'ranking.csv', content: rankingTablePieces(result) },
+    { name: 'lines.csv', content: linesTablePieces(result) },
   ];
   if (result.settings.writeTransects) files.push({ name: `transects.${extension}`, content: transectsLayer(result, format) });
   if (result.district) for (const raster of districtRasters(result.district, result.crs)) files.push({ name: raster.name, content: [raster.content] });
@@ -203,7 +203,7 @@ export function runFiles(result: ScreenResult, options: WriteRunOptions): Output
   }
   files.push({
     name: 'report.html',
-    content: renderReport(result, {
+    content: reportPieces(result, {
       version: VERSION,
       commandLine,
       startedAt,
@@ -421,7 +421,7 @@ export function liningFiles({ outcome, run, planSha256 }: LiningRun, commandLine
     { name: 'lining.geojson', content: liningLayer(outcome) },
     {
       name: 'report.html',
-      content: renderReport(outcome.resultNow, {
+      content: reportPieces(outcome.resultNow, {
         version: VERSION,
         commandLine,
         startedAt,

@@ -7,10 +7,23 @@ import { closeSync, fsyncSync, lstatSync, mkdirSync, openSync, readdirSync, rena
 import { join } from 'node:path';
 import { DataError } from '../shared/errors.js';
 
+/**
+ * A file another library writes itself (a database): built at the temporary path the writer gives,
+ * an empty file made for it, so it is never held in memory whole. It must write nothing beside
+ * that path. Its errors carry a `code` as Node's do, or SQLite's (SQLITE_FULL, SQLITE_IOERR...).
+ */
+export interface BuiltFile {
+  buildAt: (temporaryPath: string) => void;
+}
+
 export interface OutputFile {
   name: string;
   /** The text, or its pieces in order: a layer of a large district is written piece by piece, never held whole. */
-  content: string | Uint8Array | Iterable<string | Uint8Array>;
+  content: string | Uint8Array | Iterable<string | Uint8Array> | BuiltFile;
+}
+
+function isBuiltFile(content: OutputFile['content']): content is BuiltFile {
+  return typeof (content as Partial<BuiltFile>).buildAt === 'function';
 }
 
 // `.<name>.doab-<pid>-<random>.tmp`: the random part keeps a stale file of an earlier run in the same
@@ -53,6 +66,9 @@ function describeCode(code: string): string {
   const known: Record<string, string> = {
     EFBIG: 'a file grew beyond the size the system allows',
     ENOSPC: 'the disk is full',
+    SQLITE_FULL: 'the disk is full, or a file grew beyond the size the system allows',
+    SQLITE_IOERR_WRITE: 'the system refused a write: a full disk, a quota or a file-size limit',
+    SQLITE_IOERR_FSYNC: 'the system could not sync the file to disk',
     EDQUOT: 'the disk quota is used up',
     EACCES: 'no permission',
     EPERM: 'no permission',
@@ -98,7 +114,8 @@ export async function writeAllOrNothing(outDir: string, files: OutputFile[], sta
       const fd = openSync(temporaries[i], 'wx');
       try {
         const content = files[i].content;
-        if (typeof content === 'string' || content instanceof Uint8Array) writeAll(fd, content);
+        if (isBuiltFile(content)) content.buildAt(temporaries[i]);
+        else if (typeof content === 'string' || content instanceof Uint8Array) writeAll(fd, content);
         else {
           let pieces = 0;
           for (const piece of content) {

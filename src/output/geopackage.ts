@@ -1,14 +1,15 @@
 // One OGC GeoPackage 1.3 (OGC 12-128r18) [published] holding a run: the strips, lines and
 // (when asked) transects in the work CRS with an R-tree index each, the ranking as an attributes
 // table, the run record as metadata, and the SLD styles in the layer_styles table desktop GIS reads
-// on opening. Built in memory with better-sqlite3 when the run's atomic writer reaches it, and
-// handed over a megabyte at a time. Same result and options, same bytes.
+// on opening. Built by better-sqlite3 in the run's temporary file when the run's atomic writer
+// reaches it. Same result and options, same bytes.
 import { closedRing, quoteId, WKB_LINESTRING, WKB_MULTILINESTRING, WKB_POLYGON } from './layer-rows.js';
 import Database from 'better-sqlite3';
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import type { ScreenResult } from '../screening/screen.js';
+import type { BuiltFile } from './atomic-write.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
 import { doabLineFields, lineRows, rankingRow, RANKING_COLUMNS, stripProperties, transectRows, transectSides } from './layers.js';
 import { linesSld, stripsSld, type LinesLook, type StripsLook } from './sld.js';
@@ -350,31 +351,28 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
   db.pragma(`user_version = ${GPKG_USER_VERSION}`);
 }
 
-// pieces of the file as the writer takes them
-const PIECE_BYTES = 1 << 20;
+// SQLite's page cache while building (KiB, as a negative cache_size) [from memory: SQLite PRAGMA
+// cache_size]: enough for the R-trees' pages, far less than the file of a large district
+const CACHE_KIB = 32 * 1024;
 
 /**
- * The run as one GeoPackage file, in pieces of a megabyte, built in memory when the pieces are
- * first asked for: not before the run's atomic writer reaches it, so the file is not held beside
- * the other outputs, and a full disk or a size limit is met by that writer. Each iteration builds
- * it again.
+ * The run as one GeoPackage file, built by SQLite straight into the temporary file the run's atomic
+ * writer gives it (src/output/atomic-write.ts), when that writer reaches it: never held in memory
+ * whole, and a full disk or a size limit is met by that writer. No journal (the file is new and is
+ * only renamed into place once whole), so nothing is written beside it.
  */
-export function geopackageFile(result: ScreenResult, options: GeoPackageOptions): Iterable<Uint8Array> {
-  return {
-    *[Symbol.iterator]() {
-      const bytes = geopackageBytes(result, options);
-      for (let at = 0; at < bytes.length; at += PIECE_BYTES) yield bytes.subarray(at, at + PIECE_BYTES);
-    },
-  };
+export function geopackageFile(result: ScreenResult, options: GeoPackageOptions): BuiltFile {
+  return { buildAt: (path) => writeGeopackage(path, result, options) };
 }
 
-/** The run as one GeoPackage file's bytes, built in memory (no temporary file). */
-export function geopackageBytes(result: ScreenResult, options: GeoPackageOptions): Uint8Array {
-  const db = new Database(':memory:');
+/** Builds the run's GeoPackage in the file at `path`, which must be new and empty. */
+export function writeGeopackage(path: string, result: ScreenResult, options: GeoPackageOptions): void {
+  const db = new Database(path);
   try {
+    db.pragma('journal_mode = OFF');
+    db.pragma('locking_mode = EXCLUSIVE');
+    db.pragma(`cache_size = -${CACHE_KIB}`);
     db.transaction(() => fill(db, result, options))();
-    // SQLite's copy; its own pages go with the database
-    return db.serialize();
   } finally {
     db.close();
   }

@@ -72,7 +72,12 @@ export function propertiesAsWritten(properties: Record<string, unknown>, real: R
   return JSON.parse(`{${propertiesJson(properties, real)}}`) as Record<string, unknown>;
 }
 
-/** The layer's text in pieces of about a megabyte, one feature built at a time, so no layer is ever one string. */
+// a piece's length in characters: small enough that a piece and the features it joins die young (a
+// megabyte's worth of features outlived the young generation, and the old one grew by a layer's size
+// at a million stations before a full collection took it back)
+const PIECE_CHARS = 1 << 16;
+
+/** The layer's text in pieces of about 64 KiB, one feature built at a time, so no layer is ever one string. */
 export function* featureCollection(features: Iterable<LayerFeature>, format: LayerFormat, real: RealFields = 'all'): Generator<string> {
   let piece = format === 'sequence' ? '' : '{"type":"FeatureCollection","features":[';
   let first = true;
@@ -80,7 +85,7 @@ export function* featureCollection(features: Iterable<LayerFeature>, format: Lay
     const json = featureJson(feature, real);
     piece += format === 'sequence' ? `\u001e${json}\n` : `${first ? '\n' : ',\n'}${json}`;
     first = false;
-    if (piece.length > 1 << 20) {
+    if (piece.length > PIECE_CHARS) {
       yield piece;
       piece = '';
     }
@@ -319,11 +324,28 @@ export function rankingRow(strip: StripSummary, rank: number): Record<(typeof RA
 }
 
 export function rankingTable(result: ScreenResult): string {
-  const rows = result.strips.map((strip, i) => {
-    const row = rankingRow(strip, i + 1);
-    return RANKING_COLUMNS.map((column) => neutraliseCell(row[column] ?? ''));
-  });
-  return stringify([[...RANKING_COLUMNS], ...rows], { record_delimiter: 'unix' });
+  return layerText(rankingTablePieces(result));
+}
+
+/** ranking.csv in pieces of some rows, each row built only when its piece is asked for. */
+export function* rankingTablePieces(result: ScreenResult): Generator<string> {
+  yield* csvPieces(RANKING_COLUMNS, result.strips.length, (i) => rankingRow(result.strips[i], i + 1));
+}
+
+// rows per piece of a CSV table: its cells die young, as a layer's features do
+const CSV_PIECE_ROWS = 500;
+
+/** A CSV table a few hundred rows at a time: the header, then row(i) for i < count, cells neutralised. */
+function* csvPieces(columns: readonly string[], count: number, row: (i: number) => Record<string, unknown>): Generator<string> {
+  yield stringify([[...columns]], { record_delimiter: 'unix' });
+  for (let from = 0; from < count; from += CSV_PIECE_ROWS) {
+    const rows: unknown[][] = [];
+    for (let i = from; i < Math.min(count, from + CSV_PIECE_ROWS); i++) {
+      const cells = row(i);
+      rows.push(columns.map((column) => neutraliseCell(cells[column] ?? '')));
+    }
+    yield stringify(rows, { record_delimiter: 'unix' });
+  }
 }
 
 export const LINE_TABLE_COLUMNS = [
@@ -372,9 +394,11 @@ export function lineTableRow(result: ScreenResult, i: number, rank: number): Rec
 
 /** lines.csv: one row per line, ranked by net loss per km; the report's line table shows the same rows. */
 export function linesTable(result: ScreenResult): string {
-  const rows = rankedLines(result).map((i, rank) => {
-    const row = lineTableRow(result, i, rank);
-    return LINE_TABLE_COLUMNS.map((column) => neutraliseCell(row[column] ?? ''));
-  });
-  return stringify([[...LINE_TABLE_COLUMNS], ...rows], { record_delimiter: 'unix' });
+  return layerText(linesTablePieces(result));
+}
+
+/** lines.csv in pieces of some rows, ranked by loss per km. */
+export function* linesTablePieces(result: ScreenResult): Generator<string> {
+  const ranked = rankedLines(result);
+  yield* csvPieces(LINE_TABLE_COLUMNS, ranked.length, (rank) => lineTableRow(result, ranked[rank], rank));
 }

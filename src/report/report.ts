@@ -226,7 +226,11 @@ function rankingHeadings(result: ScreenResult): Record<(typeof RANKING_COLUMNS)[
   };
 }
 
-function rankingSection(result: ScreenResult, rowsShown: number): string {
+// rows of a long table per piece of the report: a piece's strings die young
+const TABLE_PIECE_ROWS = 500;
+
+/** The ranked strips' table, a few hundred rows per piece. */
+function* rankingSection(result: ScreenResult, rowsShown: number): Generator<string> {
   const headings = rankingHeadings(result);
   const head = RANKING_COLUMNS.map((column) => {
     const { words, unit } = headings[column];
@@ -235,27 +239,34 @@ function rankingSection(result: ScreenResult, rowsShown: number): string {
       `<button type="button">${escapeHtml(unit ? `${words} (${unit})` : words)}</button></th>`
     );
   }).join('');
-  const rows = result.strips.map((strip, i) => {
-    const row = rankingRow(strip, i + 1);
+  const row = (i: number) => {
+    const cellsOf = rankingRow(result.strips[i], i + 1);
     // end tags of td are optional in HTML, and the style sheet aligns numbers by column: both
     // keep a 10,000-row table smaller
     const cells = RANKING_COLUMNS.map((column) => {
-      const value = row[column];
+      const value = cellsOf[column];
       return `<td>${value === null || value === undefined || value === '' ? '' : escapeHtml(headings[column].show(value))}`;
     }).join('');
     return `<tr class="rank-row">${cells}</tr>`;
-  });
-  const capped = rows.length > rowsShown;
+  };
+  const count = result.strips.length;
+  const capped = count > rowsShown;
   const cap = capped
-    ? `<p class="table-cap">Showing the first ${formatGrouped(rowsShown)} of ${formatGrouped(rows.length)} rows in the current order. ` +
-      `<button type="button" id="show-all-rows">Show all ${formatGrouped(rows.length)} rows</button></p>`
+    ? `<p class="table-cap">Showing the first ${formatGrouped(rowsShown)} of ${formatGrouped(count)} rows in the current order. ` +
+      `<button type="button" id="show-all-rows">Show all ${formatGrouped(count)} rows</button></p>`
     : '';
-  return (
+  yield (
     `<section id="ranking"><h2>Ranked strips</h2><p class="run-line">The rows and columns of ranking.csv, ranked by ` +
     `${result.settings.rankBy === 'loss' ? 'loss per km' : 'smallest depth'}, with numbers rounded for reading (ranking.csv keeps six digits). Click a column header to sort.</p>${cap}` +
     `<div class="table-wrap"><table id="ranking-table" class="ranking${capped ? ' is-capped' : ''}"><thead><tr>${head}</tr></thead>` +
-    `<tbody>\n${rows.join('\n')}\n</tbody></table></div></section>`
+    `<tbody>\n`
   );
+  for (let from = 0; from < count; from += TABLE_PIECE_ROWS) {
+    let piece = '';
+    for (let i = from; i < Math.min(count, from + TABLE_PIECE_ROWS); i++) piece += `${i > 0 ? '\n' : ''}${row(i)}`;
+    yield piece;
+  }
+  yield `\n</tbody></table></div></section>`;
 }
 
 // the line table's columns as a reader wants them: words with units, numbers rounded for reading (lines.csv keeps six digits)
@@ -334,20 +345,40 @@ function runSection(result: ScreenResult, meta: ReportMeta): string {
  * renderReport(screenDistrict(lines, zones, DEFAULT_SETTINGS), { version: '0.1.0', commandLine: ['doab', 'screen'], inputs: [] })
  */
 export function renderReport(result: ScreenResult, meta: ReportMeta): string {
+  let html = '';
+  for (const piece of reportPieces(result, meta)) html += piece;
+  return html;
+}
+
+/**
+ * The report's text a section at a time, each built only when asked for: a run's writer takes
+ * them in turn, so a large district's sections are never all held (and never built before the
+ * writer reaches the report). The same text as renderReport.
+ */
+export function* reportPieces(result: ScreenResult, meta: ReportMeta): Generator<string> {
   const top = meta.topProfiles ?? 10;
   if (!Number.isInteger(top) || top < 0) throw new Error(`Unexpected topProfiles value: ${top}.`);
   const rowsShown = meta.rowsShown ?? 1000;
   if (!Number.isInteger(rowsShown) || rowsShown < 1) throw new Error(`Unexpected rowsShown value: ${rowsShown}.`);
   const capRule = `#ranking-table.is-capped tbody tr:nth-child(n+${rowsShown + 1}){display:none}`;
   const csp = "default-src 'none'; style-src 'unsafe-inline'; script-src 'unsafe-inline'; img-src data:";
-  return (
+  yield (
     `<!DOCTYPE html>\n<html lang="en"><head><meta charset="utf-8">` +
     `<meta http-equiv="Content-Security-Policy" content="${csp}">` +
     `<meta name="viewport" content="width=device-width, initial-scale=1">` +
     `<title>doab screening report: ${result.counts.strips} strips</title><style>${PAGE_CSS}${capRule}\n</style></head>\n<body><main>` +
     `<header><h1>${result.settings.title ? `${escapeHtml(result.settings.title)}: ` : ''}doab screening report</h1><p class="run-line">${meta.startedAt ? `run ${escapeHtml(meta.startedAt.replace('T', ' ').replace(/\.\d+Z$/, ' UTC'))}; ` : ''}${result.counts.lines} lines, ${result.counts.strips} strips, ` +
-    `work CRS ${escapeHtml(result.crs.name)}; doab ${escapeHtml(meta.version)}</p></header>\n` +
-    `${cautionSection()}\n${summarySection(result, meta.inputWarnings ?? [])}\n${meta.lining ? `${liningSection(meta.lining)}\n` : ''}${mapSection(result)}\n${meta.wells ? `${wellsSection(result, meta.wells)}\n` : ''}${meta.spread ? `${spreadSection(meta.spread)}\n` : ''}${profilesSection(result, top)}\n` +
-    `${linesSection(result)}\n${rankingSection(result, rowsShown)}\n${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`
+    `work CRS ${escapeHtml(result.crs.name)}; doab ${escapeHtml(meta.version)}</p></header>\n`
   );
+  yield `${cautionSection()}\n`;
+  yield `${summarySection(result, meta.inputWarnings ?? [])}\n`;
+  if (meta.lining) yield `${liningSection(meta.lining)}\n`;
+  yield `${mapSection(result)}\n`;
+  if (meta.wells) yield `${wellsSection(result, meta.wells)}\n`;
+  if (meta.spread) yield `${spreadSection(meta.spread)}\n`;
+  yield `${profilesSection(result, top)}\n`;
+  yield `${linesSection(result)}\n`;
+  yield* rankingSection(result, rowsShown);
+  yield '\n';
+  yield `${runSection(result, meta)}\n</main>\n<script>${PAGE_SCRIPT}</script>\n</body></html>\n`;
 }

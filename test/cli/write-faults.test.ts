@@ -3,7 +3,7 @@
 // layer short (ulimit -f, as a full disk would), and SIGTERM/SIGINT in the middle of the writes. In
 // both, nothing half-written is left behind and the earlier complete outputs stay as they were.
 import { spawn, spawnSync } from 'node:child_process';
-import { existsSync, readdirSync } from 'node:fs';
+import { existsSync, readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { freshDir, hashTree, ROOT } from './run-cli.js';
@@ -23,6 +23,25 @@ describe('a write cut short by a file-size limit', () => {
     expect(limited.status, limited.stderr).toBe(1);
     expect(limited.stderr).toMatch(/cannot write the outputs \(EFBIG: a file grew beyond the size the system allows\); nothing was written, earlier outputs are as they were/);
     expect(temporaries(out)).toEqual([]);
+    expect(hashTree(out)).toEqual(before);
+  });
+});
+
+describe('a GeoPackage cut short by a file-size limit', () => {
+  it('fails with exit 1 naming the cause, and leaves no temporary or journal file behind', () => {
+    const out = join(freshDir('fsize-gpkg'), 'out');
+    // bash's ulimit -f counts 1024-byte blocks [from memory: bash manual, ulimit]: 150 KiB is more
+    // than the report (about 116 kB) and less than the GeoPackage (about 176 kB) of this run; the
+    // sizes are checked first, so the limit falls on the GeoPackage, which SQLite writes itself
+    const first = spawnSync(process.execPath, [BIN, 'screen', ...DEMO, '--out', out, '--quiet', '--strips-only'], { encoding: 'utf8' });
+    expect(first.status, first.stderr).toBe(0);
+    const sizes = readdirSync(out).map((name) => ({ name, bytes: statSync(join(out, name)).size }));
+    expect(sizes.filter((file) => file.bytes >= 150 * 1024).map((file) => file.name)).toEqual(['doab.gpkg']);
+    const before = hashTree(out);
+    const limited = spawnSync('bash', ['-c', 'ulimit -f 150; exec "$0" "$@"', process.execPath, BIN, 'screen', ...DEMO, '--out', out, '--quiet', '--strips-only'], { encoding: 'utf8' });
+    expect(limited.status, limited.stderr).toBe(1);
+    expect(limited.stderr).toMatch(/cannot write the outputs \(SQLITE_IOERR_WRITE: the system refused a write: a full disk, a quota or a file-size limit\); nothing was written/);
+    expect(readdirSync(out).filter((name) => name.startsWith('.'))).toEqual([]);
     expect(hashTree(out)).toEqual(before);
   });
 });
