@@ -282,21 +282,44 @@ function lineLabels(result: ScreenResult, view: MapView): string {
 }
 
 export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}): DistrictMap {
+  const drawing = districtMapPieces(result, options);
+  let svg = '';
+  for (const piece of drawing.svg) svg += piece;
+  return { svg, key: drawing.key };
+}
+
+// shapes per piece of the map's SVG: a piece's strings die young
+const SHAPES_PER_PIECE = 500;
+
+/** item(0) ... item(count - 1) joined by newlines, a few hundred per piece. */
+function* joinedInPieces(count: number, item: (k: number) => string): Generator<string> {
+  for (let from = 0; from < count; from += SHAPES_PER_PIECE) {
+    let piece = '';
+    for (let k = from; k < Math.min(count, from + SHAPES_PER_PIECE); k++) piece += `${k > 0 ? '\n' : ''}${item(k)}`;
+    yield piece;
+  }
+}
+
+/**
+ * The district map's SVG a few hundred shapes at a time, each piece drawn only when asked for (the
+ * report's writer takes them in turn), and its key: the same text as renderDistrictMap.
+ */
+export function districtMapPieces(result: ScreenResult, options: MapOptions = {}): { svg: Generator<string>; key: string } {
   const widthPx = options.widthPx ?? 1000;
   const minStepPx = options.minStepPx ?? 1;
   const linesM = result.geometries.map((geometry) => geometry.parts);
   const view = fitView(boundsOf(linesM, result.strips, result.district?.grid ?? null), widthPx, PAD_PX, options.maxHeightPx ?? 1000, BAND_PX);
-
-  const strips = result.strips
-    .map(
-      (strip) =>
-        // no <title> per strip: the page's script shows the strip's row of the table on hover,
-        // which keeps a 10,000-strip map from carrying every figure twice
-        `<path class="strip-shape risk-${stripClass(strip)}" data-strip-id="${escapeHtml(strip.stripId)}" d="${pathData(view, strip.strip.ringM, minStepPx, true)}"/>`,
-    )
-    .join('\n');
-
   const widths = lineWidths(result, view);
+  return { svg: mapSvgPieces(result, view, linesM, widths, minStepPx), key: mapKey(result, widths) };
+}
+
+function* mapSvgPieces(result: ScreenResult, view: MapView, linesM: Float64Array[][], widths: LineWidths, minStepPx: number): Generator<string> {
+  // no <title> per strip: the page's script shows the strip's row of the table on hover, which
+  // keeps a 10,000-strip map from carrying every figure twice
+  const drawStrip = (k: number) => {
+    const strip = result.strips[k];
+    return `<path class="strip-shape risk-${stripClass(strip)}" data-strip-id="${escapeHtml(strip.stripId)}" d="${pathData(view, strip.strip.ringM, minStepPx, true)}"/>`;
+  };
   const drawLine = (i: number) => {
     const line = result.lines[i];
     const lossPerKm = lineLossPerKm(result, i);
@@ -310,27 +333,29 @@ export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}
   };
   const indices = result.lines.map((_, i) => i);
   // drains under canals, and among canals the widest on top
-  const drains = indices.filter((i) => result.lines[i].kind === 'drain').map(drawLine).join('\n');
+  const drains = indices.filter((i) => result.lines[i].kind === 'drain');
   const canals = indices
     .filter((i) => result.lines[i].kind === 'canal')
-    .sort((a, b) => (lineLossPerKm(result, a) ?? 0) - (lineLossPerKm(result, b) ?? 0) || a - b)
-    .map(drawLine)
-    .join('\n');
-  const unpaired = unpairedPathData(result, view, minStepPx);
-  const raster = depthRaster(result, view);
+    .sort((a, b) => (lineLossPerKm(result, a) ?? 0) - (lineLossPerKm(result, b) ?? 0) || a - b);
 
-  const svg =
+  yield (
     `<svg xmlns="http://www.w3.org/2000/svg" class="district-map" viewBox="0 0 ${view.widthPx} ${view.heightPx}" ` +
     `width="${view.widthPx}" height="${view.heightPx}" role="img" aria-label="Map of strips by risk class and lines by loss per km, grid north up">` +
     `<defs>${stripPatternDefs()}</defs>` +
-    `<rect class="map-frame" x="0.5" y="0.5" width="${view.widthPx - 1}" height="${view.heightPx - 1}"/>\n` +
-    raster +
-    zoneLayer(result, view, minStepPx) +
-    `<g class="map-strips${result.district ? ' over-raster' : ''}">\n${strips}\n</g>\n` +
-    (unpaired ? `<path class="map-unpaired" stroke-width="${Math.round(widths.unpairedPx * 10) / 10}" d="${unpaired}"><title>unpaired reaches: neither side faces a partner line</title></path>\n` : '') +
-    `<g class="map-lines">\n${drains}\n${canals}\n</g>\n` +
-    lineLabels(result, view) +
-    `${scaleBar(view)}${northArrow(view)}</svg>`;
-  return { svg, key: mapKey(result, widths) };
+    `<rect class="map-frame" x="0.5" y="0.5" width="${view.widthPx - 1}" height="${view.heightPx - 1}"/>\n`
+  );
+  yield depthRaster(result, view);
+  yield zoneLayer(result, view, minStepPx);
+  yield `<g class="map-strips${result.district ? ' over-raster' : ''}">\n`;
+  yield* joinedInPieces(result.strips.length, drawStrip);
+  yield '\n</g>\n';
+  const unpaired = unpairedPathData(result, view, minStepPx);
+  if (unpaired) yield `<path class="map-unpaired" stroke-width="${Math.round(widths.unpairedPx * 10) / 10}" d="${unpaired}"><title>unpaired reaches: neither side faces a partner line</title></path>\n`;
+  yield '<g class="map-lines">\n';
+  yield* joinedInPieces(drains.length, (k) => drawLine(drains[k]));
+  yield '\n';
+  yield* joinedInPieces(canals.length, (k) => drawLine(canals[k]));
+  yield '\n</g>\n';
+  yield lineLabels(result, view);
+  yield `${scaleBar(view)}${northArrow(view)}</svg>`;
 }
-

@@ -16,7 +16,7 @@ import type { ScreenResult } from '../screening/screen.js';
 import type { InputRules } from '../shared/input-rules.js';
 import { escapeHtml } from './escape.js';
 import { formatFixed, formatGrouped } from '../output/format.js';
-import { renderDistrictMap } from './map-svg.js';
+import { districtMapPieces } from './map-svg.js';
 import { columnKind, PAGE_CSS, PAGE_SCRIPT } from './page-assets.js';
 import { STRIP_CLASSES, STRIP_STYLES, patternId } from './palette.js';
 import { orientFromLineA, renderProfileSvg } from './profile-svg.js';
@@ -155,13 +155,14 @@ function cautionSection(): string {
   );
 }
 
-function mapSection(result: ScreenResult): string {
-  const map = renderDistrictMap(result);
-  return (
+function* mapSection(result: ScreenResult): Generator<string> {
+  const map = districtMapPieces(result);
+  yield (
     `<section id="map"><h2>Map</h2><p class="run-line">Work CRS ${escapeHtml(result.crs.name)}, grid north up. ` +
-    `Hover over a strip for its figures.</p><div class="map-panel">${map.svg}${map.key}</div>` +
-    `<div id="map-tip" class="map-tip" role="tooltip"></div></section>`
+    `Hover over a strip for its figures.</p><div class="map-panel">`
   );
+  yield* map.svg;
+  yield `${map.key}</div><div id="map-tip" class="map-tip" role="tooltip"></div></section>`;
 }
 
 function profilesSection(result: ScreenResult, top: number): string {
@@ -373,7 +374,8 @@ export function* reportPieces(result: ScreenResult, meta: ReportMeta): Generator
   yield `${cautionSection()}\n`;
   yield `${summarySection(result, meta.inputWarnings ?? [])}\n`;
   if (meta.lining) yield `${liningSection(meta.lining)}\n`;
-  yield `${mapSection(result)}\n`;
+  yield* mapSection(result);
+  yield '\n';
   if (meta.wells) yield `${wellsSection(result, meta.wells)}\n`;
   if (meta.spread) yield `${spreadSection(meta.spread)}\n`;
   yield `${profilesSection(result, top)}\n`;
