@@ -141,12 +141,13 @@ export function chooseWorkCrs(
   return { crs, warnings };
 }
 
-/** [west, south, east, north] of lines given as parts of lon/lat positions. */
-export function boundsOfParts(lines: readonly (readonly (readonly number[])[])[][]): [number, number, number, number] {
+/** [west, south, east, north] of lines given as parts of interleaved lon/lat (lon0, lat0, lon1, lat1, ...). */
+export function boundsOfParts(lines: readonly (readonly Float64Array[])[]): [number, number, number, number] {
   let w = Infinity, s = Infinity, e = -Infinity, n = -Infinity;
   for (const parts of lines) {
     for (const part of parts) {
-      for (const [lon, lat] of part) {
+      for (let i = 0; i < part.length; i += 2) {
+        const lon = part[i], lat = part[i + 1];
         if (lon < w) w = lon;
         if (lon > e) e = lon;
         if (lat < s) s = lat;
@@ -157,13 +158,17 @@ export function boundsOfParts(lines: readonly (readonly (readonly number[])[])[]
   return [w, s, e, n];
 }
 
-/** Positions in lon/lat to interleaved x,y in the work CRS. */
-export function projectPositions(crs: WorkCrs, positions: readonly (readonly number[])[]): Float64Array {
-  const out = new Float64Array(positions.length * 2);
-  positions.forEach((position, i) => {
-    const [x, y] = crs.forward([position[0], position[1]]);
-    out[2 * i] = x;
-    out[2 * i + 1] = y;
-  });
+/**
+ * Positions in lon/lat, as [lon, lat] pairs or interleaved (lon0, lat0, lon1, lat1, ...), to
+ * interleaved x,y in the work CRS.
+ */
+export function projectPositions(crs: WorkCrs, positions: readonly (readonly number[])[] | Float64Array): Float64Array {
+  const interleaved = positions instanceof Float64Array;
+  const out = new Float64Array(interleaved ? positions.length : positions.length * 2);
+  for (let i = 0; i < out.length; i += 2) {
+    const [x, y] = crs.forward(interleaved ? [positions[i], positions[i + 1]] : [positions[i / 2][0], positions[i / 2][1]]);
+    out[i] = x;
+    out[i + 1] = y;
+  }
   return out;
 }

@@ -71,13 +71,16 @@ export async function loadDistrict(canalsPath: string, aquiferPath: string, conf
  * Whether positions wrapped at longitude 180 lie on both sides of it: the span of longitudes is
  * shorter going across 180 than going round the other way. Gives the western and eastern edges.
  */
-export function straddlesAntimeridian(parts: readonly (readonly (readonly number[])[])[]): { west: number; east: number } | null {
+export function straddlesAntimeridian(parts: readonly ((readonly (readonly number[])[]) | Float64Array)[]): { west: number; east: number } | null {
   let westOfDateLine = Infinity, eastMost = -Infinity, westMost = Infinity, eastOfDateLine = -Infinity;
+  const see = (lon: number) => {
+    if (lon >= 0) { westOfDateLine = Math.min(westOfDateLine, lon); eastMost = Math.max(eastMost, lon); }
+    else { westMost = Math.min(westMost, lon); eastOfDateLine = Math.max(eastOfDateLine, lon); }
+  };
   for (const part of parts) {
-    for (const [lon] of part) {
-      if (lon >= 0) { westOfDateLine = Math.min(westOfDateLine, lon); eastMost = Math.max(eastMost, lon); }
-      else { westMost = Math.min(westMost, lon); eastOfDateLine = Math.max(eastOfDateLine, lon); }
-    }
+    // a line's part is interleaved (lon0, lat0, lon1, lat1, ...), a zone's ring a list of [lon, lat]
+    if (part instanceof Float64Array) for (let i = 0; i < part.length; i += 2) see(part[i]);
+    else for (const [lon] of part) see(lon);
   }
   if (!Number.isFinite(westOfDateLine) || !Number.isFinite(westMost)) return null;
   const spanAround = eastMost - westMost;

@@ -209,7 +209,7 @@ export function linesLayer(result: ScreenResult, format: LayerFormat = 'collecti
 function* lineFeatures(result: ScreenResult): Generator<LayerFeature> {
   for (let i = 0; i < result.lines.length; i++) {
     const line = result.lines[i];
-    const parts = line.partsLonLat.map((part) => part.map(([lon, lat]) => [roundDegrees(lon), roundDegrees(lat)]));
+    const parts = line.partsLonLat.map((part) => Array.from({ length: part.length / 2 }, (_, j) => [roundDegrees(part[2 * j]), roundDegrees(part[2 * j + 1])]));
     // one geometry type for the whole layer, so a GIS sees a line layer, not "any"
     yield { type: 'Feature', properties: lineProperties(line, result.lineSummaries[i], result.lineFigures[i]), geometry: { type: 'MultiLineString', coordinates: parts } };
   }

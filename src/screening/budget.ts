@@ -8,11 +8,11 @@ import type { LineRecord } from './district-inputs.js';
 // mean Earth radius, IUGG [from memory]; an estimate for a budget needs no better
 const EARTH_RADIUS_M = 6_371_008.8;
 
-/** Length of a lon/lat polyline (m), by the haversine formula: a budget's estimate, not a measure. */
-function roughLengthM(part: number[][]): number {
+/** Length of a lon/lat polyline, interleaved (lon0, lat0, lon1, lat1, ...), in m by the haversine formula: a budget's estimate, not a measure. */
+function roughLengthM(part: Float64Array): number {
   let sum = 0;
-  for (let i = 1; i < part.length; i++) {
-    const [lon1, lat1] = part[i - 1], [lon2, lat2] = part[i];
+  for (let i = 2; i < part.length; i += 2) {
+    const lon1 = part[i - 2], lat1 = part[i - 1], lon2 = part[i], lat2 = part[i + 1];
     const p1 = (lat1 * Math.PI) / 180, p2 = (lat2 * Math.PI) / 180;
     const dp = p2 - p1, dl = ((lon2 - lon1) * Math.PI) / 180;
     const a = Math.sin(dp / 2) ** 2 + Math.cos(p1) * Math.cos(p2) * Math.sin(dl / 2) ** 2;

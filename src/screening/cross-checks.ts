@@ -74,12 +74,13 @@ export function crossCheck(
     const lengthM = table.chainageM[table.chainageM.length - 1];
     let vertex = 0, reported = false, warned = false, inside = false;
     for (const part of line.partsLonLat) {
-      part.forEach((position) => {
+      for (let p = 0; p < part.length; p += 2) {
         const chainageM = table.chainageM[vertex++];
-        if (reported) return;
+        if (reported) continue;
         const stageM = stageAtChainage(line, chainageM, lengthM);
-        for (const z of index.search(position[0], position[1], position[0], position[1])) {
-          if (!pointInOutline(outlines[z], position[0], position[1])) continue;
+        const lon = part[p], lat = part[p + 1];
+        for (const z of index.search(lon, lat, lon, lat)) {
+          if (!pointInOutline(outlines[z], lon, lat)) continue;
           inside = true;
           const zone = zones[z];
           const place = { file: files.lines, featureIndex: line.index, featureId: line.id, field: line.stageField };
@@ -93,7 +94,7 @@ export function crossCheck(
           }
           break;
         }
-      });
+      }
     }
     if (!inside) outside.push(line.id);
   });

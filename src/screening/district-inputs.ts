@@ -37,8 +37,8 @@ export interface LineRecord {
    * fromM and not overlapping; chainage in metres along the line in the work CRS, as everywhere.
    */
   lined?: readonly LinedRange[];
-  /** Parts in lon/lat: one per LineString part. */
-  partsLonLat: number[][][];
+  /** Parts in lon/lat, one per LineString part: its positions interleaved, lon0, lat0, lon1, lat1, ... */
+  partsLonLat: Float64Array[];
   /** The feature's own attributes, copied into a prototype-free object. */
   properties: Record<string, unknown>;
 }
@@ -156,7 +156,8 @@ function numberField(view: FeatureView, field: string, fallback?: number): numbe
   return value;
 }
 
-function checkPosition(position: unknown): number[] {
+/** Checks a position: a list whose first two entries are a finite longitude and latitude. */
+function checkPosition(position: unknown): asserts position is readonly number[] {
   if (!Array.isArray(position) || position.length < 2) throw new FeatureProblem('geometry', `a position is not a list of at least two numbers: ${showPosition(position)}`);
   const [lon, lat] = position as unknown[];
   if (typeof lon !== 'number' || typeof lat !== 'number' || !Number.isFinite(lon) || !Number.isFinite(lat)) {
@@ -169,7 +170,6 @@ function checkPosition(position: unknown): number[] {
         'add the .prj, a "crs" member, or give --input-crs EPSG:<code>',
     );
   }
-  return [lon, lat];
 }
 
 /** The parts of a single or multi geometry of the expected kind: [coordinates] or the list. */
@@ -184,11 +184,18 @@ function geometryParts(view: FeatureView, single: string, multi: string, empty: 
   return raw;
 }
 
-function lineParts(view: FeatureView): number[][][] {
+/** The line's parts, each its positions' lon/lat interleaved in one array (lon0, lat0, lon1, lat1, ...). */
+function lineParts(view: FeatureView): Float64Array[] {
   const raw = geometryParts(view, 'LineString', 'MultiLineString', 'no positions');
   return raw.map((part) => {
     if (!Array.isArray(part) || part.length < 2) throw new FeatureProblem('geometry', 'a line part has fewer than two positions');
-    return part.map(checkPosition);
+    const lonLat = new Float64Array(2 * part.length);
+    part.forEach((position: unknown, i) => {
+      checkPosition(position);
+      lonLat[2 * i] = position[0];
+      lonLat[2 * i + 1] = position[1];
+    });
+    return lonLat;
   });
 }
 
@@ -198,7 +205,10 @@ function polygonList(view: FeatureView): number[][][][] {
     if (!Array.isArray(polygon) || polygon.length === 0) throw new FeatureProblem('geometry', `polygon ${p} has no rings`);
     const rings = polygon.map((ring) => {
       if (!Array.isArray(ring) || ring.length < 4) throw new FeatureProblem('geometry', 'a polygon ring has fewer than four positions');
-      const positions = ring.map(checkPosition);
+      const positions = ring.map((position: unknown) => {
+        checkPosition(position);
+        return [position[0], position[1]];
+      });
       const first = positions[0], last = positions[positions.length - 1];
       if (first[0] !== last[0] || first[1] !== last[1]) {
         throw new FeatureProblem('geometry', `a polygon ring is not closed: it starts at ${JSON.stringify(first)} and ends at ${JSON.stringify(last)}`);
@@ -470,7 +480,8 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
     });
     const bed = attempt(() => lineBed(view, f, rules, toM, attempt));
     const partsLonLat = attempt(() => lineParts(view));
-    if (partsLonLat && partsLonLat.every((part) => part.every(([lon, lat]) => lon === part[0][0] && lat === part[0][1]))) {
+    // every longitude equal to the first one, every latitude to the first latitude
+    if (partsLonLat && partsLonLat.every((part) => part.every((value, i) => value === part[i & 1]))) {
       warn('geometry', 'the line has no length (all its positions are the same point): it gets no stations');
     }
     const name = view.properties[f.name];
@@ -488,7 +499,7 @@ export function checkLines(file: string, features: unknown[], rules: InputRules)
       wettedPerimeterM: bed?.perimeterM as number,
       wettedPerimeterFrom: bed?.perimeterFrom as LineRecord['wettedPerimeterFrom'],
       waterDepthM: bed?.depthM as number,
-      partsLonLat: partsLonLat as number[][][],
+      partsLonLat: partsLonLat as Float64Array[],
       properties: view.properties,
     };
   });
