@@ -1,5 +1,5 @@
 // A transect-solve worker (started by facing-workers.ts): builds the zone index once from the
-// zone polygons, then casts (when asked, against the lines in shared memory) and solves each chunk
+// zone polygons, then casts (when asked, against the lines and their index in shared memory) and solves each chunk
 // it is sent with the same code as the main thread, and posts the results back, their buffers
 // transferred. Modules are imported inside the try, so that a failure
 // to load is reported to the waiting thread rather than lost.
@@ -18,12 +18,12 @@ try {
   const { buildZoneIndex } = await import('../geometry/index.js');
   const { solveFacingRange } = await import('./solve-facings.js');
   const { workOnChunk } = await import('./facing-workers.js');
-  const { castIndex } = await import('../geometry/transects.js');
+  const { castIndexOf } = await import('../geometry/transects.js');
   const context = { lines: data.lines, lineLengthsM: data.lineLengthsM, zones: data.zones, zoneIndex: buildZoneIndex(data.zonePolygons), settings: data.settings };
-  // the segments are indexed once, when the first chunk to cast comes
+  // the segments' index is the one the main thread built, in shared memory, opened when the first chunk to cast comes
   const cast = data.cast;
-  let index: ReturnType<typeof castIndex> | null = null;
-  const castWith = cast ? { ...cast, index: () => (index ??= castIndex(cast.lineTable)) } : null;
+  let index: ReturnType<typeof castIndexOf> | null = null;
+  const castWith = cast ? { ...cast, index: () => (index ??= castIndexOf(cast.segments)) } : null;
   reply({ ready: true });
   data.port.on('message', (chunk: FacingChunk) => {
     try {

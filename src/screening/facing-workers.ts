@@ -10,7 +10,7 @@ import { MessageChannel, Worker, receiveMessageOnPort, type MessagePort } from '
 import type { FacingTable, LineTable, StationTable } from '../geometry/index.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { emptyResults, type FacingInputs, type FacingResults, type SolveContext, type StationInputs } from './facing-columns.js';
-import { castIndex, type CastIndex } from '../geometry/transects.js';
+import { castIndexOf, sharedCastIndex, type CastIndex, type SharedCastIndex } from '../geometry/transects.js';
 import { castTransects } from '../geometry/index.js';
 
 /**
@@ -46,8 +46,8 @@ export interface FacingWorkerData {
   port: MessagePort;
   /** Int32 counter a worker bumps (and notifies) after each message it posts. */
   signal: SharedArrayBuffer;
-  /** When the workers cast the transects too: the lines (in shared memory) and the cast's options. */
-  cast: CastWork | null;
+  /** When the workers cast the transects too: the lines and their segments' index (in shared memory) and the cast's options. */
+  cast: (CastWork & { segments: SharedCastIndex }) | null;
 }
 
 /** Casting in the workers: the lines' table and the options every chunk is cast with. */
@@ -135,10 +135,11 @@ export function solveInWorkers(
   const given = castWork ? null : (facingsOrCast as FacingTable);
   const n = 2 * stations.count;
   if (given && given.count !== n) throw new Error(`Unexpected ${given.count} facings for ${stations.count} stations.`);
-  const cast = castWork ? { lineTable: sharedLineTable(castWork.lineTable), options: castWork.options } : null;
-  // this thread's own index of the segments, made when it first casts a chunk
+  // the lines and their segments' index in shared memory: one copy for every thread
+  const sharedTable = castWork ? sharedLineTable(castWork.lineTable) : null;
+  const cast = castWork && sharedTable ? { lineTable: sharedTable, options: castWork.options, segments: sharedCastIndex(sharedTable) } : null;
   let ownIndex: CastIndex | null = null;
-  const ownCast = cast ? { ...cast, index: () => (ownIndex ??= castIndex(cast.lineTable)) } : null;
+  const ownCast = cast ? { ...cast, index: () => (ownIndex ??= castIndexOf(cast.segments)) } : null;
   const facings: FacingTable = given ?? {
     count: n,
     partner: new Int32Array(n),
