@@ -48,7 +48,11 @@ export function asLineTable(lines: LineGeometry[] | LineTable): LineTable {
   return Array.isArray(lines) ? buildLineTable(lines) : lines;
 }
 
-export function buildLineTable(lines: LineGeometry[]): LineTable {
+/**
+ * The lines' table. With `shared`, its columns live in SharedArrayBuffers, so that worker threads
+ * read this one copy (the same numbers; a single thread reads them as fast).
+ */
+export function buildLineTable(lines: LineGeometry[], shared = false): LineTable {
   let partCount = 0;
   let vertexCount = 0;
   for (const line of lines) {
@@ -58,12 +62,13 @@ export function buildLineTable(lines: LineGeometry[]): LineTable {
       vertexCount += p.length / 2;
     }
   }
-  const linePartStart = new Uint32Array(lines.length + 1);
-  const partVertexStart = new Uint32Array(partCount + 1);
-  const partLine = new Uint32Array(partCount);
-  const chainageM = new Float64Array(vertexCount);
-  const x = new Float64Array(vertexCount);
-  const y = new Float64Array(vertexCount);
+  const bytes = (n: number) => (shared ? new SharedArrayBuffer(n) : new ArrayBuffer(n));
+  const linePartStart = new Uint32Array(bytes(4 * (lines.length + 1)));
+  const partVertexStart = new Uint32Array(bytes(4 * (partCount + 1)));
+  const partLine = new Uint32Array(bytes(4 * partCount));
+  const chainageM = new Float64Array(bytes(8 * vertexCount));
+  const x = new Float64Array(bytes(8 * vertexCount));
+  const y = new Float64Array(bytes(8 * vertexCount));
   let part = 0;
   let v = 0;
   for (let l = 0; l < lines.length; l++) {

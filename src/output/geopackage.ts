@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import type { ScreenResult } from '../screening/screen.js';
 import type { BuiltFile } from './atomic-write.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
-import { doabLineFields, lineRows, rankingRow, RANKING_COLUMNS, stripProperties, transectRows, transectSides } from './layers.js';
+import { doabLineFields, lineRow, rankingRow, RANKING_COLUMNS, stripProperties, transectRow, transectSides } from './layers.js';
 import { linesSld, stripsSld, type LinesLook, type StripsLook } from './sld.js';
 
 export interface GeoPackageOptions {
@@ -43,26 +43,37 @@ interface Column {
 // keeps its type by that name (a strips-only run has no district figures)
 const UNIT_SUFFIX = /_(m|d|ha|km|yr|share|ratio|ratio_min)$/;
 
+/** What a field's values so far were: text, real, integer, boolean. */
+interface ValuesSeen {
+  doabReal: boolean;
+  text: boolean;
+  real: boolean;
+  integer: boolean;
+  boolean: boolean;
+}
+
+const valuesSeen = (doabReal: boolean): ValuesSeen => ({ doabReal, text: false, real: false, integer: false, boolean: false });
+
+function see(seen: ValuesSeen, value: unknown): void {
+  if (value === null || value === undefined) return;
+  if (typeof value === 'number') {
+    if (seen.doabReal || !Number.isInteger(value) || Math.abs(value) >= 1e21) seen.real = true;
+    else seen.integer = true;
+  } else if (typeof value === 'boolean') seen.boolean = true;
+  else seen.text = true;
+}
+
 /**
  * A field's type from its values, as GDAL reads the GeoJSON layer: text when any value is text (or
  * an object), real when any number has a fraction or when doab writes the field as real, integer
  * otherwise; true/false alone make a boolean.
  */
-function columnType(name: string, values: Iterable<unknown>, doabReal: boolean): SqlType {
-  let text = false, real = false, integer = false, boolean = false;
-  for (const value of values) {
-    if (value === null || value === undefined) continue;
-    if (typeof value === 'number') {
-      if (doabReal || !Number.isInteger(value) || Math.abs(value) >= 1e21) real = true;
-      else integer = true;
-    } else if (typeof value === 'boolean') boolean = true;
-    else text = true;
-  }
-  if (text) return 'TEXT';
-  if (real) return 'REAL';
-  if (integer) return 'INTEGER';
-  if (boolean) return 'BOOLEAN';
-  return doabReal && UNIT_SUFFIX.test(name) ? 'REAL' : 'TEXT';
+function columnType(name: string, seen: ValuesSeen): SqlType {
+  if (seen.text) return 'TEXT';
+  if (seen.real) return 'REAL';
+  if (seen.integer) return 'INTEGER';
+  if (seen.boolean) return 'BOOLEAN';
+  return seen.doabReal && UNIT_SUFFIX.test(name) ? 'REAL' : 'TEXT';
 }
 
 function sqlValue(value: unknown, type: SqlType): string | number | null {
@@ -74,16 +85,28 @@ function sqlValue(value: unknown, type: SqlType): string | number | null {
 }
 
 /** Columns in the order their keys first appear; names SQLite would take as one (it ignores case) or ours (fid, geom) get a suffix. */
-function columnsOf(rows: Record<string, unknown>[], isDoabReal: (key: string) => boolean): { columns: Column[]; keys: string[] } {
+function columnsOf(count: number, rowOf: (i: number) => Record<string, unknown>, isDoabReal: (key: string) => boolean): { columns: Column[]; keys: string[] } {
+  // one pass over the rows, each made and let go: a layer's records are never all held
   const keys: string[] = [];
-  const seen = new Set<string>();
-  for (const row of rows) for (const key of Object.keys(row)) if (!seen.has(key)) (seen.add(key), keys.push(key));
+  const seen = new Map<string, ValuesSeen>();
+  for (let i = 0; i < count; i++) {
+    const row = rowOf(i);
+    for (const key of Object.keys(row)) {
+      let values = seen.get(key);
+      if (!values) {
+        values = valuesSeen(isDoabReal(key));
+        seen.set(key, values);
+        keys.push(key);
+      }
+      see(values, row[key]);
+    }
+  }
   const taken = new Set(['fid', GEOMETRY_COLUMN]);
   const columns = keys.map((key) => {
     let name = key === '' ? 'field' : key;
     for (let n = 2; taken.has(name.toLowerCase()); n++) name = `${key}_${n}`;
     taken.add(name.toLowerCase());
-    return { name, type: columnType(key, rows.map((row) => row[key]), isDoabReal(key)) };
+    return { name, type: columnType(key, seen.get(key)!) };
   });
   return { columns, keys };
 }
@@ -241,41 +264,44 @@ interface Layer {
   description: string;
   columns: Column[];
   keys: string[];
-  rows: Record<string, unknown>[];
+  count: number;
+  /** Row i's record, made as it is inserted (and, before, as the column types are found). */
+  row: (i: number) => Record<string, unknown>;
   /** Row i's geometry, made as it is inserted: a layer's blobs are never all held. */
   geometry: (i: number) => { blob: Buffer; env: Envelope };
 }
 
 function stripsTable(result: ScreenResult, srsId: number): Layer {
-  const rows = result.strips.map(stripProperties);
-  const { columns, keys } = columnsOf(rows, () => true);
+  const count = result.strips.length;
+  const row = (i: number) => stripProperties(result.strips[i]);
+  const { columns, keys } = columnsOf(count, row, () => true);
   const geometry = (i: number) => geometryBlob(srsId, WKB_POLYGON, [closedRing(result.strips[i].strip.ringM)]);
-  return { table: 'strips', geometryType: 'POLYGON', description: 'Strips between facing lines, ranked (as strips.geojson)', columns, keys, rows, geometry };
+  return { table: 'strips', geometryType: 'POLYGON', description: 'Strips between facing lines, ranked (as strips.geojson)', columns, keys, count, row, geometry };
 }
 
 function linesTable(result: ScreenResult, srsId: number): Layer {
-  const rows = lineRows(result);
   // the fields doab adds (all real numbers but the texts), as against the input's own attributes
   const own = new Set(doabLineFields(result));
   // the kind as the solve read it (the input may name it otherwise or in its own words): the style's filter
-  rows.forEach((row, i) => (row.kind_used = result.lines[i].kind));
+  const row = (i: number) => ({ ...lineRow(result, i), kind_used: result.lines[i].kind });
   own.add('kind_used');
-  const { columns, keys } = columnsOf(rows, (key) => own.has(key));
+  const count = result.lines.length;
+  const { columns, keys } = columnsOf(count, row, (key) => own.has(key));
   const geometry = (i: number) => geometryBlob(srsId, WKB_MULTILINESTRING, result.geometries[i].parts);
-  return { table: 'lines', geometryType: 'MULTILINESTRING', description: 'Canals and drains with their losses (as canals.geojson, plus kind_used)', columns, keys, rows, geometry };
+  return { table: 'lines', geometryType: 'MULTILINESTRING', description: 'Canals and drains with their losses (as canals.geojson, plus kind_used)', columns, keys, count, row, geometry };
 }
 
 function transectsTable(result: ScreenResult, srsId: number): Layer {
-  const rows = transectRows(result);
   const { stations, facings } = result;
   // the same facings in the same order as transectsLayer writes them
   const sides = transectSides(result);
+  const row = (k: number) => transectRow(result, sides[k]);
   const geometry = (k: number) => {
     const i = sides[k], s = i >> 1;
     return geometryBlob(srsId, WKB_LINESTRING, [Float64Array.of(stations.x[s], stations.y[s], facings.endX[i], facings.endY[i])]);
   };
-  const { columns, keys } = columnsOf(rows, () => true);
-  return { table: 'transects', geometryType: 'LINESTRING', description: 'Transects from stations to their partner lines (as transects.geojson)', columns, keys, rows, geometry };
+  const { columns, keys } = columnsOf(sides.length, row, () => true);
+  return { table: 'transects', geometryType: 'LINESTRING', description: 'Transects from stations to their partner lines (as transects.geojson)', columns, keys, count: sides.length, row, geometry };
 }
 
 function timestampOf(startedAt: string | null | undefined): string {
@@ -311,14 +337,15 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
     db.exec(`CREATE VIRTUAL TABLE ${quoteId(rtreeName)} USING rtree(id, minx, maxx, miny, maxy)`);
     const rtree = db.prepare(`INSERT INTO ${quoteId(rtreeName)} VALUES (?, ?, ?, ?, ?)`);
     const env = emptyEnvelope();
-    layer.rows.forEach((row, i) => {
+    for (let i = 0; i < layer.count; i++) {
+      const row = layer.row(i);
       const { blob, env: e } = layer.geometry(i);
       insert.run(i + 1, blob, ...layer.keys.map((key, k) => sqlValue(row[key], layer.columns[k].type)));
       // an R-tree holds 32-bit floats, rounded outwards by SQLite, so a search never misses a feature
       if (Number.isFinite(e.minX)) rtree.run(i + 1, e.minX, e.maxX, e.minY, e.maxY);
       env.minX = Math.min(env.minX, e.minX), env.minY = Math.min(env.minY, e.minY);
       env.maxX = Math.max(env.maxX, e.maxX), env.maxY = Math.max(env.maxY, e.maxY);
-    });
+    }
     const has = Number.isFinite(env.minX);
     contents.run(layer.table, 'features', layer.table, layer.description, stamp, has ? env.minX : null, has ? env.minY : null, has ? env.maxX : null, has ? env.maxY : null, srsId);
     db.prepare('INSERT INTO gpkg_geometry_columns VALUES (?, ?, ?, ?, 0, 0)').run(layer.table, GEOMETRY_COLUMN, layer.geometryType, srsId);
@@ -327,11 +354,19 @@ function fill(db: Database.Database, result: ScreenResult, options: GeoPackageOp
   }
 
   // the ranking as ranking.csv holds it, typed (no spreadsheet quoting: a GeoPackage is no spreadsheet)
-  const ranking = result.strips.map((strip, i) => rankingRow(strip, i + 1) as Record<string, unknown>);
-  const rankColumns: Column[] = RANKING_COLUMNS.map((key) => ({ name: key, type: key === 'rank' ? 'INTEGER' : columnType(key, ranking.map((row) => row[key]), true) }));
+  const rankRow = (i: number) => rankingRow(result.strips[i], i + 1) as Record<string, unknown>;
+  const rankSeen = new Map(RANKING_COLUMNS.map((key) => [key, valuesSeen(true)]));
+  for (let i = 0; i < result.strips.length; i++) {
+    const row = rankRow(i);
+    for (const key of RANKING_COLUMNS) see(rankSeen.get(key)!, row[key]);
+  }
+  const rankColumns: Column[] = RANKING_COLUMNS.map((key) => ({ name: key, type: key === 'rank' ? 'INTEGER' : columnType(key, rankSeen.get(key)!) }));
   db.exec(`CREATE TABLE ranking (fid INTEGER PRIMARY KEY AUTOINCREMENT NOT NULL${rankColumns.map((c) => `, ${quoteId(c.name)} ${c.type}`).join('')})`);
   const rankInsert = db.prepare(`INSERT INTO ranking VALUES (?${', ?'.repeat(rankColumns.length)})`);
-  ranking.forEach((row, i) => rankInsert.run(i + 1, ...rankColumns.map((c) => sqlValue(row[c.name], c.type))));
+  for (let i = 0; i < result.strips.length; i++) {
+    const row = rankRow(i);
+    rankInsert.run(i + 1, ...rankColumns.map((c) => sqlValue(row[c.name], c.type)));
+  }
   contents.run('ranking', 'attributes', 'ranking', 'Strips ranked by loss per km (as ranking.csv)', stamp, null, null, null, null, null);
 
   // the run record (metadata extension, GeoPackage 1.3 clause F.8 [published])

@@ -199,7 +199,12 @@ export function doabLineFields(result: ScreenResult): string[] {
 
 /** The lines layer's records as a reader gets them back, one per line in order. */
 export function lineRows(result: ScreenResult): Record<string, unknown>[] {
-  return result.lines.map((line, i) => propertiesAsWritten(lineProperties(line, result.lineSummaries[i], result.lineFigures[i]), LINE_REAL_FIELDS));
+  return result.lines.map((_, i) => lineRow(result, i));
+}
+
+/** Line i's record as a reader of the lines layer gets it back. */
+export function lineRow(result: ScreenResult, i: number): Record<string, unknown> {
+  return propertiesAsWritten(lineProperties(result.lines[i], result.lineSummaries[i], result.lineFigures[i]), LINE_REAL_FIELDS);
 }
 
 export function linesLayer(result: ScreenResult, format: LayerFormat = 'collection'): Iterable<string> {
@@ -228,7 +233,12 @@ export function transectSides(result: ScreenResult): number[] {
 
 /** The transects layer's records as a reader gets them back, one per side of `transectSides`. */
 export function transectRows(result: ScreenResult): Record<string, unknown>[] {
-  return transectSides(result).map((i) => propertiesAsWritten(transectProperties(result, i)));
+  return transectSides(result).map((i) => transectRow(result, i));
+}
+
+/** Side i's record as a reader of the transects layer gets it back. */
+export function transectRow(result: ScreenResult, i: number): Record<string, unknown> {
+  return propertiesAsWritten(transectProperties(result, i));
 }
 
 // one feature at a time: a district can have millions of transects
@@ -249,7 +259,9 @@ function* transectFeatures(result: ScreenResult): Generator<LayerFeature> {
 }
 
 function transectProperties(result: ScreenResult, i: number): Record<string, unknown> {
-  const { stations, facings, results, lines } = result;
+  const { stations, facings, lines } = result;
+  const results = result.transects;
+  if (!results) throw new Error('Unexpected transects layer of a run that did not keep its transects (settings.writeTransects).');
   const station = i >> 1;
   const status = results.status[i];
   return {

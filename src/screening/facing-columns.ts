@@ -35,6 +35,19 @@ export interface FacingResults {
 
 export const NOT_PAIRED = 255;
 
+/**
+ * The result columns a run keeps once its strips and lines are summed: what the report's map and
+ * cross-sections, the wells and the lining planner read. The rest (seepage, recharge, peak offset,
+ * shallow length, Dupuit ratio, bridged length) are read only by the transects layer, and a run
+ * that does not write it lets them go (at a million stations, 110 MB).
+ */
+export type KeptResults = Pick<FacingResults, 'reason' | 'status' | 'flags' | 'ownStageM' | 'partnerStageM' | 'baseM' | 'peakWaterTableM' | 'minDepthM'>;
+
+export function keptResults(results: KeptResults): KeptResults {
+  const { reason, status, flags, ownStageM, partnerStageM, baseM, peakWaterTableM, minDepthM } = results;
+  return { reason, status, flags, ownStageM, partnerStageM, baseM, peakWaterTableM, minDepthM };
+}
+
 /** The station columns the solve reads; a chunk's slices in a worker, the whole table in process. */
 export type StationInputs = Pick<StationTable, 'x' | 'y' | 'line' | 'chainageM'>;
 /** The facing columns the solve reads. */
@@ -52,26 +65,46 @@ export interface SolveContext {
 /**
  * Results for `reason.length` facings, every one unsolved, reasons copied from the geometry
  * stage's. Unfilled (zeros, no pass over the columns) for a caller that will overwrite every
- * facing, as the worker threads' chunks do.
+ * facing, as the worker threads' chunks do. With `shared`, the columns live in SharedArrayBuffers
+ * that worker threads write their chunks into.
  */
-export function emptyResults(reason: Uint8Array, filled = true): FacingResults {
+export function emptyResults(reason: Uint8Array, filled = true, shared = false): FacingResults {
   const n = reason.length;
-  const column = (value: number) => (filled && value !== 0 ? new Float64Array(n).fill(value) : new Float64Array(n));
-  return {
-    reason: reason.slice(),
-    status: filled ? new Uint8Array(n).fill(NOT_PAIRED) : new Uint8Array(n),
-    flags: new Uint8Array(n),
-    ownStageM: column(NaN),
-    partnerStageM: column(NaN),
-    baseM: column(NaN),
-    ownSeepageM2PerDay: column(NaN),
-    partnerSeepageM2PerDay: column(NaN),
-    rechargeM2PerDay: column(NaN),
-    peakWaterTableM: column(NaN),
-    peakOffsetM: column(NaN),
-    minDepthM: column(NaN),
-    shallowM: column(NaN),
-    dupuitRatio: column(NaN),
-    uncoveredM: column(0),
+  const bytes = (count: number) => (shared ? new SharedArrayBuffer(count) : new ArrayBuffer(count));
+  const float = () => new Float64Array(bytes(8 * n));
+  const byte = () => new Uint8Array(bytes(n));
+  const results: FacingResults = {
+    reason: byte(),
+    status: byte(),
+    flags: byte(),
+    ownStageM: float(),
+    partnerStageM: float(),
+    baseM: float(),
+    ownSeepageM2PerDay: float(),
+    partnerSeepageM2PerDay: float(),
+    rechargeM2PerDay: float(),
+    peakWaterTableM: float(),
+    peakOffsetM: float(),
+    minDepthM: float(),
+    shallowM: float(),
+    dupuitRatio: float(),
+    uncoveredM: float(),
   };
+  if (filled) resetResults(results, reason);
+  else results.reason.set(reason);
+  return results;
+}
+
+/** Sets every facing of `results` unsolved, reasons copied from the geometry stage's: what a solve starts from. */
+export function resetResults(results: FacingResults, reason: Uint8Array): void {
+  results.reason.set(reason);
+  results.status.fill(NOT_PAIRED);
+  results.flags.fill(0);
+  for (const column of [results.ownStageM, results.partnerStageM, results.baseM, results.ownSeepageM2PerDay, results.partnerSeepageM2PerDay, results.rechargeM2PerDay, results.peakWaterTableM, results.peakOffsetM, results.minDepthM, results.shallowM, results.dupuitRatio]) column.fill(NaN);
+  results.uncoveredM.fill(0);
+}
+
+/** The results of facings start .. start + count - 1, as views: what is written there is written in `results`. */
+export function resultsRange(results: FacingResults, start: number, count: number): FacingResults {
+  return Object.fromEntries(Object.entries(results).map(([key, column]) => [key, (column as Float64Array).subarray(start, start + count)])) as unknown as FacingResults;
 }

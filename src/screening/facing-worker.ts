@@ -1,8 +1,8 @@
 // A transect-solve worker (started by facing-workers.ts): builds the zone index once from the
-// zone polygons, then casts (when asked, against the lines and their index in shared memory) and solves each chunk
-// it is sent with the same code as the main thread, and posts the results back, their buffers
-// transferred. Modules are imported inside the try, so that a failure
-// to load is reported to the waiting thread rather than lost.
+// zone polygons, then casts (when asked, against the lines and their index in shared memory) and
+// solves each chunk it is sent with the same code as the main thread, writing into the run's
+// columns in shared memory, and posts back only the chunk's place. Modules are imported inside
+// the try, so that a failure to load is reported to the waiting thread rather than lost.
 import { workerData } from 'node:worker_threads';
 import type { FacingChunk, FacingWorkerData, FacingWorkerReply } from './facing-workers.js';
 
@@ -27,9 +27,9 @@ try {
   reply({ ready: true });
   data.port.on('message', (chunk: FacingChunk) => {
     try {
-      const { results, facings } = workOnChunk(chunk, castWith, (stations, columns, into) => solveFacingRange(context, stations, columns, into));
-      const buffers = [...Object.values(results), ...(facings ? Object.values(facings).filter((column) => typeof column === 'object') : [])].map((column: Uint8Array) => column.buffer as ArrayBuffer);
-      reply({ start: chunk.start, results, facings }, buffers);
+      // the chunk is written straight into the run's shared columns: only its place goes back
+      const done = workOnChunk(chunk, castWith, (stations, columns, results) => solveFacingRange(context, stations, columns, results), data.into);
+      reply({ start: chunk.start, ...done });
     } catch (error) {
       reply({ error: (error as Error).stack ?? String(error) });
     }

@@ -1,6 +1,6 @@
 // The transect solve over worker threads: contiguous chunks of facings go to node:worker_threads
-// workers, each of which solves them with the same solveFacingRange as a run in process, and the
-// results are copied back at their chunk's place. This thread solves chunks too between messages
+// workers, each of which solves them with the same solveFacingRange as a run in process, writing
+// the results at their chunk's place in columns in shared memory. This thread solves chunks too between messages
 // (so N workers are this thread and N - 1 started ones), and blocks (Atomics.wait) only when none
 // is left, so the pipeline stays synchronous; messages are taken with receiveMessageOnPort.
 import { existsSync } from 'node:fs';
@@ -9,7 +9,7 @@ import { fileURLToPath } from 'node:url';
 import { MessageChannel, Worker, receiveMessageOnPort, type MessagePort } from 'node:worker_threads';
 import type { FacingTable, LineTable, StationTable } from '../geometry/index.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
-import { emptyResults, type FacingInputs, type FacingResults, type SolveContext, type StationInputs } from './facing-columns.js';
+import { emptyResults, resetResults, resultsRange, type FacingInputs, type FacingResults, type SolveContext, type StationInputs } from './facing-columns.js';
 import { castIndexOf, sharedCastIndex, type CastIndex, type SharedCastIndex } from '../geometry/transects.js';
 import { castTransects } from '../geometry/index.js';
 
@@ -48,6 +48,14 @@ export interface FacingWorkerData {
   signal: SharedArrayBuffer;
   /** When the workers cast the transects too: the lines and their segments' index (in shared memory) and the cast's options. */
   cast: (CastWork & { segments: SharedCastIndex }) | null;
+  /** The whole run's columns in shared memory, which each chunk's casting and solve are written into. */
+  into: ChunkTarget;
+}
+
+/** Where chunks are written: the run's result columns, and its facing columns when the chunks are cast. */
+export interface ChunkTarget {
+  results: FacingResults;
+  facings: FacingTable | null;
 }
 
 /** Casting in the workers: the lines' table and the options every chunk is cast with. */
@@ -66,16 +74,17 @@ export interface FacingChunk {
   facings: FacingInputs | null;
 }
 
-export type FacingWorkerReply = { ready: true } | { start: number; results: FacingResults; facings: FacingTable | null } | { error: string };
+export type FacingWorkerReply = { ready: true } | { start: number; count: number; cast: boolean } | { error: string };
 
 const STATION_COLUMNS = ['x', 'y', 'line', 'chainageM'] as const;
 const CAST_STATION_COLUMNS = ['line', 'part', 'chainageM', 'x', 'y', 'dirX', 'dirY', 'lengthM'] as const;
 /** The facing columns castTransects fills, in its table's order. */
 const CAST_FACING_COLUMNS = ['partner', 'reason', 'transectLengthM', 'endX', 'endY', 'partnerChainageM', 'angleDeg', 'hitLine', 'partnerSide'] as const;
 
-/** The line table in shared memory: every worker reads the one copy. */
+/** The line table in shared memory (as it is, when it is there already): every worker reads the one copy. */
 function sharedLineTable(t: LineTable): LineTable {
   const share = <T extends Float64Array | Uint32Array>(column: T): T => {
+    if (column.buffer instanceof SharedArrayBuffer) return column;
     const shared = new (column.constructor as { new (buffer: SharedArrayBuffer): T })(new SharedArrayBuffer(column.byteLength));
     shared.set(column);
     return shared;
@@ -84,25 +93,29 @@ function sharedLineTable(t: LineTable): LineTable {
 }
 
 /**
- * Casts the chunk's transects (when it carries no facings) and solves them: the one function a
- * worker and this thread run on a chunk, so that either gives the same columns.
+ * Casts the chunk's transects (when it carries no facings) and solves them, writing both into the
+ * run's columns at the chunk's place: the one function a worker and this thread run on a chunk, so
+ * that either gives the same columns. Returns the chunk's facing count and whether it was cast.
  */
 export function workOnChunk(
   chunk: FacingChunk,
   cast: { lineTable: LineTable; options: CastWork['options']; index: () => CastIndex } | null,
   solve: (stations: StationInputs, facings: FacingInputs, results: FacingResults) => void,
-): { results: FacingResults; facings: FacingTable | null } {
+  into: ChunkTarget,
+): { count: number; cast: boolean } {
   let facings: FacingInputs;
-  let cast_: FacingTable | null = null;
   if (chunk.facings === null) {
-    if (!cast) throw new Error('Unexpected chunk to cast without the lines.');
+    if (!cast || !into.facings) throw new Error('Unexpected chunk to cast without the lines.');
     const stations = chunk.stations as StationTable;
-    cast_ = castTransects(cast.lineTable, { ...stations, count: stations.x.length }, { ...cast.options, index: cast.index() });
-    facings = cast_;
+    const table = castTransects(cast.lineTable, { ...stations, count: stations.x.length }, { ...cast.options, index: cast.index() });
+    for (const key of CAST_FACING_COLUMNS) (into.facings[key] as Float64Array).set(table[key] as Float64Array, chunk.start);
+    facings = table;
   } else facings = chunk.facings;
-  const results = emptyResults(facings.reason);
+  const count = facings.reason.length;
+  const results = resultsRange(into.results, chunk.start, count);
+  resetResults(results, facings.reason);
   solve(chunk.stations, facings, results);
-  return { results, facings: cast_ };
+  return { count, cast: chunk.facings === null };
 }
 const FACING_COLUMNS = ['reason', 'endX', 'endY', 'partner', 'partnerChainageM', 'transectLengthM'] as const;
 
@@ -140,23 +153,26 @@ export function solveInWorkers(
   const cast = castWork && sharedTable ? { lineTable: sharedTable, options: castWork.options, segments: sharedCastIndex(sharedTable) } : null;
   let ownIndex: CastIndex | null = null;
   const ownCast = cast ? { ...cast, index: () => (ownIndex ??= castIndexOf(cast.segments)) } : null;
+  // the run's columns in shared memory: every thread writes its chunks there, nothing is copied back
+  const shared = (bytes: number) => new SharedArrayBuffer(bytes);
   const facings: FacingTable = given ?? {
     count: n,
-    partner: new Int32Array(n),
-    reason: new Uint8Array(n),
-    transectLengthM: new Float64Array(n),
-    endX: new Float64Array(n),
-    endY: new Float64Array(n),
-    partnerChainageM: new Float64Array(n),
-    angleDeg: new Float64Array(n),
-    hitLine: new Int32Array(n),
-    partnerSide: new Uint8Array(n),
+    partner: new Int32Array(shared(4 * n)),
+    reason: new Uint8Array(shared(n)),
+    transectLengthM: new Float64Array(shared(8 * n)),
+    endX: new Float64Array(shared(8 * n)),
+    endY: new Float64Array(shared(8 * n)),
+    partnerChainageM: new Float64Array(shared(8 * n)),
+    angleDeg: new Float64Array(shared(8 * n)),
+    hitLine: new Int32Array(shared(4 * n)),
+    partnerSide: new Uint8Array(shared(n)),
   };
   // about eight chunks a worker, so that one slow region does not hold the others up
   const chunkFacings = Math.min(MAX_CHUNK_FACINGS, Math.max(2, 2 * Math.ceil(n / (16 * workerTotal))));
   const chunkTotal = Math.ceil(n / chunkFacings);
-  // every facing is overwritten by its chunk's results
-  const results = emptyResults(given ? given.reason : new Uint8Array(n), false);
+  // every facing is set by its chunk
+  const results = emptyResults(given ? given.reason : new Uint8Array(n), false, true);
+  const into: ChunkTarget = { results, facings: given ? null : facings };
   const signal = new SharedArrayBuffer(4);
   const counter = new Int32Array(signal);
   // the workers need each line's stage and bed, not its geometry or attributes
@@ -189,7 +205,7 @@ export function solveInWorkers(
   try {
     for (let w = 1; w < workerTotal; w++) {
       const { port1, port2 } = new MessageChannel();
-      const workerData: FacingWorkerData = { lines, lineLengthsM: context.lineLengthsM, zones, zonePolygons: context.zoneIndex.polygons, settings: context.settings, port: port2, signal, cast };
+      const workerData: FacingWorkerData = { lines, lineLengthsM: context.lineLengthsM, zones, zonePolygons: context.zoneIndex.polygons, settings: context.settings, port: port2, signal, cast, into };
       const worker = new Worker(entry, { workerData, transferList: [port2] });
       worker.unref();
       workers.push({ worker, port: port1, ready: false });
@@ -210,14 +226,10 @@ export function solveInWorkers(
             slot.ready = true;
             continue;
           }
-          place(results, reply.start, reply.results);
-          if (reply.facings) {
-            placeFacings(facings, reply.start, reply.facings);
-            facingWorkerStats.threadCastChunks++;
-          }
+          if (reply.cast) facingWorkerStats.threadCastChunks++;
           threadChunks++;
           done++;
-          doneFacings += reply.results.reason.length;
+          doneFacings += reply.count;
           onProgress(doneFacings);
           send(slot);
         }
@@ -225,11 +237,9 @@ export function solveInWorkers(
       // a worker bumps the counter after posting; the timeout only guards against a lost wake-up
       if (!received && next < chunkTotal) {
         const chunk = takeChunk();
-        const { results: own, facings: ownFacings } = workOnChunk(chunk, ownCast, (s, f, r) => solveChunk(context, s, f, r));
-        place(results, chunk.start, own);
-        if (ownFacings) placeFacings(facings, chunk.start, ownFacings);
+        const own = workOnChunk(chunk, ownCast, (s, f, r) => solveChunk(context, s, f, r), into);
         done++;
-        doneFacings += own.reason.length;
+        doneFacings += own.count;
         onProgress(doneFacings);
       } else if (!received) Atomics.wait(counter, 0, seen, 1000);
       if (Date.now() - startedAt > START_TIMEOUT_MS && !workers.every((slot) => slot.ready)) {
@@ -250,12 +260,3 @@ export function solveInWorkers(
   return { results, facings };
 }
 
-/** Copies a chunk's cast facings into the whole run's at the chunk's first facing. */
-function placeFacings(facings: FacingTable, start: number, chunk: FacingTable): void {
-  for (const key of CAST_FACING_COLUMNS) (facings[key] as Float64Array).set(chunk[key] as Float64Array, start);
-}
-
-/** Copies a chunk's results into the whole run's at the chunk's first facing. */
-function place(results: FacingResults, start: number, chunk: FacingResults): void {
-  for (const key of Object.keys(results) as (keyof FacingResults)[]) (results[key] as Float64Array).set(chunk[key] as Float64Array, start);
-}

@@ -25,6 +25,7 @@ import { districtSolve, type DistrictInputs, type DistrictResult, type DistrictT
 import { smoothingHalfWindowM } from '../geometry/transects.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { castAndSolveFacings, NOT_PAIRED, type FacingResults } from './solve-facings.js';
+import { keptResults, type KeptResults } from './facing-columns.js';
 import { SOLVE_OK } from '../hydraulics/transect-solver.js';
 import { RISK_CLASSES, type RiskClass, type ScreenSettings } from '../shared/settings.js';
 
@@ -100,7 +101,10 @@ export interface ScreenResult {
   zoneIndex: ZoneIndex;
   stations: StationTable;
   facings: FacingTable;
-  results: FacingResults;
+  /** The result columns kept after the strips and lines are summed (see KeptResults). */
+  results: KeptResults;
+  /** Every result column, for the transects layer: kept only when it is written (settings.writeTransects); null otherwise. */
+  transects: FacingResults | null;
   /** Strips in ranked order. */
   strips: StripSummary[];
   lineSummaries: LineSummary[];
@@ -162,7 +166,8 @@ export function prepareDistrict(lines: LineRecord[], zones: ZoneRecord[], settin
     ),
   );
   // one table of the lines, shared by stations, transects and strips
-  const lineTable = buildLineTable(geometries);
+  // in shared memory: worker threads that cast read this copy
+  const lineTable = buildLineTable(geometries, true);
   onProgress('stations', 0, lines.length);
   const stations = placeStations(lineTable, settings.stepM);
   onProgress('stations', lines.length, lines.length);
@@ -310,7 +315,8 @@ export function screenDistrict(
     zoneIndex,
     stations,
     facings,
-    results,
+    results: keptResults(results),
+    transects: settings.writeTransects ? results : null,
     strips,
     lineSummaries,
     lineFigures,

@@ -14,7 +14,8 @@ import { DEMO_AQUIFER, DEMO_CANALS } from '../report/demo-result.js';
 
 async function load(canals: string, aquifer: string, settings: Partial<ScreenSettings>) {
   const config = defaultConfig();
-  Object.assign(config.settings, { stripsOnly: true, ...settings });
+  // with the transects layer asked for, a run keeps every result column, so all can be compared
+  Object.assign(config.settings, { stripsOnly: true, writeTransects: true, ...settings });
   const district = await loadDistrict(canals, aquifer, config);
   expect(district.problems.filter((p) => p.severity === 'error')).toEqual([]);
   return { lines: district.lines, zones: district.zones, settings: config.settings };
@@ -27,8 +28,8 @@ function sameColumns(whole: ScreenResult, gathered: ScreenResult, label: string)
     expect(a.equals(b), `${label}: facings.${name}`).toBe(true);
   }
   for (const name of TILE_RESULT_COLUMNS) {
-    const a = Buffer.from((whole.results as unknown as Record<string, ArrayBufferView>)[name].buffer);
-    const b = Buffer.from((gathered.results as unknown as Record<string, ArrayBufferView>)[name].buffer);
+    const a = Buffer.from((whole.transects as unknown as Record<string, ArrayBufferView>)[name].buffer);
+    const b = Buffer.from((gathered.transects as unknown as Record<string, ArrayBufferView>)[name].buffer);
     expect(a.equals(b), `${label}: results.${name}`).toBe(true);
   }
   expect(JSON.stringify(gathered.strips), label).toBe(JSON.stringify(whole.strips));
