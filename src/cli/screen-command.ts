@@ -38,6 +38,7 @@ import {
 import { createHash } from 'node:crypto';
 import { parseTileOption } from './tile-option.js';
 import type { CliIo } from './io.js';
+import { collectBetweenStages } from './collect-garbage.js';
 
 export interface ScreenOptions {
   canals: string;
@@ -146,6 +147,7 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
   const spread = samples === null ? undefined : spreadOfRun(district, config, result, { samples, seed, correlated: Boolean(options.correlatedK) });
   for (const warning of result.warnings) log(`warning: ${warning}`);
   log(`solved ${result.counts.solvedFacings} of ${result.counts.facingsByReason.paired} paired transect sides; ${result.counts.strips} strips`);
+  collectBetweenStages(result.counts.stations);
   const { written, removed, runRecord } = await writeRun(options.out, result, {
     district,
     config,

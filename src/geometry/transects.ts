@@ -37,6 +37,8 @@ export interface FacingTable {
 export interface CastOptions {
   maxGapM: number;
   maxAngleDeg: number;
+  /** Columns to cast into (views of a larger table, say, in shared memory) instead of new ones; count must be twice the stations'. */
+  into?: FacingTable;
   /**
    * Half the window over which a partner's direction is smoothed (m). Default: half the longest
    * station interval of `stations`; a tile casting part of a district gives the whole district's.
@@ -142,18 +144,28 @@ export function castTransects(lines: LineGeometry[] | LineTable, stations: Stati
   }
   const seg = options.index ? (options.index.segments as SegmentIndex) : buildSegmentIndex(t, options.segmentBox ?? null);
   const n = stations.count * 2;
-  const f: FacingTable = {
+  if (options.into && options.into.count !== n) throw new Error(`Unexpected ${options.into.count} facings to cast ${stations.count} stations into.`);
+  const f: FacingTable = options.into ?? {
     count: n,
-    partner: new Int32Array(n).fill(-1),
+    partner: new Int32Array(n),
     reason: new Uint8Array(n),
     transectLengthM: new Float64Array(n),
     endX: new Float64Array(n),
     endY: new Float64Array(n),
-    partnerChainageM: new Float64Array(n).fill(NaN),
-    angleDeg: new Float64Array(n).fill(NaN),
-    hitLine: new Int32Array(n).fill(-1),
-    partnerSide: new Uint8Array(n).fill(255),
+    partnerChainageM: new Float64Array(n),
+    angleDeg: new Float64Array(n),
+    hitLine: new Int32Array(n),
+    partnerSide: new Uint8Array(n),
   };
+  f.partner.fill(-1);
+  f.reason.fill(0);
+  f.transectLengthM.fill(0);
+  f.endX.fill(0);
+  f.endY.fill(0);
+  f.partnerChainageM.fill(NaN);
+  f.angleDeg.fill(NaN);
+  f.hitLine.fill(-1);
+  f.partnerSide.fill(255);
   // the partner's direction is smoothed over the same window as the stations' own (half a step)
   const halfWindowM = options.halfWindowM ?? smoothingHalfWindowM(stations);
   const cosMax = Math.cos((options.maxAngleDeg * Math.PI) / 180);

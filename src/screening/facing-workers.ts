@@ -107,9 +107,9 @@ export function workOnChunk(
   if (chunk.facings === null) {
     if (!cast || !into.facings) throw new Error('Unexpected chunk to cast without the lines.');
     const stations = chunk.stations as StationTable;
-    const table = castTransects(cast.lineTable, { ...stations, count: stations.x.length }, { ...cast.options, index: cast.index() });
-    for (const key of CAST_FACING_COLUMNS) (into.facings[key] as Float64Array).set(table[key] as Float64Array, chunk.start);
-    facings = table;
+    const count = 2 * stations.x.length;
+    const views = Object.fromEntries(CAST_FACING_COLUMNS.map((key) => [key, (into.facings![key] as Float64Array).subarray(chunk.start, chunk.start + count)]));
+    facings = castTransects(cast.lineTable, { ...stations, count: stations.x.length }, { ...cast.options, index: cast.index(), into: { count, ...views } as unknown as FacingTable });
   } else facings = chunk.facings;
   const count = facings.reason.length;
   const results = resultsRange(into.results, chunk.start, count);
