@@ -113,7 +113,11 @@ export interface ScreenOptions {
   onProgress?: ProgressListener;
   /** Ground from a DEM (readDem). */
   dem?: Dem | null;
-  /** The transects as the tiles of an array job solved them (readTileFolder), instead of solving them here. */
+  /**
+   * The transects as the tiles of an array job solved them (readTileFolder), instead of solving
+   * them here. Taken when they are assembled: the array is emptied then, so that the tiles'
+   * columns go once they are in place (at a million stations, 300 MB) rather than at the end.
+   */
   tiles?: TilePart[] | null;
   /** The tiles' folder, for messages. */
   tilesLabel?: string;
@@ -138,7 +142,7 @@ export function screenLoaded(district: LoadedDistrict, config: RunConfig, option
     ? {
         assemble: (stations: StationTable) => {
           try {
-            return assembleTiles(stations, parts);
+            return assembleTiles(stations, parts.splice(0));
           } catch (error) {
             throw new DataError({ file: options.tilesLabel ?? 'the tiles' }, `the tiles cannot be gathered: ${(error as Error).message}`);
           }

@@ -140,8 +140,6 @@ export async function screenCommand(options: ScreenOptions, argv: string[], io: 
     log(`gathering ${gather.tiles.parts.length} tile${gather.tiles.parts.length === 1 ? '' : 's'} from ${gather.dir}: their transects, solved, stand in for solving them here`);
   }
   const screened = screenLoaded(district, config, { skipInvalid: options.skipInvalid, onProgress, dem, tiles: gather?.tiles.parts, tilesLabel: gather?.dir });
-  // the tiles' columns are in the result now, in station order: their own copies can go
-  if (gather) gather.tiles.parts.length = 0;
   const checked = wells ? checkAgainstWells(district, config, screened, wells, { applyFit: options.applyKFit, onProgress, dem }) : null;
   const result = checked ? checked.result : screened;
   const spread = samples === null ? undefined : spreadOfRun(district, config, result, { samples, seed, correlated: Boolean(options.correlatedK) });
