@@ -39,7 +39,7 @@ console.log('(the district solve is left out: at these sizes it is a separate ma
 
 interface Row { stations: number; wallS: number; rssMB: number; floorS: number; floorRssMB: number }
 const rows: Row[] = [];
-const header = `${'stations'.padStart(10)} ${'input MiB'.padStart(9)} ${'wall s'.padStart(8)} ${'stations/s'.padStart(11)} ${'peak RSS MB'.padStart(11)} ${'floor s'.padStart(8)} ${'floor RSS'.padStart(9)} ${'x floor'.padStart(7)}`;
+const header = `${'stations'.padStart(10)} ${'input MiB'.padStart(9)} ${'wall s'.padStart(8)} ${'stations/s'.padStart(11)} ${'peak RSS MiB'.padStart(12)} ${'floor s'.padStart(8)} ${'floor RSS'.padStart(9)} ${'x floor'.padStart(7)}`;
 if (sizes.length > 0) console.log(header);
 for (const target of sizes) {
   const dir = mkdtempSync(join(tmpdir(), 'doab-bench-'));
@@ -62,7 +62,7 @@ for (const target of sizes) {
     const row: Row = { stations, wallS, rssMB: rssKb / 1024, floorS: floor.seconds, floorRssMB: floor.maxRssMB };
     rows.push(row);
     console.log(
-      `${stations.toLocaleString('en-US').padStart(10)} ${(statSync(canals).size / 2 ** 20).toFixed(1).padStart(9)} ${wallS.toFixed(2).padStart(8)} ${Math.round(stations / wallS).toLocaleString('en-US').padStart(11)} ${row.rssMB.toFixed(0).padStart(11)} ${floor.seconds.toFixed(2).padStart(8)} ${floor.maxRssMB.toFixed(0).padStart(9)} ${(wallS / floor.seconds).toFixed(2).padStart(7)}`,
+      `${stations.toLocaleString('en-US').padStart(10)} ${(statSync(canals).size / 2 ** 20).toFixed(1).padStart(9)} ${wallS.toFixed(2).padStart(8)} ${Math.round(stations / wallS).toLocaleString('en-US').padStart(11)} ${row.rssMB.toFixed(0).padStart(12)} ${floor.seconds.toFixed(2).padStart(8)} ${floor.maxRssMB.toFixed(0).padStart(9)} ${(wallS / floor.seconds).toFixed(2).padStart(7)}`,
     );
   } finally {
     rmSync(dir, { recursive: true, force: true });
@@ -112,7 +112,7 @@ console.log(JSON.stringify({ seconds: (performance.now() - t0) / 1000, features:
     const rssKb = Number(/Maximum resident set size \(kbytes\): (\d+)/.exec(run.stderr)?.[1] ?? NaN);
     console.log(
       `read ${(bytes / 2 ** 30).toFixed(2)} GiB of GeoJSON (${features.toLocaleString('en-US')} lines, the 1 M-station district ${copies} times) in ${read.seconds.toFixed(1)} s ` +
-        `(${(bytes / 2 ** 20 / read.seconds).toFixed(0)} MiB/s), peak RSS ${(rssKb / 1024).toFixed(0)} MB`,
+        `(${(bytes / 2 ** 20 / read.seconds).toFixed(0)} MiB/s), peak RSS ${(rssKb / 1024).toFixed(0)} MiB`,
     );
   } finally {
     rmSync(dir, { recursive: true, force: true });

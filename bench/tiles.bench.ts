@@ -58,8 +58,8 @@ try {
   console.log(`doab screen in tiles, then doab gather; ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(2)).join(' ')}${extraArgs.length ? `, extra flags: ${extraArgs.join(' ')}` : ''}`);
   const single = await measure(['screen', ...inputs, '--out', join(dir, 'single')]);
   const stations = (JSON.parse(readFileSync(join(dir, 'single/run.json'), 'utf8')) as { counts: { stations: number } }).counts.stations;
-  console.log(`${stations.toLocaleString('en-US')} stations; one run: ${single.wallS.toFixed(1)} s, peak RSS ${single.rssMB.toFixed(0)} MB`);
-  console.log(`${'tiles'.padStart(5)} ${'tiles wall s'.padStart(12)} ${'slowest tile s'.padStart(14)} ${'tile RSS MB'.padStart(11)} ${'gather s'.padStart(8)} ${'gather RSS'.padStart(10)} ${'total s'.padStart(7)}  same files`);
+  console.log(`${stations.toLocaleString('en-US')} stations; one run: ${single.wallS.toFixed(1)} s, peak RSS ${single.rssMB.toFixed(0)} MiB`);
+  console.log(`${'tiles'.padStart(5)} ${'tiles wall s'.padStart(12)} ${'slowest tile s'.padStart(14)} ${'tile RSS MiB'.padStart(12)} ${'gather s'.padStart(8)} ${'gather RSS MiB'.padStart(14)} ${'total s'.padStart(7)}  same files`);
   for (const count of counts) {
     const tiles = join(dir, `tiles-${count}`);
     const t0 = performance.now();
@@ -70,7 +70,7 @@ try {
     const compared = ['strips.geojson', 'canals.geojson', 'ranking.csv', 'lines.csv'].filter((name) => existsSync(join(dir, 'single', name)));
     const same = compared.every((name) => sameFile(join(dir, 'single', name), join(out, name)));
     console.log(
-      `${String(count).padStart(5)} ${tilesS.toFixed(1).padStart(12)} ${Math.max(...perTile.map((t) => t.wallS)).toFixed(1).padStart(14)} ${Math.max(...perTile.map((t) => t.rssMB)).toFixed(0).padStart(11)} ${gathered.wallS.toFixed(1).padStart(8)} ${gathered.rssMB.toFixed(0).padStart(10)} ${(tilesS + gathered.wallS).toFixed(1).padStart(7)}  ${same ? 'yes' : 'NO'} (${compared.join(', ')})`,
+      `${String(count).padStart(5)} ${tilesS.toFixed(1).padStart(12)} ${Math.max(...perTile.map((t) => t.wallS)).toFixed(1).padStart(14)} ${Math.max(...perTile.map((t) => t.rssMB)).toFixed(0).padStart(12)} ${gathered.wallS.toFixed(1).padStart(8)} ${gathered.rssMB.toFixed(0).padStart(14)} ${(tilesS + gathered.wallS).toFixed(1).padStart(7)}  ${same ? 'yes' : 'NO'} (${compared.join(', ')})`,
     );
     rmSync(tiles, { recursive: true, force: true });
     rmSync(out, { recursive: true, force: true });
