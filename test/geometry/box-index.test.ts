@@ -4,23 +4,12 @@
 // with boxes that touch the query exactly at their edge (where a rounding inwards would miss).
 import { describe, expect, it } from 'vitest';
 import { boxIndex } from '../../src/geometry/box-index.js';
-
-function random(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    // mulberry32 [from memory: a common 32-bit seeded generator]
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seededRandom } from '../../src/shared/random.js';
 
 describe('a 32-bit box index', () => {
   for (const origin of [0, 500_000, 9_999_000, 1e8]) {
     it(`finds every box a 64-bit index finds, boxes near ${origin} m`, () => {
-      const next = random(origin + 7);
+      const next = seededRandom(origin + 7);
       const n = 5000;
       const boxes = Array.from({ length: n }, () => {
         const x = origin + next() * 20_000, y = origin + next() * 20_000;
