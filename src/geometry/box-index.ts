@@ -28,4 +28,3 @@ export function boxIndex(
   tree.finish();
   return tree;
 }
-

@@ -1,3 +1,5 @@
+import { newColumn } from '../shared/columns.js';
+
 /** A line (canal or drain) in metres: each part is interleaved x,y; several parts share one id. */
 export interface LineGeometry {
   id: string;
@@ -62,13 +64,12 @@ export function buildLineTable(lines: LineGeometry[], shared = false): LineTable
       vertexCount += p.length / 2;
     }
   }
-  const bytes = (n: number) => (shared ? new SharedArrayBuffer(n) : new ArrayBuffer(n));
-  const linePartStart = new Uint32Array(bytes(4 * (lines.length + 1)));
-  const partVertexStart = new Uint32Array(bytes(4 * (partCount + 1)));
-  const partLine = new Uint32Array(bytes(4 * partCount));
-  const chainageM = new Float64Array(bytes(8 * vertexCount));
-  const x = new Float64Array(bytes(8 * vertexCount));
-  const y = new Float64Array(bytes(8 * vertexCount));
+  const linePartStart = newColumn(Uint32Array, lines.length + 1, shared);
+  const partVertexStart = newColumn(Uint32Array, partCount + 1, shared);
+  const partLine = newColumn(Uint32Array, partCount, shared);
+  const chainageM = newColumn(Float64Array, vertexCount, shared);
+  const x = newColumn(Float64Array, vertexCount, shared);
+  const y = newColumn(Float64Array, vertexCount, shared);
   let part = 0;
   let v = 0;
   for (let l = 0; l < lines.length; l++) {

@@ -2,6 +2,7 @@ import Flatbush from 'flatbush';
 import { boxIndex } from './box-index.js';
 import { directionAt, type LineGeometry, type LineTable, asLineTable } from './lines.js';
 import type { StationTable } from './stations.js';
+import { newColumn } from '../shared/columns.js';
 
 export const FACING_PAIRED = 0;
 export const FACING_NO_PARTNER = 1;
@@ -73,8 +74,8 @@ interface SegmentIndex {
 
 function buildSegmentIndex(t: LineTable, box: CastOptions['segmentBox'] = null, shared = false): SegmentIndex {
   const partCount = t.partLine.length;
-  const vertex = new Uint32Array(shared ? new SharedArrayBuffer(4 * t.x.length) : new ArrayBuffer(4 * t.x.length));
-  const part = new Uint32Array(shared ? new SharedArrayBuffer(4 * t.x.length) : new ArrayBuffer(4 * t.x.length));
+  const vertex = newColumn(Uint32Array, t.x.length, shared);
+  const part = newColumn(Uint32Array, t.x.length, shared);
   let n = 0;
   const outside = (v: number) =>
     box !== null &&
@@ -105,10 +106,10 @@ export function smoothingHalfWindowM(stations: Pick<StationTable, 'count' | 'len
 }
 
 /**
- * Every segment of the lines, indexed in shared memory for castTransects' `index` option with the
- * same lines, to post to worker threads (structured clone keeps the shared
- * buffers, not the index's class): each opens it with castIndexOf, and every thread reads the one
- * copy instead of building its own (at a million stations, 170 MB a thread).
+ * Every segment of the lines, indexed in shared memory (sharedCastIndex), for castTransects'
+ * `index` option with the same lines. It is posted to worker threads as these buffers (a
+ * structured clone keeps shared buffers, not the index's class), and each thread opens it with
+ * castIndexOf: every thread reads the one copy instead of building its own.
  */
 export interface SharedCastIndex {
   vertex: Uint32Array;

@@ -3,6 +3,7 @@
 import type { FacingTable, StationTable, ZoneIndex } from '../geometry/index.js';
 import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import type { ScreenSettings } from '../shared/settings.js';
+import { newColumn } from '../shared/columns.js';
 
 export interface FacingResults {
   /**
@@ -70,9 +71,8 @@ export interface SolveContext {
  */
 export function emptyResults(reason: Uint8Array, filled = true, shared = false): FacingResults {
   const n = reason.length;
-  const bytes = (count: number) => (shared ? new SharedArrayBuffer(count) : new ArrayBuffer(count));
-  const float = () => new Float64Array(bytes(8 * n));
-  const byte = () => new Uint8Array(bytes(n));
+  const float = () => newColumn(Float64Array, n, shared);
+  const byte = () => newColumn(Uint8Array, n, shared);
   const results: FacingResults = {
     reason: byte(),
     status: byte(),

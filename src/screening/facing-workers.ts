@@ -1,8 +1,9 @@
 // The transect solve over worker threads: contiguous chunks of facings go to node:worker_threads
 // workers, each of which solves them with the same solveFacingRange as a run in process, writing
-// the results at their chunk's place in columns in shared memory. This thread solves chunks too between messages
-// (so N workers are this thread and N - 1 started ones), and blocks (Atomics.wait) only when none
-// is left, so the pipeline stays synchronous; messages are taken with receiveMessageOnPort.
+// the results at their chunk's place in columns in shared memory. This thread solves chunks too
+// between messages (so N workers are this thread and N - 1 started ones), and blocks
+// (Atomics.wait) only when none is left, so the pipeline stays synchronous; messages are taken
+// with receiveMessageOnPort.
 import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
@@ -12,6 +13,7 @@ import type { LineRecord, ZoneRecord } from './district-inputs.js';
 import { emptyResults, resetResults, resultsRange, type FacingInputs, type FacingResults, type SolveContext, type StationInputs } from './facing-columns.js';
 import { castIndexOf, sharedCastIndex, type CastIndex, type SharedCastIndex } from '../geometry/transects.js';
 import { castTransects } from '../geometry/index.js';
+import { newColumn } from '../shared/columns.js';
 
 /**
  * Fewer facings than this are solved in process: starting a worker and building its zone index
@@ -154,18 +156,17 @@ export function solveInWorkers(
   let ownIndex: CastIndex | null = null;
   const ownCast = cast ? { ...cast, index: () => (ownIndex ??= castIndexOf(cast.segments)) } : null;
   // the run's columns in shared memory: every thread writes its chunks there, nothing is copied back
-  const shared = (bytes: number) => new SharedArrayBuffer(bytes);
   const facings: FacingTable = given ?? {
     count: n,
-    partner: new Int32Array(shared(4 * n)),
-    reason: new Uint8Array(shared(n)),
-    transectLengthM: new Float64Array(shared(8 * n)),
-    endX: new Float64Array(shared(8 * n)),
-    endY: new Float64Array(shared(8 * n)),
-    partnerChainageM: new Float64Array(shared(8 * n)),
-    angleDeg: new Float64Array(shared(8 * n)),
-    hitLine: new Int32Array(shared(4 * n)),
-    partnerSide: new Uint8Array(shared(n)),
+    partner: newColumn(Int32Array, n, true),
+    reason: newColumn(Uint8Array, n, true),
+    transectLengthM: newColumn(Float64Array, n, true),
+    endX: newColumn(Float64Array, n, true),
+    endY: newColumn(Float64Array, n, true),
+    partnerChainageM: newColumn(Float64Array, n, true),
+    angleDeg: newColumn(Float64Array, n, true),
+    hitLine: newColumn(Int32Array, n, true),
+    partnerSide: newColumn(Uint8Array, n, true),
   };
   // about eight chunks a worker, so that one slow region does not hold the others up
   const chunkFacings = Math.min(MAX_CHUNK_FACINGS, Math.max(2, 2 * Math.ceil(n / (16 * workerTotal))));
