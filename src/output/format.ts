@@ -43,3 +43,15 @@ export function roundNumber(value: number): number | null {
   const rounded = Number(value.toPrecision(6));
   return Object.is(rounded, -0) ? 0 : rounded;
 }
+
+// items per piece of a long text made a piece at a time: a piece's strings die young
+export const ITEMS_PER_PIECE = 500;
+
+/** item(0) ... item(count - 1) joined by newlines, a few hundred per piece, each made only when its piece is asked for. */
+export function* joinedInPieces(count: number, item: (k: number) => string): Generator<string> {
+  for (let from = 0; from < count; from += ITEMS_PER_PIECE) {
+    let piece = '';
+    for (let k = from; k < Math.min(count, from + ITEMS_PER_PIECE); k++) piece += `${k > 0 ? '\n' : ''}${item(k)}`;
+    yield piece;
+  }
+}

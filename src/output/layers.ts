@@ -9,7 +9,7 @@ import type { StripSummary } from '../screening/aggregate.js';
 import { NOT_PAIRED } from '../screening/solve-facings.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { signedArea2 } from '../geometry/rings.js';
-import { roundNumber } from './format.js';
+import { ITEMS_PER_PIECE, roundNumber } from './format.js';
 import type { WorkCrs } from '../geometry/work-crs.js';
 
 function roundDegrees(value: number): number {
@@ -344,15 +344,12 @@ export function* rankingTablePieces(result: ScreenResult): Generator<string> {
   yield* csvPieces(RANKING_COLUMNS, result.strips.length, (i) => rankingRow(result.strips[i], i + 1));
 }
 
-// rows per piece of a CSV table: its cells die young, as a layer's features do
-const CSV_PIECE_ROWS = 500;
-
 /** A CSV table a few hundred rows at a time: the header, then row(i) for i < count, cells neutralised. */
 function* csvPieces(columns: readonly string[], count: number, row: (i: number) => Record<string, unknown>): Generator<string> {
   yield stringify([[...columns]], { record_delimiter: 'unix' });
-  for (let from = 0; from < count; from += CSV_PIECE_ROWS) {
+  for (let from = 0; from < count; from += ITEMS_PER_PIECE) {
     const rows: unknown[][] = [];
-    for (let i = from; i < Math.min(count, from + CSV_PIECE_ROWS); i++) {
+    for (let i = from; i < Math.min(count, from + ITEMS_PER_PIECE); i++) {
       const cells = row(i);
       rows.push(columns.map((column) => neutraliseCell(cells[column] ?? '')));
     }

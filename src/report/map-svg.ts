@@ -6,7 +6,7 @@ import type { StripSummary } from '../screening/aggregate.js';
 import type { Grid } from '../geometry/grid.js';
 import type { ScreenResult } from '../screening/screen.js';
 import { escapeHtml } from './escape.js';
-import { formatFixed, formatGrouped, roundDown125 } from '../output/format.js';
+import { formatFixed, formatGrouped, joinedInPieces, roundDown125 } from '../output/format.js';
 import { LINE_COLOURS, STRIP_CLASSES, STRIP_STYLES, patternId, stripPatternDefs, type StripClass } from './palette.js';
 import { fitView, pathData, tenthX, tenthY, type MapView } from './svg-path.js';
 import { depthImage } from './depth-image.js';
@@ -286,18 +286,6 @@ export function renderDistrictMap(result: ScreenResult, options: MapOptions = {}
   let svg = '';
   for (const piece of drawing.svg) svg += piece;
   return { svg, key: drawing.key };
-}
-
-// shapes per piece of the map's SVG: a piece's strings die young
-const SHAPES_PER_PIECE = 500;
-
-/** item(0) ... item(count - 1) joined by newlines, a few hundred per piece. */
-function* joinedInPieces(count: number, item: (k: number) => string): Generator<string> {
-  for (let from = 0; from < count; from += SHAPES_PER_PIECE) {
-    let piece = '';
-    for (let k = from; k < Math.min(count, from + SHAPES_PER_PIECE); k++) piece += `${k > 0 ? '\n' : ''}${item(k)}`;
-    yield piece;
-  }
 }
 
 /**

@@ -15,7 +15,7 @@ import { keyFacing, profileOfFacing } from '../screening/profile.js';
 import type { ScreenResult } from '../screening/screen.js';
 import type { InputRules } from '../shared/input-rules.js';
 import { escapeHtml } from './escape.js';
-import { formatFixed, formatGrouped } from '../output/format.js';
+import { formatFixed, formatGrouped, joinedInPieces } from '../output/format.js';
 import { districtMapPieces } from './map-svg.js';
 import { columnKind, PAGE_CSS, PAGE_SCRIPT } from './page-assets.js';
 import { STRIP_CLASSES, STRIP_STYLES, patternId } from './palette.js';
@@ -227,9 +227,6 @@ function rankingHeadings(result: ScreenResult): Record<(typeof RANKING_COLUMNS)[
   };
 }
 
-// rows of a long table per piece of the report: a piece's strings die young
-const TABLE_PIECE_ROWS = 500;
-
 /** The ranked strips' table, a few hundred rows per piece. */
 function* rankingSection(result: ScreenResult, rowsShown: number): Generator<string> {
   const headings = rankingHeadings(result);
@@ -262,11 +259,7 @@ function* rankingSection(result: ScreenResult, rowsShown: number): Generator<str
     `<div class="table-wrap"><table id="ranking-table" class="ranking${capped ? ' is-capped' : ''}"><thead><tr>${head}</tr></thead>` +
     `<tbody>\n`
   );
-  for (let from = 0; from < count; from += TABLE_PIECE_ROWS) {
-    let piece = '';
-    for (let i = from; i < Math.min(count, from + TABLE_PIECE_ROWS); i++) piece += `${i > 0 ? '\n' : ''}${row(i)}`;
-    yield piece;
-  }
+  yield* joinedInPieces(count, row);
   yield `\n</tbody></table></div></section>`;
 }
 
